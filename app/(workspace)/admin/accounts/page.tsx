@@ -1,0 +1,63 @@
+import type { Metadata } from "next";
+import { AccountRowControls, CreateAccountForm } from "@/components/account-forms";
+import { listAccounts } from "@/db/queries/accounts";
+import { can } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/auth/roles";
+import { requireUser } from "@/lib/server/current-user";
+
+export const metadata: Metadata = { title: "Accounts" };
+
+export default async function AccountsPage() {
+  const user = await requireUser();
+  if (!can(user, "accounts.manage")) {
+    return (
+      <div className="card max-w-xl">
+        <h1>Accounts</h1>
+        <p className="mt-2">Only administrators manage accounts.</p>
+      </div>
+    );
+  }
+  const accounts = await listAccounts(user);
+  return (
+    <div className="flex flex-col gap-6">
+      <div>
+        <h1>Accounts</h1>
+        <p className="text-ink-soft">Who can sign in, and in which role. Changes take effect on the person&apos;s next request.</p>
+      </div>
+      <div className="card overflow-x-auto p-0">
+        <table className="table">
+          <thead>
+            <tr>
+              <th scope="col">Name</th>
+              <th scope="col">E-mail</th>
+              <th scope="col">Role</th>
+              <th scope="col">Status</th>
+              <th scope="col">Change</th>
+            </tr>
+          </thead>
+          <tbody>
+            {accounts.map((a) => (
+              <tr key={a.id}>
+                <td className="font-medium">{a.name}</td>
+                <td>{a.email}</td>
+                <td>{ROLE_LABELS[a.role]}</td>
+                <td>
+                  <span className={a.active ? "badge" : "badge badge-muted"}>{a.active ? "Active" : "Deactivated"}</span>
+                </td>
+                <td>
+                  <AccountRowControls userId={a.id} name={a.name} role={a.role} active={a.active} self={a.id === user.id} />
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <section className="card" aria-labelledby="new-account">
+        <h2 id="new-account" className="mb-3">
+          New account
+        </h2>
+        <CreateAccountForm />
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,18 @@
+import type { Metadata, Viewport } from "next";
+import { plexMono, plexSans, plexSerif } from "./fonts";
+import "./globals.css";
+
+export const metadata: Metadata = {
+  title: { default: "Delta Ledger", template: "%s · Delta Ledger" },
+  description: "Plan a funded study's sample size and its recruitment budget together.",
+};
+
+export const viewport: Viewport = { width: "device-width", initialScale: 1 };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={`${plexSans.variable} ${plexSerif.variable} ${plexMono.variable}`}>
+      <body className="min-h-screen antialiased">{children}</body>
+    </html>
+  );
+}

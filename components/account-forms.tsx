@@ -1,0 +1,100 @@
+"use client";
+
+import { getFormProps, getInputProps, getSelectProps, useForm } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { useActionState } from "react";
+import { changeRoleAction, createAccountAction, setActiveAction } from "@/app/(workspace)/admin/accounts/actions";
+import { ACCOUNT_ROLES, ROLE_LABELS, type AccountRole } from "@/lib/auth/roles";
+import { createAccountSchema } from "@/lib/auth/schemas";
+import { describedBy, Field, FormErrors } from "./form/field";
+
+export function CreateAccountForm() {
+  const [lastResult, action, pending] = useActionState(createAccountAction, undefined);
+  const [form, fields] = useForm({
+    lastResult,
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: createAccountSchema }),
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+  });
+  return (
+    <form {...getFormProps(form)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
+      <div className="md:col-span-2">
+        <FormErrors errors={form.errors} />
+        {lastResult?.status === "success" ? (
+          <p className="notice" role="status">
+            Account created.
+          </p>
+        ) : null}
+      </div>
+      <Field id={fields.name.id} label="Name" errors={fields.name.errors}>
+        <input {...getInputProps(fields.name, { type: "text" })} key={fields.name.key} className="input" aria-describedby={describedBy(fields.name.id, false, fields.name.errors)} />
+      </Field>
+      <Field id={fields.email.id} label="E-mail" errors={fields.email.errors}>
+        <input {...getInputProps(fields.email, { type: "email" })} key={fields.email.key} className="input" aria-describedby={describedBy(fields.email.id, false, fields.email.errors)} />
+      </Field>
+      <Field id={fields.role.id} label="Role" errors={fields.role.errors}>
+        <select {...getSelectProps(fields.role)} key={fields.role.key} className="input" aria-describedby={describedBy(fields.role.id, false, fields.role.errors)}>
+          <option value="">Choose…</option>
+          {ACCOUNT_ROLES.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
+        </select>
+      </Field>
+      <Field id={fields.password.id} label="First password" hint="At least 8 characters; the person can change it later." errors={fields.password.errors}>
+        <input
+          {...getInputProps(fields.password, { type: "password" })}
+          key={fields.password.key}
+          autoComplete="new-password"
+          className="input"
+          aria-describedby={describedBy(fields.password.id, true, fields.password.errors)}
+        />
+      </Field>
+      <div className="md:col-span-2">
+        <button type="submit" className="btn" disabled={pending}>
+          {pending ? "Creating…" : "Create account"}
+        </button>
+      </div>
+    </form>
+  );
+}
+
+export function AccountRowControls({ userId, name, role, active, self }: { userId: number; name: string; role: AccountRole; active: boolean; self: boolean }) {
+  const [roleResult, roleAction, rolePending] = useActionState(changeRoleAction, undefined);
+  const [activeResult, activeAction, activePending] = useActionState(setActiveAction, undefined);
+  const error = [...(roleResult?.error?.[""] ?? []), ...(roleResult?.error?.role ?? []), ...(activeResult?.error?.[""] ?? [])];
+  if (self) return <span className="text-sm text-ink-soft">Your account</span>;
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      <form action={roleAction} className="flex items-center gap-2">
+        <input type="hidden" name="userId" value={userId} />
+        <label className="sr-only" htmlFor={`role-${userId}`}>
+          Role of {name}
+        </label>
+        <select id={`role-${userId}`} name="role" defaultValue={role} className="input py-1">
+          {ACCOUNT_ROLES.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
+        </select>
+        <button type="submit" className="btn btn-quiet py-1" disabled={rolePending}>
+          Change role
+        </button>
+      </form>
+      <form action={activeAction}>
+        <input type="hidden" name="userId" value={userId} />
+        <input type="hidden" name="active" value={active ? "0" : "1"} />
+        <button type="submit" className={active ? "btn btn-danger py-1" : "btn btn-quiet py-1"} disabled={activePending}>
+          {active ? "Deactivate" : "Reactivate"}
+        </button>
+      </form>
+      {error.length ? (
+        <span className="text-sm text-signal" role="alert">
+          {error.join(" ")}
+        </span>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,25 @@
+"use client";
+
+import Link from "next/link";
+import { usePathname } from "next/navigation";
+
+export function NavLinks({ items }: { items: { href: string; label: string }[] }) {
+  const path = usePathname();
+  return (
+    <nav aria-label="Main" className="flex flex-wrap gap-1">
+      {items.map((item) => {
+        const active = path === item.href || path.startsWith(`${item.href}/`);
+        return (
+          <Link
+            key={item.href}
+            href={item.href}
+            aria-current={active ? "page" : undefined}
+            className={`rounded px-3 py-1 text-sm text-white hover:bg-white/10 hover:text-white ${active ? "bg-white/20 font-semibold" : ""}`}
+          >
+            {item.label}
+          </Link>
+        );
+      })}
+    </nav>
+  );
+}

@@ -1,0 +1,109 @@
+/**
+ * The one place that says who may do what (../shared/DESIGN.md, "Roles").
+ * Pure functions: every server action, route handler and data-access function asks here.
+ *
+ * Refusals come in two kinds: a role that may never take an action is refused (403);
+ * a role that may, asking about a record it may not see, is told the record is not there (404).
+ */
+import type { AccountRole, ScenarioState } from "./roles";
+
+export type Actor = { id: number; role: AccountRole };
+
+/** How the actor stands to one study: owner, member, or neither. */
+export type Membership = "owner" | "member" | null;
+
+export type Action =
+  | "accounts.manage"
+  | "outbox.view"
+  | "study.create"
+  | "study.invite"
+  | "study.view"
+  | "scenario.view"
+  | "scenario.edit"
+  | "scenario.comment"
+  | "scenario.submit"
+  | "scenario.review"
+  | "ratebook.edit"
+  | "ratebook.read"
+  | "workbook.download";
+
+export type Context = { membership?: Membership; scenarioState?: ScenarioState };
+
+export type Decision = "allow" | "forbidden" | "not-found";
+
+const FINANCE_STATES: readonly ScenarioState[] = ["in-review", "cleared"];
+
+/** Whether the actor may see the study at all; finance and grants officers see every study. */
+export function studyVisibility(actor: Actor, membership: Membership): Decision {
+  switch (actor.role) {
+    case "grants-officer":
+    case "finance":
+      return "allow";
+    case "investigator":
+    case "co-investigator":
+      return membership ? "allow" : "not-found";
+    default:
+      return "forbidden";
+  }
+}
+
+/** Whether the actor may see one scenario of a study it can see. */
+function scenarioVisibility(actor: Actor, ctx: Context): Decision {
+  const study = studyVisibility(actor, ctx.membership ?? null);
+  if (study !== "allow") return study;
+  if (actor.role === "finance" && !(ctx.scenarioState && FINANCE_STATES.includes(ctx.scenarioState))) {
+    return "not-found";
+  }
+  return "allow";
+}
+
+export function decide(actor: Actor, action: Action, ctx: Context = {}): Decision {
+  const role = actor.role;
+  const owner = ctx.membership === "owner";
+  switch (action) {
+    case "accounts.manage":
+    case "outbox.view":
+      return role === "admin" ? "allow" : "forbidden";
+    case "ratebook.read":
+      return "allow";
+    case "ratebook.edit":
+    case "scenario.review":
+      if (role !== "grants-officer") return "forbidden";
+      return action === "scenario.review" ? scenarioVisibility(actor, ctx) : "allow";
+    case "study.create":
+      return role === "investigator" ? "allow" : "forbidden";
+    case "study.view":
+      return studyVisibility(actor, ctx.membership ?? null);
+    case "scenario.view":
+      return scenarioVisibility(actor, ctx);
+    case "study.invite":
+    case "scenario.edit":
+    case "scenario.submit": {
+      if (role !== "investigator" && role !== "co-investigator") return "forbidden";
+      const seen = studyVisibility(actor, ctx.membership ?? null);
+      if (seen !== "allow") return seen;
+      return owner ? "allow" : "forbidden";
+    }
+    case "scenario.comment": {
+      if (role === "finance" || role === "admin") return "forbidden";
+      return scenarioVisibility(actor, ctx);
+    }
+    case "workbook.download": {
+      if (role === "admin") return "forbidden";
+      return scenarioVisibility(actor, ctx);
+    }
+  }
+}
+
+export function can(actor: Actor, action: Action, ctx: Context = {}): boolean {
+  return decide(actor, action, ctx) === "allow";
+}
+
+/** What the navigation offers: each entry is shown only to the roles that may use it. */
+export function navigationFor(role: AccountRole): { href: string; label: string }[] {
+  const items: { href: string; label: string }[] = [];
+  const actor: Actor = { id: 0, role };
+  if (studyVisibility(actor, "owner") === "allow") items.push({ href: "/studies", label: "Studies" });
+  if (can(actor, "accounts.manage")) items.push({ href: "/admin/accounts", label: "Accounts" });
+  return items;
+}

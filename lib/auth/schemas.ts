@@ -1,0 +1,40 @@
+import { z } from "zod";
+import { PASSWORD_MAX, PASSWORD_MIN } from "./password";
+import { ACCOUNT_ROLES } from "./roles";
+
+export const emailField = z
+  .string({ error: "Enter an e-mail address." })
+  .trim()
+  .min(1, "Enter an e-mail address.")
+  .max(254, "That e-mail address is too long.")
+  .pipe(z.email({ error: "Enter a valid e-mail address, like name@example.org." }))
+  .transform((s) => s.toLowerCase());
+
+export const signInSchema = z.object({
+  email: emailField,
+  // Sign-in checks only presence and a ceiling; the length rules apply when a password is set.
+  password: z
+    .string({ error: "Enter your password." })
+    .min(1, "Enter your password.")
+    .max(PASSWORD_MAX, `Passwords are at most ${PASSWORD_MAX} characters.`),
+});
+
+export const newPasswordField = z
+  .string({ error: "Enter a password." })
+  .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
+  .max(PASSWORD_MAX, `Use at most ${PASSWORD_MAX} characters.`);
+
+export const roleField = z.enum(ACCOUNT_ROLES, { error: "Choose one of the five roles." });
+
+export const createAccountSchema = z.object({
+  email: emailField,
+  name: z.string({ error: "Enter the person's name." }).trim().min(1, "Enter the person's name.").max(120, "Use at most 120 characters."),
+  role: roleField,
+  password: newPasswordField,
+});
+
+export const changeRoleSchema = z.object({ userId: z.coerce.number().int().positive(), role: roleField });
+export const setActiveSchema = z.object({
+  userId: z.coerce.number().int().positive(),
+  active: z.enum(["0", "1"]).transform((v) => v === "1"),
+});

@@ -1,0 +1,10 @@
+import type { Migration } from "kysely";
+import * as foundation from "./2026-12-01-0001-foundation";
+
+/**
+ * Every migration, keyed by its dated file name (Kysely runs them in key order).
+ * A static list rather than a folder scan, so the same Migrator works under tsx, vitest and any bundler.
+ */
+export const migrations: Record<string, Migration> = {
+  "2026-12-01-0001-foundation": foundation,
+};

@@ -1,0 +1,33 @@
+import path from "node:path";
+import { defineConfig } from "vitest/config";
+
+const alias = {
+  "@": path.resolve(__dirname),
+  // The real package throws outside React Server Components; in tests the modules run in plain Node.
+  "server-only": path.resolve(__dirname, "tests/support/server-only-stub.ts"),
+};
+
+export default defineConfig({
+  resolve: { alias },
+  test: {
+    projects: [
+      { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
+      {
+        resolve: { alias },
+        test: { name: "integration", include: ["tests/integration/**/*.test.ts"], environment: "node", testTimeout: 30_000, pool: "forks" },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: "e2e",
+          include: ["tests/e2e/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/e2e/global-setup.ts"],
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+});
