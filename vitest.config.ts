@@ -2,9 +2,9 @@ import path from "node:path";
 import { defineConfig } from "vitest/config";
 
 const alias = {
-  "@": path.resolve(__dirname),
+  "@": path.resolve(import.meta.dirname),
   // The real package throws outside React Server Components; in tests the modules run in plain Node.
-  "server-only": path.resolve(__dirname, "tests/support/server-only-stub.ts"),
+  "server-only": path.resolve(import.meta.dirname, "tests/support/server-only-stub.ts"),
 };
 
 export default defineConfig({

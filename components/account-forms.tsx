@@ -7,6 +7,7 @@ import { changeRoleAction, createAccountAction, setActiveAction } from "@/app/(w
 import { ACCOUNT_ROLES, ROLE_LABELS, type AccountRole } from "@/lib/auth/roles";
 import { createAccountSchema } from "@/lib/auth/schemas";
 import { describedBy, Field, FormErrors } from "./form/field";
+import { keptSubmit } from "./form/kept-submit";
 
 export function CreateAccountForm() {
   const [lastResult, action, pending] = useActionState(createAccountAction, undefined);
@@ -17,7 +18,7 @@ export function CreateAccountForm() {
     shouldRevalidate: "onInput",
   });
   return (
-    <form {...getFormProps(form)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
+    <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
       <div className="md:col-span-2">
         <FormErrors errors={form.errors} />
         {lastResult?.status === "success" ? (

@@ -6,6 +6,7 @@ import { useActionState } from "react";
 import { createStudyAction } from "@/app/(workspace)/studies/actions";
 import { studyCreateSchema } from "@/lib/studies/schema";
 import { describedBy, Field, FormErrors } from "./form/field";
+import { keptSubmit } from "./form/kept-submit";
 
 export function NewStudyForm() {
   const [lastResult, action, pending] = useActionState(createStudyAction, undefined);
@@ -24,7 +25,7 @@ export function NewStudyForm() {
     );
   };
   return (
-    <form {...getFormProps(form)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
+    <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
       <div className="md:col-span-2">
         <FormErrors errors={form.errors} />
       </div>

@@ -6,6 +6,7 @@ import { useActionState } from "react";
 import { signInAction } from "@/app/(auth)/sign-in/actions";
 import { signInSchema } from "@/lib/auth/schemas";
 import { describedBy, Field, FormErrors } from "./form/field";
+import { keptSubmit } from "./form/kept-submit";
 
 export function SignInForm() {
   const [lastResult, action, pending] = useActionState(signInAction, undefined);
@@ -16,7 +17,7 @@ export function SignInForm() {
     shouldRevalidate: "onInput",
   });
   return (
-    <form {...getFormProps(form)} action={action} className="flex flex-col gap-4" noValidate>
+    <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="flex flex-col gap-4" noValidate>
       <FormErrors errors={form.errors} />
       <Field id={fields.email.id} label="E-mail" errors={fields.email.errors}>
         <input

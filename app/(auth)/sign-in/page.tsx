@@ -12,7 +12,7 @@ export default async function SignInPage() {
   if (user) redirect(homeFor(user.role));
   return (
     <main className="mx-auto flex min-h-screen max-w-5xl flex-col items-stretch justify-center gap-10 px-5 py-10 md:flex-row md:items-center">
-      <section className="flex-1 text-ledger-dark">
+      <section className="text-ledger-dark md:flex-1">
         <Wordmark size="lg" />
         <p className="mt-4 max-w-md text-lg text-ink">
           Size the study and cost it in one place: see what each budget can detect, weigh costed scenarios against the sponsor&apos;s cap,

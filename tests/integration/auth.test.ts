@@ -1,0 +1,177 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import { setAccountActive, changeRole } from "@/db/queries/accounts";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import * as studiesRoute from "@/app/api/v1/studies/route";
+import * as studyRoute from "@/app/api/v1/studies/[studyId]/route";
+import { LOGIN_MAX_FAILURES } from "@/lib/auth/session-options";
+import { cookieFrom, params, request, signInAs } from "../support/http";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+
+let dir = "";
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+});
+afterAll(() => dropDatabase(dir));
+
+async function userId(email: string): Promise<number> {
+  return (await getDb().selectFrom("users").select("id").where("email", "=", email).executeTakeFirstOrThrow()).id;
+}
+
+describe("sign-in over the API", () => {
+  it("signs in, sets an httpOnly SameSite=Lax cookie and reports who", async () => {
+    const res = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "PI@demo.test ", password: "demo-pass-2026" } }));
+    expect(res.status).toBe(200);
+    const set = res.headers.get("set-cookie")!;
+    expect(set).toMatch(/HttpOnly/);
+    expect(set).toMatch(/SameSite=Lax/);
+    expect(set).toMatch(/Max-Age=\d+/);
+    expect(set).not.toMatch(/Secure/);
+    const body = await res.json();
+    expect(body.user).toMatchObject({ email: "pi@demo.test", role: "investigator" });
+    const who = await sessionRoute.GET(request("GET", "/api/v1/session", { cookie: cookieFrom(res) }));
+    expect(await who.json()).toEqual({ user: { id: body.user.id, email: "pi@demo.test", name: "Dr Ada Okonkwo-Reyes", role: "investigator" } });
+  });
+
+  it("marks the cookie Secure behind https", async () => {
+    const res = await sessionRoute.POST(
+      request("POST", "/api/v1/session", { body: { email: "coi@demo.test", password: "demo-pass-2026" }, headers: { "x-forwarded-proto": "https" } }),
+    );
+    expect(res.headers.get("set-cookie")).toMatch(/Secure/);
+  });
+
+  it("answers an unknown e-mail and a wrong password alike", async () => {
+    const unknown = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "nobody@demo.test", password: "demo-pass-2026" } }));
+    const wrong = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "finance@demo.test", password: "wrong-password" } }));
+    expect(unknown.status).toBe(401);
+    expect(wrong.status).toBe(401);
+    expect(await unknown.json()).toEqual(await wrong.json());
+  });
+
+  it("gives a new session id at every sign-in", async () => {
+    const a = await signInAs(sessionRoute, "grants@demo.test");
+    const b = await signInAs(sessionRoute, "grants@demo.test");
+    expect(a).not.toBe(b);
+    const count = await getDb().selectFrom("sessions").select((e) => e.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+    expect(Number(count.n)).toBeGreaterThanOrEqual(2);
+  });
+
+  it("names the field on bad input and refuses bad JSON", async () => {
+    const res = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "not-an-email", password: "" } }));
+    expect(res.status).toBe(400);
+    const body = await res.json();
+    expect(Object.keys(body.error.fields)).toEqual(expect.arrayContaining(["email", "password"]));
+    const bad = await sessionRoute.POST(request("POST", "/api/v1/session", { body: "{not json" }));
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error.code).toBe("invalid-json");
+  });
+
+  it("throttles an account after repeated failures, even with the right password", async () => {
+    for (let i = 0; i < LOGIN_MAX_FAILURES; i++) {
+      const r = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "admin@demo.test", password: `guess-${i}-xx` } }));
+      expect(r.status).toBe(401);
+    }
+    const res = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "admin@demo.test", password: "demo-pass-2026" } }));
+    expect(res.status).toBe(429);
+    expect(Number(res.headers.get("retry-after"))).toBeGreaterThan(0);
+    // Unknown e-mails are throttled the same way, so throttling does not reveal which accounts exist.
+    for (let i = 0; i < LOGIN_MAX_FAILURES; i++) {
+      await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: `guess-${i}-xx` } }));
+    }
+    expect((await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: "x" } }))).status).toBe(429);
+  });
+
+  it("sign-out makes the old cookie worthless", async () => {
+    const cookie = await signInAs(sessionRoute, "coi@demo.test");
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(200);
+    expect((await sessionRoute.DELETE(request("DELETE", "/api/v1/session", { cookie }))).status).toBe(200);
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(401);
+    expect((await studiesRoute.GET(request("GET", "/api/v1/studies", { cookie }))).status).toBe(401);
+  });
+
+  it("a deactivated account is refused at once and cannot sign in again", async () => {
+    const cookie = await signInAs(sessionRoute, "finance@demo.test");
+    const admin = { id: await userId("admin@demo.test"), role: "admin" as const };
+    await setAccountActive(admin, await userId("finance@demo.test"), false);
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(401);
+    const again = await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "finance@demo.test", password: "demo-pass-2026" } }));
+    expect(again.status).toBe(401);
+    await setAccountActive(admin, await userId("finance@demo.test"), true);
+  });
+
+  it("a role change applies to the next request of an open session", async () => {
+    const cookie = await signInAs(sessionRoute, "finance@demo.test");
+    const admin = { id: await userId("admin@demo.test"), role: "admin" as const };
+    await changeRole(admin, await userId("finance@demo.test"), "grants-officer");
+    const who = await (await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).json();
+    expect(who.user.role).toBe("grants-officer");
+    await changeRole(admin, await userId("finance@demo.test"), "finance");
+    const audit = await getDb().selectFrom("audit_log").selectAll().where("field", "=", "role").execute();
+    expect(audit.map((a) => [a.old_value, a.new_value])).toEqual([
+      ["finance", "grants-officer"],
+      ["grants-officer", "finance"],
+    ]);
+  });
+
+  it("a tampered cookie reads as signed out", async () => {
+    const cookie = await signInAs(sessionRoute, "pi@demo.test");
+    const tampered = cookie.slice(0, -4) + (cookie.endsWith("AAAA") ? "BBBB" : "AAAA");
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie: tampered }))).status).toBe(401);
+  });
+
+  it("refuses cross-site state changes", async () => {
+    const cookie = await signInAs(sessionRoute, "pi@demo.test");
+    const evil = await studiesRoute.POST(
+      request("POST", "/api/v1/studies", { cookie, body: {}, headers: { origin: "https://evil.example" } }),
+    );
+    expect(evil.status).toBe(403);
+    const fetchSite = await sessionRoute.DELETE(request("DELETE", "/api/v1/session", { cookie, headers: { "sec-fetch-site": "cross-site" } }));
+    expect(fetchSite.status).toBe(403);
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(200);
+  });
+});
+
+describe("studies and membership", () => {
+  it("a member of one study asking for another study gets 404, as for a study that does not exist", async () => {
+    const pi = await signInAs(sessionRoute, "pi@demo.test");
+    const created = await studiesRoute.POST(
+      request("POST", "/api/v1/studies", {
+        cookie: pi,
+        body: { code: "PILOT-2", title: "A second invented study", sponsor: "Invented Fund", startDate: "2028-01-01", sponsorCap: "$500,000" },
+      }),
+    );
+    expect(created.status).toBe(201);
+    const { id } = await created.json();
+    const coi = await signInAs(sessionRoute, "coi@demo.test");
+    const other = await studyRoute.GET(request("GET", `/api/v1/studies/${id}`, { cookie: coi }), params({ studyId: String(id) }));
+    const missing = await studyRoute.GET(request("GET", "/api/v1/studies/99999", { cookie: coi }), params({ studyId: "99999" }));
+    expect(other.status).toBe(404);
+    expect(missing.status).toBe(404);
+    expect((await other.json()).error.message).toBe((await missing.json()).error.message);
+    const list = await (await studiesRoute.GET(request("GET", "/api/v1/studies", { cookie: coi }))).json();
+    expect(list.studies.map((s: { code: string }) => s.code)).toEqual(["WALK-KNEE"]);
+    const mine = await (await studyRoute.GET(request("GET", `/api/v1/studies/${id}`, { cookie: pi }), params({ studyId: String(id) }))).json();
+    expect(mine.study).toMatchObject({ code: "PILOT-2", sponsorCap: "500000", membership: "owner" });
+  });
+
+  it("the grants office sees every study; a co-investigator may not create one", async () => {
+    const grants = await signInAs(sessionRoute, "grants@demo.test");
+    const list = await (await studiesRoute.GET(request("GET", "/api/v1/studies", { cookie: grants }))).json();
+    expect(list.studies.length).toBe(2);
+    const coi = await signInAs(sessionRoute, "coi@demo.test");
+    const res = await studiesRoute.POST(
+      request("POST", "/api/v1/studies", { cookie: coi, body: { code: "NOPE-1", title: "Not allowed", sponsor: "X Fund", startDate: "2028-01-01" } }),
+    );
+    expect(res.status).toBe(403);
+  });
+
+  it("validation names the field and saves nothing", async () => {
+    const pi = await signInAs(sessionRoute, "pi@demo.test");
+    const before = await getDb().selectFrom("studies").select("id").execute();
+    const res = await studiesRoute.POST(request("POST", "/api/v1/studies", { cookie: pi, body: { code: "x", title: "", sponsor: "S", startDate: "soon", sponsorCap: "lots" } }));
+    expect(res.status).toBe(400);
+    const { error } = await res.json();
+    expect(Object.keys(error.fields).sort()).toEqual(["code", "sponsor", "sponsorCap", "startDate", "title"]);
+    expect((await getDb().selectFrom("studies").select("id").execute()).length).toBe(before.length);
+  });
+});
