@@ -1,0 +1,28 @@
+/**
+ * The funnel: evaluable → enrolled → screened, per arm, rounding up at each step.
+ * Enrolled = evaluable / (1 − attrition), not evaluable × (1 + attrition) (common practice; the
+ * CONSORT 2010 explanation's example: 45 evaluable per group with 10% loss → 50).
+ * decimal.js keeps 45 / 0.9 exactly 50, where floating point would round it up to 51.
+ */
+import Decimal from "decimal.js";
+import type { Funnel, FunnelArm } from "./schema";
+
+export function inflate(n: number, rate: number): number {
+  if (rate <= 0) return n;
+  return new Decimal(n).div(new Decimal(1).minus(new Decimal(rate))).ceil().toNumber();
+}
+
+export function funnelArm(evaluable: number, attrition: number, screenFailure: number): FunnelArm {
+  const enrolled = inflate(evaluable, attrition);
+  return { evaluable, enrolled, screened: inflate(enrolled, screenFailure) };
+}
+
+export function buildFunnel(arms: number[], attrition: number, screenFailure: number): Funnel {
+  const rows = arms.map((n) => funnelArm(n, attrition, screenFailure));
+  const total = rows.reduce((t, a) => ({ evaluable: t.evaluable + a.evaluable, enrolled: t.enrolled + a.enrolled, screened: t.screened + a.screened }), {
+    evaluable: 0,
+    enrolled: 0,
+    screened: 0,
+  });
+  return { attrition, screenFailure, arms: rows, total };
+}

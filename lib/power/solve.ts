@@ -1,0 +1,361 @@
+/**
+ * solve(): validates the input with the contract's schema and solves whichever of power, the
+ * sample size and the effect was left out.
+ */
+import { BENCHMARK_CAUTION, effectContext, standardWarnings } from "./context";
+import {
+  clusterMeansClusters,
+  clusterMeansEffect,
+  clusterMeansPower,
+  designEffect,
+  oneMeanEffect,
+  oneMeanN,
+  oneMeanPower,
+  twoMeansEffect,
+  twoMeansN,
+  twoMeansPower,
+} from "./designs/means";
+import { cohenH, proportionsEffect, proportionsN, proportionsPower, type ProportionsMethod } from "./designs/proportions";
+import { secondArm } from "./designs/shared";
+import { eventProbabilities, eventsNeeded, expectedEvents, survivalEffect, survivalPower, survivalPowerFromEvents } from "./designs/survival";
+import { buildFunnel } from "./funnel";
+import { pilotSdUpperLimit } from "./pilot";
+import { MAX_N_PER_ARM, powerInputSchema, type ParsedPowerInput, type PowerInput, type PowerResult } from "./schema";
+import { UnreachableError } from "./search";
+
+export class PowerInputError extends Error {
+  constructor(readonly issues: { path: string; message: string }[]) {
+    super(issues[0]?.message ?? "The input is not valid.");
+  }
+}
+
+type Parsed<D extends ParsedPowerInput["design"]> = Extract<ParsedPowerInput, { design: D }>;
+
+const METHOD = {
+  twoMeans: "Exact t test, two independent groups (noncentral t, df = n1 + n2 − 2)",
+  oneMean: "Exact t test, one sample or paired differences (noncentral t, df = n − 1)",
+  proportions: {
+    normal: "Normal approximation, variance pooled under H0 and unpooled under H1, no continuity correction",
+    "continuity-corrected": "Normal approximation with continuity correction (Fleiss, Tytun & Ury 1980)",
+    arcsine: "Arcsine transformation, Cohen's h",
+  } satisfies Record<ProportionsMethod, string>,
+  clusterMeans: "Exact t test on cluster degrees of freedom (k1 + k2 − 2), design effect 1 + ((CV² + 1)m̄ − 1)ICC",
+  clusterProportions: "Normal approximation, pooled under H0 and unpooled under H1, variances inflated by the design effect 1 + ((CV² + 1)m̄ − 1)ICC",
+  schoenfeld: "Schoenfeld (1983) events for the log-rank test; exponential survival, uniform accrual",
+  freedman: "Freedman (1982) events for the log-rank test; exponential survival, uniform accrual",
+};
+
+/** Resolves the standardized effect from effectSize, or meanDifference / sd (or the pilot SD's upper limit). */
+function standardized(v: Parsed<"two-means" | "one-mean" | "cluster-two-means">) {
+  const pilot = v.pilotSd ? { ...v.pilotSd, ...pilotSdUpperLimit(v.pilotSd.sd, v.pilotSd.n, v.pilotSd.confidence) } : undefined;
+  const sdUsed = pilot ? pilot.upperLimit : v.sd;
+  const d = v.effectSize ?? (v.meanDifference !== undefined && sdUsed ? Math.abs(v.meanDifference) / sdUsed : undefined);
+  return { d, sdUsed, pilot };
+}
+
+function finish(
+  v: ParsedPowerInput,
+  core: Omit<PowerResult, "alpha" | "sides" | "warnings" | "funnel" | "nTotal" | "context"> & { context?: PowerResult["context"] },
+  warnings: string[],
+): PowerResult {
+  const arms = core.n2 === null ? [core.n1] : [core.n1, core.n2];
+  return {
+    ...core,
+    alpha: v.alpha,
+    sides: v.sides,
+    nTotal: arms.reduce((a, b) => a + b, 0),
+    context: core.context ?? null,
+    warnings,
+    funnel: buildFunnel(arms, v.attrition, v.screenFailure),
+  };
+}
+
+function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
+  const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio };
+  const { d: given, sdUsed, pilot } = standardized(v);
+  let n1: number, n2: number, d: number, power: number, solvedFor: PowerResult["solvedFor"];
+  if (v.n1 === undefined) {
+    d = given!;
+    ({ n1, n2 } = twoMeansN(d, v.power!, s));
+    solvedFor = "n";
+  } else {
+    n1 = v.n1;
+    n2 = v.n2 ?? secondArm(n1, v.allocationRatio);
+    if (given === undefined) {
+      d = twoMeansEffect(v.power!, n1, n2, s);
+      solvedFor = "effect";
+    } else {
+      d = given;
+      solvedFor = "power";
+    }
+  }
+  power = solvedFor === "effect" ? v.power! : twoMeansPower(d, n1, n2, s);
+  return finish(
+    v,
+    {
+      design: v.design,
+      solvedFor,
+      allocationRatio: v.n2 !== undefined ? n2 / n1 : v.allocationRatio,
+      n1,
+      n2,
+      power,
+      effectSize: d,
+      method: METHOD.twoMeans,
+      context: effectContext("d", d),
+      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
+      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+    },
+    standardWarnings({ power, perGroup: [n1, n2], standardizedEffect: d }),
+  );
+}
+
+function solveOneMean(v: Parsed<"one-mean">): PowerResult {
+  const s = { alpha: v.alpha, sides: v.sides };
+  const { d: given, sdUsed, pilot } = standardized(v);
+  let n: number, d: number, solvedFor: PowerResult["solvedFor"];
+  if (v.n1 === undefined) {
+    d = given!;
+    n = oneMeanN(d, v.power!, s);
+    solvedFor = "n";
+  } else if (given === undefined) {
+    n = v.n1;
+    d = oneMeanEffect(v.power!, n, s);
+    solvedFor = "effect";
+  } else {
+    n = v.n1;
+    d = given;
+    solvedFor = "power";
+  }
+  const power = solvedFor === "effect" ? v.power! : oneMeanPower(d, n, s);
+  return finish(
+    v,
+    {
+      design: v.design,
+      solvedFor,
+      allocationRatio: null,
+      n1: n,
+      n2: null,
+      power,
+      effectSize: d,
+      method: METHOD.oneMean,
+      context: effectContext("d", d),
+      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
+      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+    },
+    standardWarnings({ power, perGroup: [n], standardizedEffect: d }),
+  );
+}
+
+function solveTwoProportions(v: Parsed<"two-proportions">): PowerResult {
+  const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, method: v.method };
+  let n1: number, n2: number, p2: number, solvedFor: PowerResult["solvedFor"];
+  if (v.n1 === undefined) {
+    p2 = v.p2!;
+    ({ n1, n2 } = proportionsN(v.p1, p2, v.power!, s));
+    solvedFor = "n";
+  } else {
+    n1 = v.n1;
+    n2 = v.n2 ?? secondArm(n1, v.allocationRatio);
+    if (v.p2 === undefined) {
+      p2 = proportionsEffect(v.p1, v.direction, v.power!, n1, n2, s);
+      solvedFor = "effect";
+    } else {
+      p2 = v.p2;
+      solvedFor = "power";
+    }
+  }
+  const power = solvedFor === "effect" ? v.power! : proportionsPower(v.p1, p2, n1, n2, s);
+  const h = cohenH(v.p1, p2);
+  return finish(
+    v,
+    {
+      design: v.design,
+      solvedFor,
+      allocationRatio: v.n2 !== undefined ? n2 / n1 : v.allocationRatio,
+      n1,
+      n2,
+      power,
+      p1: v.p1,
+      p2,
+      cohenH: h,
+      method: METHOD.proportions[v.method],
+      context: effectContext("h", h),
+    },
+    standardWarnings({ power, perGroup: [n1, n2], standardizedEffect: h }),
+  );
+}
+
+function clusterFields(v: Parsed<"cluster-two-means" | "cluster-two-proportions">, k1: number, k2: number) {
+  return {
+    clusters1: k1,
+    clusters2: k2,
+    clusterSize: v.clusterSize,
+    icc: v.icc,
+    cv: v.cv,
+    designEffect: designEffect(v.clusterSize, v.icc, v.cv),
+    n1: Math.ceil(k1 * v.clusterSize - 1e-9),
+    n2: Math.ceil(k2 * v.clusterSize - 1e-9),
+  };
+}
+
+function solveClusterMeans(v: Parsed<"cluster-two-means">): PowerResult {
+  const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, clusterSize: v.clusterSize, icc: v.icc, cv: v.cv };
+  const { d: given, sdUsed, pilot } = standardized(v);
+  let k1: number, k2: number, d: number, solvedFor: PowerResult["solvedFor"];
+  if (v.clustersPerArm === undefined) {
+    d = given!;
+    ({ k1, k2 } = clusterMeansClusters(d, v.power!, s));
+    solvedFor = "n";
+  } else {
+    k1 = v.clustersPerArm;
+    k2 = secondArm(k1, v.allocationRatio);
+    if (given === undefined) {
+      d = clusterMeansEffect(v.power!, k1, k2, s);
+      solvedFor = "effect";
+    } else {
+      d = given;
+      solvedFor = "power";
+    }
+  }
+  const power = solvedFor === "effect" ? v.power! : clusterMeansPower(d, k1, k2, s);
+  const fields = clusterFields(v, k1, k2);
+  return finish(
+    v,
+    {
+      design: v.design,
+      solvedFor,
+      allocationRatio: v.allocationRatio,
+      power,
+      effectSize: d,
+      method: METHOD.clusterMeans,
+      context: effectContext("d", d),
+      ...fields,
+      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
+      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+    },
+    standardWarnings({ power, perGroup: [fields.n1, fields.n2], clustersPerArm: [k1, k2], standardizedEffect: d }),
+  );
+}
+
+function solveClusterProportions(v: Parsed<"cluster-two-proportions">): PowerResult {
+  const de = designEffect(v.clusterSize, v.icc, v.cv);
+  const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, method: "normal" as const, designEffect: de };
+  const m = v.clusterSize;
+  const powerAt = (p2: number, k1: number, k2: number) => proportionsPower(v.p1, p2, k1 * m, k2 * m, s);
+  let k1: number, k2: number, p2: number, solvedFor: PowerResult["solvedFor"];
+  if (v.clustersPerArm === undefined) {
+    p2 = v.p2!;
+    // Search clusters directly: participants are k·m̄ per arm.
+    const perArm = proportionsN(v.p1, p2, v.power!, s);
+    const start = Math.max(2, Math.ceil(perArm.n1 / m));
+    k1 = start;
+    while (k1 > 2 && powerAt(p2, k1 - 1, secondArm(k1 - 1, v.allocationRatio)) >= v.power!) k1--;
+    while (powerAt(p2, k1, secondArm(k1, v.allocationRatio)) < v.power!) {
+      if (++k1 > MAX_N_PER_ARM) throw new UnreachableError("No number of clusters up to 10,000,000 per arm reaches the target power.");
+    }
+    k2 = secondArm(k1, v.allocationRatio);
+    solvedFor = "n";
+  } else {
+    k1 = v.clustersPerArm;
+    k2 = secondArm(k1, v.allocationRatio);
+    if (v.p2 === undefined) {
+      p2 = proportionsEffect(v.p1, v.direction, v.power!, k1 * m, k2 * m, s);
+      solvedFor = "effect";
+    } else {
+      p2 = v.p2;
+      solvedFor = "power";
+    }
+  }
+  const power = solvedFor === "effect" ? v.power! : powerAt(p2, k1, k2);
+  const fields = clusterFields(v, k1, k2);
+  const h = cohenH(v.p1, p2);
+  return finish(
+    v,
+    { design: v.design, solvedFor, allocationRatio: v.allocationRatio, power, p1: v.p1, p2, cohenH: h, method: METHOD.clusterProportions, context: effectContext("h", h), ...fields },
+    standardWarnings({ power, perGroup: [fields.n1, fields.n2], clustersPerArm: [k1, k2], standardizedEffect: h }),
+  );
+}
+
+function solveTimeToEvent(v: Parsed<"time-to-event">): PowerResult {
+  const s = {
+    alpha: v.alpha,
+    sides: v.sides,
+    allocationRatio: v.allocationRatio,
+    method: v.method,
+    controlMedian: v.controlMedian,
+    accrualMonths: v.accrualMonths,
+    followUpMonths: v.followUpMonths,
+  };
+  const r = v.allocationRatio;
+  let n1: number, n2: number, hr: number, events: number, power: number, solvedFor: PowerResult["solvedFor"];
+  let participantsRequired: number | undefined;
+  if (v.n1 === undefined) {
+    hr = v.hazardRatio!;
+    events = Math.ceil(eventsNeeded(hr, v.power!, s) - 1e-9);
+    const p = eventProbabilities(hr, s);
+    participantsRequired = Math.ceil(events / p.mean - 1e-9);
+    n1 = Math.ceil(participantsRequired / (1 + r) - 1e-9);
+    n2 = secondArm(n1, r);
+    if (n1 > MAX_N_PER_ARM) throw new UnreachableError("More than 10,000,000 participants per arm would be needed: the effect is too small for these settings.");
+    power = survivalPowerFromEvents(hr, events, s);
+    solvedFor = "n";
+  } else {
+    n1 = v.n1;
+    n2 = secondArm(n1, r);
+    if (v.hazardRatio === undefined) {
+      hr = survivalEffect(v.direction, v.power!, n1, n2, s);
+      power = v.power!;
+      solvedFor = "effect";
+    } else {
+      hr = v.hazardRatio;
+      power = survivalPower(hr, n1, n2, s);
+      solvedFor = "power";
+    }
+    events = expectedEvents(hr, n1, n2, s);
+  }
+  return finish(
+    v,
+    {
+      design: v.design,
+      solvedFor,
+      allocationRatio: r,
+      n1,
+      n2,
+      power,
+      hazardRatio: hr,
+      method: v.method === "freedman" ? METHOD.freedman : METHOD.schoenfeld,
+      events,
+      eventProbability: eventProbabilities(hr, s),
+      ...(participantsRequired !== undefined ? { participantsRequired } : {}),
+    },
+    standardWarnings({ power, perGroup: [n1, n2] }),
+  );
+}
+
+/** Validates then solves; throws PowerInputError (400) or UnreachableError (422). */
+export function solve(input: PowerInput | unknown): PowerResult {
+  const parsed = powerInputSchema.safeParse(input);
+  if (!parsed.success) {
+    throw new PowerInputError(parsed.error.issues.map((i) => ({ path: i.path.map(String).join("."), message: i.message })));
+  }
+  return solveParsed(parsed.data);
+}
+
+export function solveParsed(v: ParsedPowerInput): PowerResult {
+  switch (v.design) {
+    case "two-means":
+      return solveTwoMeans(v);
+    case "one-mean":
+      return solveOneMean(v);
+    case "two-proportions":
+      return solveTwoProportions(v);
+    case "cluster-two-means":
+      return solveClusterMeans(v);
+    case "cluster-two-proportions":
+      return solveClusterProportions(v);
+    case "time-to-event":
+      return solveTimeToEvent(v);
+  }
+}
+
+export { BENCHMARK_CAUTION };
