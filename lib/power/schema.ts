@@ -123,7 +123,7 @@ export const powerInputSchema = baseSchema.superRefine((v, ctx) => {
     }
   } else if (missing.length > 1) {
     for (const k of missing) {
-      ctx.addIssue({ code: "custom", path: [k], message: `Leave out exactly one of ${list}; ${missing.join(" and ")} are all missing.` });
+      ctx.addIssue({ code: "custom", path: [k], message: `Leave out exactly one of ${list}; ${missing.join(" and ")} are missing.` });
     }
   }
   if (v.power !== undefined && !(v.power > v.alpha && v.power < 1)) {

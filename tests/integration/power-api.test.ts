@@ -1,0 +1,55 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import * as powerRoute from "@/app/api/v1/power/route";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import { solve } from "@/lib/power";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+import { request, signInAs } from "../support/http";
+
+let dir = "";
+let cookie = "";
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+  cookie = await signInAs(sessionRoute, "coi@demo.test");
+});
+afterAll(() => dropDatabase(dir));
+
+const post = (body: unknown, headers?: Record<string, string>) => powerRoute.POST(request("POST", "/api/v1/power", { cookie, body, headers }));
+
+describe("POST /api/v1/power", () => {
+  it("answers exactly what solve() returns", async () => {
+    const input = { design: "two-means", effectSize: 0.5, power: 0.8, attrition: 0.1, screenFailure: 0.3 };
+    const res = await post(input);
+    expect(res.status).toBe(200);
+    expect(await res.json()).toEqual(JSON.parse(JSON.stringify(solve(input))));
+  });
+  it("gives the contract's fields", async () => {
+    const body = await (await post({ design: "two-proportions", p1: 0.5, p2: 0.75, power: 0.9 })).json();
+    expect(body).toMatchObject({ design: "two-proportions", solvedFor: "n", n1: 77, n2: 77, nTotal: 154, p2: 0.75, method: expect.any(String), warnings: [] });
+    expect(body.power).toBeGreaterThanOrEqual(0.9);
+  });
+  it("400 with a message per field", async () => {
+    const res = await post({ design: "two-means", alpha: 0.9, effectSize: 0.5, power: 0.8 });
+    expect(res.status).toBe(400);
+    const { error } = await res.json();
+    expect(error.code).toBe("invalid");
+    expect(error.fields.alpha[0]).toMatch(/alpha/);
+  });
+  it("400 when two quantities or none are left out", async () => {
+    const two = await (await post({ design: "two-means", power: 0.8 })).json();
+    expect(Object.keys(two.error.fields).sort()).toEqual(["effectSize", "n1"]);
+    const none = await post({ design: "two-means", power: 0.8, n1: 20, effectSize: 0.4 });
+    expect(none.status).toBe(400);
+  });
+  it("422 for a target no n up to 10,000,000 reaches", async () => {
+    const res = await post({ design: "two-means", effectSize: 0.0001, power: 0.95 });
+    expect(res.status).toBe(422);
+    expect((await res.json()).error.message).toMatch(/10,000,000/);
+  });
+  it("400 for bad JSON and 413 for an oversized body", async () => {
+    expect((await post("{")).status).toBe(400);
+    expect((await post({ design: "two-means", junk: "x".repeat(40 * 1024) })).status).toBe(413);
+  });
+  it("refuses a cross-site post", async () => {
+    expect((await post({ design: "two-means", effectSize: 0.5, power: 0.8 }, { origin: "https://elsewhere.example" })).status).toBe(403);
+  });
+});
