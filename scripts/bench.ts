@@ -1,0 +1,92 @@
+/**
+ * `npm run bench`: speed targets, measured as medians over repeated batches on one core
+ * (Node runs this single-threaded). Targets from the issues:
+ *   power engine, two-means: one power evaluation ≤ 5 µs, solve n ≤ 20 µs, solve the effect ≤ 40 µs.
+ * Prints the median µs per call for each design and a PASS/FAIL line per target; exits 1 on a miss.
+ */
+import { solve, solveParsed, powerInputSchema, type PowerInput } from "../lib/power";
+import { twoMeansPower } from "../lib/power/designs/means";
+import { studentQuantileUncached } from "../lib/power/distributions";
+
+type Result = { name: string; medianUs: number; target?: number };
+const results: Result[] = [];
+
+function medianUsPerCall(fn: (i: number) => unknown, callsPerBatch = 2000, batches = 25): number {
+  for (let i = 0; i < callsPerBatch; i++) fn(i); // warm-up: JIT and the t-quantile cache
+  const perCall: number[] = [];
+  let sink = 0;
+  for (let b = 0; b < batches; b++) {
+    const t0 = process.hrtime.bigint();
+    for (let i = 0; i < callsPerBatch; i++) {
+      const r = fn(i);
+      if (r === undefined) sink++;
+    }
+    perCall.push(Number(process.hrtime.bigint() - t0) / 1000 / callsPerBatch);
+  }
+  if (sink < 0) console.log(sink);
+  perCall.sort((a, b) => a - b);
+  return perCall[Math.floor(perCall.length / 2)]!;
+}
+
+function record(name: string, us: number, target?: number) {
+  results.push({ name, medianUs: us, target });
+}
+
+// Sample sizes cycle over 200 values, as a reach curve's points do, so each df recurs.
+const sizes = Array.from({ length: 200 }, (_, i) => 20 + i);
+const s = { alpha: 0.05, sides: 2 as const, allocationRatio: 1 };
+record("two-means: one power evaluation", medianUsPerCall((i) => twoMeansPower(0.4, sizes[i % 200]!, sizes[i % 200]!, s)), 5);
+record("Student t quantile alone, not cached", medianUsPerCall((i) => studentQuantileUncached(0.975, 40 + (i % 200)), 500));
+
+const designs: { name: string; n: PowerInput; power: PowerInput; effect: PowerInput; targets?: [number, number, number] }[] = [
+  {
+    name: "two-means",
+    n: { design: "two-means", effectSize: 0.4, power: 0.8 },
+    power: { design: "two-means", effectSize: 0.4, n1: 100 },
+    effect: { design: "two-means", n1: 100, power: 0.8 },
+    targets: [20, 5, 40],
+  },
+  { name: "one-mean", n: { design: "one-mean", effectSize: 0.4, power: 0.8 }, power: { design: "one-mean", effectSize: 0.4, n1: 60 }, effect: { design: "one-mean", n1: 60, power: 0.8 } },
+  {
+    name: "two-proportions",
+    n: { design: "two-proportions", p1: 0.3, p2: 0.45, power: 0.8 },
+    power: { design: "two-proportions", p1: 0.3, p2: 0.45, n1: 150 },
+    effect: { design: "two-proportions", p1: 0.3, n1: 150, power: 0.8 },
+  },
+  {
+    name: "cluster-two-means",
+    n: { design: "cluster-two-means", effectSize: 0.3, clusterSize: 20, icc: 0.05, power: 0.8 },
+    power: { design: "cluster-two-means", effectSize: 0.3, clusterSize: 20, icc: 0.05, clustersPerArm: 20 },
+    effect: { design: "cluster-two-means", clusterSize: 20, icc: 0.05, clustersPerArm: 20, power: 0.8 },
+  },
+  {
+    name: "cluster-two-proportions",
+    n: { design: "cluster-two-proportions", p1: 0.3, p2: 0.4, clusterSize: 20, icc: 0.05, power: 0.8 },
+    power: { design: "cluster-two-proportions", p1: 0.3, p2: 0.4, clusterSize: 20, icc: 0.05, clustersPerArm: 30 },
+    effect: { design: "cluster-two-proportions", p1: 0.3, clusterSize: 20, icc: 0.05, clustersPerArm: 30, power: 0.8 },
+  },
+  {
+    name: "time-to-event",
+    n: { design: "time-to-event", hazardRatio: 0.75, controlMedian: 12, accrualMonths: 24, followUpMonths: 12, power: 0.8 },
+    power: { design: "time-to-event", hazardRatio: 0.75, controlMedian: 12, accrualMonths: 24, followUpMonths: 12, n1: 280 },
+    effect: { design: "time-to-event", controlMedian: 12, accrualMonths: 24, followUpMonths: 12, n1: 280, power: 0.8 },
+  },
+];
+
+for (const d of designs) {
+  const parsed = { n: powerInputSchema.parse(d.n), power: powerInputSchema.parse(d.power), effect: powerInputSchema.parse(d.effect) };
+  record(`${d.name}: solve n`, medianUsPerCall(() => solveParsed(parsed.n), 500), d.targets?.[0]);
+  record(`${d.name}: solve power`, medianUsPerCall(() => solveParsed(parsed.power), 500));
+  record(`${d.name}: solve the effect`, medianUsPerCall(() => solveParsed(parsed.effect), 500), d.targets?.[2]);
+}
+record("two-means: solve() with zod validation, solve n", medianUsPerCall(() => solve(designs[0]!.n), 500));
+
+let failed = 0;
+console.log("Delta Ledger benchmark (median µs per call, one core)\n");
+for (const r of results) {
+  const verdict = r.target === undefined ? "" : r.medianUs <= r.target ? `PASS (target ≤ ${r.target} µs)` : `FAIL (target ≤ ${r.target} µs)`;
+  if (verdict.startsWith("FAIL")) failed++;
+  console.log(`${r.name.padEnd(58)} ${r.medianUs.toFixed(2).padStart(9)} µs  ${verdict}`);
+}
+console.log(failed ? `\n${failed} target(s) missed` : "\nall targets met");
+process.exit(failed ? 1 : 0);
