@@ -1,0 +1,128 @@
+/**
+ * The timeline: sites activate after start-up, one every `staggerMonths`; each active site enrols
+ * `ratePerSiteMonth` participants a month until the enrolled total is reached. Months are counted
+ * from the study's start (month 0); budget periods are 12-month blocks from the start date.
+ */
+import type { Timeline } from "./types";
+
+export class TimelineError extends Error {
+  readonly code = "timeline";
+}
+
+/** Enrolment longer than this is not a plan: refuse rather than loop. */
+export const MAX_STUDY_MONTHS = 1200;
+
+export type Period = { index: number; startMonth: number; endMonth: number; months: number; startDate: string; endDate: string };
+
+export type TimelineResult = {
+  activationMonths: number[];
+  enrolledByMonth: number[];
+  firstEnrolmentMonth: number;
+  lastEnrolmentMonth: number;
+  monthsToEnrol: number;
+  lastVisitMonth: number;
+  closeoutStartMonth: number;
+  studyMonths: number;
+  periods: Period[];
+};
+
+/** Whole numbers in proportion to weights, summing exactly to total (cumulative rounding). */
+export function allocate(total: number, weights: number[]): number[] {
+  const sumW = weights.reduce((a, b) => a + b, 0);
+  if (total === 0 || sumW === 0) return weights.map(() => 0);
+  const out: number[] = [];
+  let cum = 0;
+  let given = 0;
+  for (const w of weights) {
+    cum += w;
+    const target = Math.floor((total * cum) / sumW + 1e-9);
+    out.push(target - given);
+    given = target;
+  }
+  out[out.length - 1]! += total - given;
+  return out;
+}
+
+function addMonths(isoDate: string, months: number): string {
+  const [y, m, d] = isoDate.split("-").map(Number) as [number, number, number];
+  const date = new Date(Date.UTC(y, m - 1 + months, d));
+  return date.toISOString().slice(0, 10);
+}
+
+function dayBefore(isoDate: string): string {
+  const date = new Date(`${isoDate}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() - 1);
+  return date.toISOString().slice(0, 10);
+}
+
+export function budgetPeriods(startDate: string, studyMonths: number): Period[] {
+  const periods: Period[] = [];
+  for (let p = 0; p * 12 < studyMonths; p++) {
+    const startMonth = p * 12;
+    const endMonth = Math.min(startMonth + 12, studyMonths);
+    periods.push({
+      index: p,
+      startMonth,
+      endMonth,
+      months: endMonth - startMonth,
+      startDate: addMonths(startDate, startMonth),
+      endDate: dayBefore(addMonths(startDate, endMonth)),
+    });
+  }
+  return periods;
+}
+
+export function periodOfMonth(month: number): number {
+  return Math.floor(month / 12);
+}
+
+export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOffset: number, startDate: string): TimelineResult {
+  if (t.sites < 1) throw new TimelineError("At least one site is needed.");
+  if (!(t.ratePerSiteMonth > 0)) throw new TimelineError("The enrolment rate per site per month must be above 0.");
+  const activationMonths = Array.from({ length: t.sites }, (_, i) => t.startupMonths + i * t.staggerMonths);
+  const enrolledByMonth: number[] = [];
+  let cum = 0;
+  let given = 0;
+  let month = 0;
+  while (given < enrolledTotal) {
+    if (month >= MAX_STUDY_MONTHS) {
+      throw new TimelineError(`Enrolling ${enrolledTotal} participants would take more than ${MAX_STUDY_MONTHS} months at this rate; add sites or raise the rate.`);
+    }
+    const active = activationMonths.filter((a) => a <= month).length;
+    cum += active * t.ratePerSiteMonth;
+    const target = Math.min(enrolledTotal, Math.floor(cum + 1e-9));
+    enrolledByMonth.push(target - given);
+    given = target;
+    month++;
+  }
+  const firstEnrolmentMonth = enrolledTotal > 0 ? enrolledByMonth.findIndex((n) => n > 0) : activationMonths[0]!;
+  const lastEnrolmentMonth = Math.max(firstEnrolmentMonth, enrolledByMonth.length - 1);
+  const lastVisitMonth = lastEnrolmentMonth + lastVisitOffset;
+  const closeoutStartMonth = lastVisitMonth + 1;
+  const studyMonths = closeoutStartMonth + t.closeoutMonths;
+  if (studyMonths > MAX_STUDY_MONTHS) throw new TimelineError(`The study would run more than ${MAX_STUDY_MONTHS} months.`);
+  return {
+    activationMonths,
+    enrolledByMonth,
+    firstEnrolmentMonth,
+    lastEnrolmentMonth,
+    monthsToEnrol: enrolledTotal > 0 ? lastEnrolmentMonth - activationMonths[0]! + 1 : 0,
+    lastVisitMonth,
+    closeoutStartMonth,
+    studyMonths,
+    periods: budgetPeriods(startDate, studyMonths),
+  };
+}
+
+/** Fewest sites (up to maxSites) that enrol the total within maxMonths of the first activation. */
+export function sitesNeeded(t: Omit<Timeline, "sites">, enrolledTotal: number, maxMonths: number, maxSites = 500): number | null {
+  for (let s = 1; s <= maxSites; s++) {
+    try {
+      const r = computeTimeline({ ...t, sites: s }, enrolledTotal, 0, "2000-01-01");
+      if (r.monthsToEnrol <= maxMonths) return s;
+    } catch (err) {
+      if (!(err instanceof TimelineError)) throw err;
+    }
+  }
+  return null;
+}

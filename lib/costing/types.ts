@@ -1,0 +1,112 @@
+/** What the costing engine takes: a rate-book edition's content and a scenario's cost choices. */
+
+/** Line categories, as a grants office classes them for the F&A base. */
+export const COST_CATEGORIES = [
+  "salaries",
+  "fringe",
+  "participant",
+  "procedures",
+  "site-fees",
+  "monitoring",
+  "supplies",
+  "travel",
+  "services",
+  "equipment",
+  "capital",
+  "patient-care",
+  "rental",
+  "tuition",
+  "scholarships",
+  "participant-support",
+  "subaward",
+  "other",
+] as const;
+export type CostCategory = (typeof COST_CATEGORIES)[number];
+
+/**
+ * Excluded from MTDC (2 CFR 200.1, Uniform Guidance as revised in 2024): equipment, capital
+ * expenditures, patient care, rental costs, tuition remission, scholarships and fellowships,
+ * participant support costs (trainees and conference participants, not research subjects), and each
+ * subaward's part above the threshold. Payments to research subjects stay in the base.
+ */
+export const MTDC_EXCLUDED: ReadonlySet<CostCategory> = new Set(["equipment", "capital", "patient-care", "rental", "tuition", "scholarships", "participant-support"]);
+
+export type RateBook = {
+  editionId?: number;
+  label?: string;
+  effectiveDate?: string;
+  faRate: string;
+  faBase: "mtdc" | "tdc";
+  /** Each subaward's first this-many dollars, over the life of the award, count in MTDC ($50,000 since the 2024 revision; $25,000 before). */
+  mtdcSubawardThreshold: string;
+  /** Items at or above this unit cost are equipment ($10,000 since 2024; $5,000 before). */
+  equipmentThreshold: string;
+  escalation: { salaries: string; costs: string };
+  salaryCap: string | null;
+  fringe: { category: string; rate: string }[];
+  site: { startupFee: string; annualFee: string; monitoringVisitsPerYear: number; monitoringVisitCost: string; closeoutFee: string };
+  participant: { incentivePerVisit: string; screeningCost: string; screenFailurePayment: string };
+  procedures: { code: string; name: string; unitCost: string; category: string }[];
+};
+
+export type Visit = {
+  name: string;
+  /** Months after enrolment (0 = the enrolment visit). */
+  month: number;
+  procedures: { code: string; unitCost?: string }[];
+};
+
+export type Timeline = {
+  sites: number;
+  /** Months of start-up before a site enrols. */
+  startupMonths: number;
+  /** Months between one site's activation and the next's (0: all at once). */
+  staggerMonths: number;
+  /** Participants enrolled per active site per month. */
+  ratePerSiteMonth: number;
+  /** Months of close-out after the last visit. */
+  closeoutMonths: number;
+};
+
+export type PersonnelLine = {
+  role: string;
+  fringeCategory: string;
+  baseSalary: string;
+  /** Percent effort as a fraction (0.2 = 20%), one per budget period; the last value repeats. */
+  effort: number[];
+  /** "study": the effort applies in every month of the study; "enrolment": only in months with recruitment or visits (coordinators). */
+  follows?: "study" | "enrolment";
+  /** Person's salary is above the cap? The cap applies to every line unless this is false. */
+  capped?: boolean;
+};
+
+export type OtherCost = {
+  label: string;
+  category: CostCategory;
+  /** Amounts by budget period; a shorter list leaves later periods at zero. */
+  byPeriod?: string[];
+  /** Or one amount per period, escalated from period 2 on when escalate is true. */
+  perPeriod?: string;
+  escalate?: boolean;
+  /** For subawards: one id per subaward, so its threshold counts once over the life of the award. */
+  subawardId?: string;
+};
+
+export type CostInputs = {
+  startDate: string;
+  /** Per arm, from the power engine's funnel. */
+  arms: { evaluable: number; enrolled: number; screened: number }[];
+  timeline: Timeline;
+  visits: Visit[];
+  /** Share of the visits (in order) that a participant who drops out attends, on average. */
+  dropoutVisitShare: number;
+  incentivePerVisit?: string;
+  screeningCost?: string;
+  screenFailurePayment?: string;
+  site?: Partial<RateBook["site"]>;
+  personnel: PersonnelLine[];
+  other: OtherCost[];
+  /** Overrides of the rate book's escalation: salaries (and fringe), other costs, or one category. */
+  escalation?: { salaries?: string; costs?: string; byCategory?: Partial<Record<CostCategory, string>> };
+  caps?: { total?: string | null; directPerYear?: string | null; modular?: boolean };
+};
