@@ -74,6 +74,64 @@ export interface AuditLogTable {
   new_value: string | null;
 }
 
+export interface RateBookEditionsTable {
+  id: Generated<number>;
+  institution_id: number;
+  label: string;
+  effective_date: string;
+  status: ColumnType<"draft" | "published", "draft" | "published" | undefined, "draft" | "published">;
+  version: ColumnType<number, number | undefined, number>;
+  based_on: number | null;
+  created_by: number | null;
+  created_at: CreatedAt;
+  updated_at: ColumnType<string, string | undefined, string>;
+  published_by: number | null;
+  published_at: string | null;
+  fa_rate: string;
+  fa_base: "mtdc" | "tdc";
+  mtdc_subaward_threshold: string;
+  equipment_threshold: string;
+  escalation_salaries: string;
+  escalation_costs: string;
+  salary_cap: string | null;
+  site_startup_fee: string;
+  site_annual_fee: string;
+  monitoring_visits_per_year: string;
+  monitoring_visit_cost: string;
+  site_closeout_fee: string;
+  incentive_per_visit: string;
+  screening_cost: string;
+  screen_failure_payment: string;
+}
+
+export interface RateBookFringeTable {
+  id: Generated<number>;
+  edition_id: number;
+  category: string;
+  rate: string;
+  version: ColumnType<number, number | undefined, number>;
+}
+
+export interface RateBookProceduresTable {
+  id: Generated<number>;
+  edition_id: number;
+  code: string;
+  name: string;
+  unit_cost: string;
+  category: string;
+  version: ColumnType<number, number | undefined, number>;
+}
+
+export interface RateBookImportsTable {
+  id: Generated<number>;
+  edition_id: number;
+  user_id: number;
+  file_name: string;
+  rows_json: string;
+  error_count: number;
+  created_at: CreatedAt;
+}
+
 export interface Database {
   institutions: InstitutionsTable;
   users: UsersTable;
@@ -82,6 +140,10 @@ export interface Database {
   studies: StudiesTable;
   study_members: StudyMembersTable;
   audit_log: AuditLogTable;
+  rate_book_editions: RateBookEditionsTable;
+  rate_book_fringe: RateBookFringeTable;
+  rate_book_procedures: RateBookProceduresTable;
+  rate_book_imports: RateBookImportsTable;
 }
 
 export type User = Selectable<UsersTable>;

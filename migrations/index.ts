@@ -1,5 +1,6 @@
 import type { Migration } from "kysely";
 import * as foundation from "./2026-12-01-0001-foundation";
+import * as rateBook from "./2026-12-01-0002-rate-book";
 
 /**
  * Every migration, keyed by its dated file name (Kysely runs them in key order).
@@ -7,4 +8,5 @@ import * as foundation from "./2026-12-01-0001-foundation";
  */
 export const migrations: Record<string, Migration> = {
   "2026-12-01-0001-foundation": foundation,
+  "2026-12-01-0002-rate-book": rateBook,
 };

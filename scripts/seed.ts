@@ -26,6 +26,42 @@ export const DEMO_STUDY = {
   startDate: "2027-07-01",
 };
 
+/** The demo institution's published rate book (invented rates; real ones come from the institution's agreements). */
+export const DEMO_RATES = {
+  label: "2027 rates",
+  effective_date: "2027-01-01",
+  fa_rate: "0.565",
+  fa_base: "mtdc" as const,
+  mtdc_subaward_threshold: "50000.00",
+  equipment_threshold: "10000.00",
+  escalation_salaries: "0.03",
+  escalation_costs: "0.03",
+  salary_cap: "225700.00",
+  site_startup_fee: "12000.00",
+  site_annual_fee: "3500.00",
+  monitoring_visits_per_year: "4",
+  monitoring_visit_cost: "1800.00",
+  site_closeout_fee: "2500.00",
+  incentive_per_visit: "40.00",
+  screening_cost: "85.00",
+  screen_failure_payment: "25.00",
+  fringe: [
+    ["faculty", "0.285"],
+    ["research-staff", "0.362"],
+    ["postdoc", "0.24"],
+    ["student", "0.085"],
+  ],
+  procedures: [
+    ["NURSE-VISIT", "Research nurse visit", "95.00", "clinical"],
+    ["LAB-PANEL", "Metabolic panel", "38.00", "laboratory"],
+    ["XRAY-KNEE", "Knee radiograph, two views", "140.00", "imaging"],
+    ["PROM-SET", "Patient-reported outcome set", "15.00", "assessment"],
+    ["GAIT", "Gait and walking-speed assessment", "110.00", "assessment"],
+    ["ACTIVITY-7D", "Activity monitor, 7 days", "60.00", "device"],
+    ["COACH", "Walking coach session", "75.00", "intervention"],
+  ],
+};
+
 export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean }> {
   const existing = await db.selectFrom("users").select("id").limit(1).executeTakeFirst();
   if (existing) return { seeded: false };
@@ -61,6 +97,18 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
       })
       .returning("id")
       .executeTakeFirstOrThrow();
+    const { fringe, procedures, ...edition } = DEMO_RATES;
+    const grants = ids["grants@demo.test"]!;
+    const { id: editionId } = await trx
+      .insertInto("rate_book_editions")
+      .values({ ...edition, institution_id: institutionId, status: "published", created_by: grants, published_by: grants, published_at: now })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    await trx.insertInto("rate_book_fringe").values(fringe.map(([category, rate]) => ({ edition_id: editionId, category: category!, rate: rate! }))).execute();
+    await trx
+      .insertInto("rate_book_procedures")
+      .values(procedures.map(([code, name, unit_cost, category]) => ({ edition_id: editionId, code: code!, name: name!, unit_cost: unit_cost!, category: category! })))
+      .execute();
     await trx
       .insertInto("study_members")
       .values([

@@ -7,6 +7,8 @@ export class HttpError extends Error {
     readonly code: string,
     message: string,
     readonly fields?: Record<string, string[]>,
+    /** Extra JSON for the client, e.g. the current value on a conflict. */
+    readonly details?: Record<string, unknown>,
   ) {
     super(message);
   }

@@ -104,6 +104,7 @@ export function navigationFor(role: AccountRole): { href: string; label: string 
   const items: { href: string; label: string }[] = [];
   const actor: Actor = { id: 0, role };
   if (studyVisibility(actor, "owner") === "allow") items.push({ href: "/studies", label: "Studies" });
+  if (can(actor, "ratebook.read")) items.push({ href: "/rate-book", label: "Rate book" });
   if (can(actor, "accounts.manage")) items.push({ href: "/admin/accounts", label: "Accounts" });
   return items;
 }

@@ -25,7 +25,10 @@ export async function userFromRequest(req: Request): Promise<SessionUser | null>
 
 /** Turns a thrown error into the API's JSON; anything unexpected is logged and answered without detail. */
 export function errorResponse(err: unknown): Response {
-  if (err instanceof HttpError) return jsonError(err.status, err.code, err.message, err.fields);
+  if (err instanceof HttpError) {
+    const body = errorBody(err.code, err.message, err.fields);
+    return json(err.details ? { error: { ...body.error, ...err.details } } : body, { status: err.status });
+  }
   const id = crypto.randomUUID();
   console.error(`[api ${id}]`, err);
   return jsonError(500, "internal", `Something went wrong on our side (reference ${id}). Nothing was changed by the failed request.`);

@@ -1,0 +1,86 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { getImport } from "@/db/queries/rate-book";
+import { requireUser } from "@/lib/server/current-user";
+import { loadOr404 } from "@/lib/server/page";
+import { finishImportAction } from "../../../actions";
+
+export const metadata: Metadata = { title: "Rate-sheet preview" };
+
+const STATUS = { change: "Changes", add: "Adds", same: "Unchanged" } as const;
+
+export default async function ImportPreviewPage({ params }: { params: Promise<{ editionId: string; importId: string }> }) {
+  const user = await requireUser();
+  const { importId } = await params;
+  const view = await loadOr404(() => getImport(user, Number(importId)));
+  const changes = view.rows.filter((r) => r.status !== "same").length;
+  return (
+    <div className="flex flex-col gap-5">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link href="/rate-book">Rate book</Link> <span aria-hidden="true">›</span> <Link href={`/rate-book/${view.editionId}`}>Edition</Link>{" "}
+        <span aria-hidden="true">›</span> Preview
+      </nav>
+      <h1>Preview of {view.fileName}</h1>
+      <p>
+        {view.rows.length} rows read ({view.kind.toUpperCase()}), {changes} would change the draft.{" "}
+        {view.errors.length ? <strong className="text-signal">{view.errors.length} rows have errors: fix them in the sheet and upload it again.</strong> : "No errors."}
+      </p>
+      {view.errors.length ? (
+        <section className="card" aria-labelledby="errors">
+          <h2 id="errors">Row errors</h2>
+          <ul className="mt-2 flex flex-col gap-1" data-testid="import-errors">
+            {view.errors.map((e, i) => (
+              <li key={i} className="text-signal">
+                Row <span className="num">{e.row}</span>: {e.message}
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+      <div className="card overflow-x-auto p-0">
+        <table className="table">
+          <thead>
+            <tr>
+              <th scope="col">Row</th>
+              <th scope="col">Section</th>
+              <th scope="col">Key</th>
+              <th scope="col" className="num">
+                Now
+              </th>
+              <th scope="col" className="num">
+                From the sheet
+              </th>
+              <th scope="col">Effect</th>
+            </tr>
+          </thead>
+          <tbody>
+            {view.rows.map((r) => (
+              <tr key={`${r.section}-${r.key}-${r.row}`}>
+                <td className="num">{r.row}</td>
+                <td>{r.section}</td>
+                <td>
+                  {r.key}
+                  {r.name ? <span className="block text-xs text-ink-soft">{r.name}</span> : null}
+                </td>
+                <td className="num">{r.old ?? "—"}</td>
+                <td className="num">{r.value ?? "—"}</td>
+                <td>
+                  <span className={r.status === "same" ? "badge badge-muted" : "badge"}>{STATUS[r.status]}</span>
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <form action={finishImportAction} className="flex gap-3">
+        <input type="hidden" name="importId" value={view.id} />
+        <button type="submit" name="decision" value="commit" className="btn" disabled={view.errors.length > 0}>
+          Apply to the draft
+        </button>
+        <button type="submit" name="decision" value="cancel" className="btn btn-quiet">
+          Cancel
+        </button>
+      </form>
+    </div>
+  );
+}

@@ -1,0 +1,211 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { InlineForm } from "@/components/rate-book/inline-form";
+import { RateSheetUpload } from "@/components/rate-book/upload-form";
+import { getEdition } from "@/db/queries/rate-book";
+import { can } from "@/lib/auth/permissions";
+import { formatMoney } from "@/lib/format/money";
+import { formatRate, formatSetting } from "@/lib/format/rates";
+import { SETTING_FIELDS } from "@/lib/rate-book/fields";
+import { requireUser } from "@/lib/server/current-user";
+import { loadOr404 } from "@/lib/server/page";
+import {
+  addFringeAction,
+  addProcedureAction,
+  publishAction,
+  removeRowAction,
+  updateFringeAction,
+  updateProcedureAction,
+  updateSettingAction,
+} from "../actions";
+
+export const metadata: Metadata = { title: "Rate-book edition" };
+
+export default async function EditionPage({ params, searchParams }: { params: Promise<{ editionId: string }>; searchParams: Promise<{ imported?: string }> }) {
+  const user = await requireUser();
+  const { editionId } = await params;
+  const { imported } = await searchParams;
+  const e = await loadOr404(() => getEdition(user, Number(editionId)));
+  const editable = e.status === "draft" && can(user, "ratebook.edit");
+  return (
+    <div className="flex flex-col gap-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link href="/rate-book">Rate book</Link> <span aria-hidden="true">›</span> {e.label}
+      </nav>
+      <header className="flex flex-wrap items-end justify-between gap-4">
+        <div>
+          <h1>{e.label}</h1>
+          <p className="text-ink-soft">
+            Effective from <span className="num">{e.effectiveDate}</span> ·{" "}
+            {e.status === "published" ? `published ${e.publishedAt?.slice(0, 10)} by ${e.publishedByName}` : "draft: not yet used by any scenario"} · version{" "}
+            <span className="num">{e.version}</span>
+          </p>
+        </div>
+        {editable ? (
+          <InlineForm action={publishAction} hidden={{ editionId: e.id, version: e.version }} fields={[]} submitLabel="Publish this edition" variant="primary" testId="publish" />
+        ) : null}
+      </header>
+      {imported ? (
+        <p className="notice" role="status">
+          The rate sheet was applied to this draft. Every change is in the change history.
+        </p>
+      ) : null}
+      {e.status === "published" ? <p className="notice">This edition is published and read-only. To change rates, start a new draft from the rate book page.</p> : null}
+
+      <section className="card overflow-x-auto p-0" aria-labelledby="settings">
+        <h2 id="settings" className="px-5 pt-4">
+          Rates and settings
+        </h2>
+        <table className="table">
+          <thead>
+            <tr>
+              <th scope="col">Setting</th>
+              <th scope="col" className="num">
+                Value
+              </th>
+              {editable ? <th scope="col">Change</th> : null}
+            </tr>
+          </thead>
+          <tbody>
+            {SETTING_FIELDS.map((f) => (
+              <tr key={f.key} data-testid={`setting-${f.key}`}>
+                <td>
+                  <span className="font-medium">{f.label}</span>
+                  {f.hint ? <span className="block text-xs text-ink-soft">{f.hint}</span> : null}
+                </td>
+                <td className="num" data-testid={`value-${f.key}`}>
+                  {formatSetting(f.kind, e.settings[f.key])}
+                </td>
+                {editable ? (
+                  <td>
+                    <InlineForm
+                      action={updateSettingAction}
+                      hidden={{ editionId: e.id, version: e.version, key: f.key }}
+                      fields={[{ name: "value", label: `New value for ${f.label}`, defaultValue: e.settings[f.key] }]}
+                      submitLabel="Save"
+                      testId={`edit-${f.key}`}
+                    />
+                  </td>
+                ) : null}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+
+      <section className="card overflow-x-auto p-0" aria-labelledby="fringe">
+        <h2 id="fringe" className="px-5 pt-4">
+          Fringe rates by staff category
+        </h2>
+        <table className="table">
+          <thead>
+            <tr>
+              <th scope="col">Category</th>
+              <th scope="col" className="num">
+                Rate
+              </th>
+              {editable ? <th scope="col">Change</th> : null}
+            </tr>
+          </thead>
+          <tbody>
+            {e.fringe.map((f) => (
+              <tr key={f.id}>
+                <td>{f.category}</td>
+                <td className="num">{formatRate(f.rate)}</td>
+                {editable ? (
+                  <td className="flex flex-wrap gap-2">
+                    <InlineForm action={updateFringeAction} hidden={{ editionId: e.id, id: f.id, version: f.version }} fields={[{ name: "rate", label: `Fringe rate for ${f.category}`, defaultValue: f.rate }]} submitLabel="Save" />
+                    <InlineForm action={removeRowAction} hidden={{ editionId: e.id, id: f.id, version: f.version, kind: "fringe" }} fields={[]} submitLabel="Remove" variant="danger" />
+                  </td>
+                ) : null}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {editable ? (
+          <div className="border-t border-rule p-4">
+            <p className="mb-2 text-sm font-medium">Add a staff category</p>
+            <InlineForm
+              action={addFringeAction}
+              hidden={{ editionId: e.id }}
+              fields={[
+                { name: "category", label: "Staff category", hint: "category" },
+                { name: "rate", label: "Fringe rate", hint: "0.25" },
+              ]}
+              submitLabel="Add"
+            />
+          </div>
+        ) : null}
+      </section>
+
+      <section className="card overflow-x-auto p-0" aria-labelledby="procedures">
+        <h2 id="procedures" className="px-5 pt-4">
+          Procedure catalogue
+        </h2>
+        <table className="table">
+          <thead>
+            <tr>
+              <th scope="col">Code</th>
+              <th scope="col">Procedure</th>
+              <th scope="col">Category</th>
+              <th scope="col" className="num">
+                Unit cost
+              </th>
+              {editable ? <th scope="col">Change</th> : null}
+            </tr>
+          </thead>
+          <tbody>
+            {e.procedures.map((p) => (
+              <tr key={p.id}>
+                <td className="num">{p.code}</td>
+                <td>{p.name}</td>
+                <td>{p.category}</td>
+                <td className="num">{formatMoney(p.unitCost)}</td>
+                {editable ? (
+                  <td className="flex flex-wrap gap-2">
+                    <InlineForm
+                      action={updateProcedureAction}
+                      hidden={{ editionId: e.id, id: p.id, version: p.version }}
+                      fields={[
+                        { name: "name", label: `Name of ${p.code}`, defaultValue: p.name, width: "w-48" },
+                        { name: "unitCost", label: `Unit cost of ${p.code}`, defaultValue: p.unitCost, width: "w-24" },
+                        { name: "category", label: `Category of ${p.code}`, defaultValue: p.category, width: "w-28" },
+                      ]}
+                      submitLabel="Save"
+                    />
+                    <InlineForm action={removeRowAction} hidden={{ editionId: e.id, id: p.id, version: p.version, kind: "procedures" }} fields={[]} submitLabel="Remove" variant="danger" />
+                  </td>
+                ) : null}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {editable ? (
+          <div className="border-t border-rule p-4">
+            <p className="mb-2 text-sm font-medium">Add a procedure</p>
+            <InlineForm
+              action={addProcedureAction}
+              hidden={{ editionId: e.id }}
+              fields={[
+                { name: "code", label: "Code", hint: "CODE", width: "w-28" },
+                { name: "name", label: "Name", hint: "name", width: "w-48" },
+                { name: "unitCost", label: "Unit cost", hint: "0.00", width: "w-24" },
+                { name: "category", label: "Category", hint: "category", width: "w-28" },
+              ]}
+              submitLabel="Add"
+            />
+          </div>
+        ) : null}
+      </section>
+
+      {editable ? (
+        <section className="card" aria-labelledby="import">
+          <h2 id="import" className="mb-3">
+            Import a rate sheet into this draft
+          </h2>
+          <RateSheetUpload editionId={e.id} />
+        </section>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,109 @@
+"use server";
+
+import { parseWithZod } from "@conform-to/zod/v4";
+import type { SubmissionResult } from "@conform-to/react";
+import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
+import { z } from "zod";
+import { applyEditionPatch, cancelImport, commitImport, createDraft } from "@/db/queries/rate-book";
+import { HttpError } from "@/lib/auth/errors";
+import { fringeCategoryField, moneyField, procedureCategoryField, procedureCodeField, procedureNameField, rateField, SETTING_BY_KEY, SETTING_KEYS, settingSchema } from "@/lib/rate-book/fields";
+import type { EditionPatch } from "@/lib/rate-book/patch";
+import { newDraftSchema } from "@/lib/rate-book/patch";
+import { requireUser } from "@/lib/server/current-user";
+
+type Reply = SubmissionResult<string[]>;
+const id = z.coerce.number().int().positive();
+const version = z.coerce.number().int().positive();
+
+/** Validates, applies a patch as the signed-in user, and reports refusals and conflicts on the form, input kept. */
+async function patchFrom<S extends z.ZodType>(formData: FormData, schema: S, toPatch: (v: z.infer<S>) => { editionId: number; patch: EditionPatch }): Promise<Reply> {
+  const user = await requireUser();
+  const submission = parseWithZod(formData, { schema });
+  if (submission.status !== "success") return submission.reply();
+  const { editionId, patch } = toPatch(submission.value);
+  try {
+    await applyEditionPatch(user, editionId, patch);
+  } catch (err) {
+    if (err instanceof HttpError) {
+      // Show the current values (a conflict) without losing what was typed.
+      revalidatePath(`/rate-book/${editionId}`);
+      return submission.reply({ formErrors: [err.message] });
+    }
+    throw err;
+  }
+  revalidatePath(`/rate-book/${editionId}`);
+  revalidatePath("/rate-book");
+  return submission.reply();
+}
+
+const settingForm = z
+  .object({ editionId: id, version, key: z.enum(SETTING_KEYS), value: z.string().optional() })
+  .transform((v, ctx) => {
+    const parsed = settingSchema(SETTING_BY_KEY.get(v.key)!).safeParse(v.value ?? "");
+    if (!parsed.success) {
+      ctx.addIssue({ code: "custom", path: ["value"], message: parsed.error.issues[0]!.message });
+      return z.NEVER;
+    }
+    return { ...v, value: parsed.data };
+  });
+
+export async function updateSettingAction(_prev: unknown, formData: FormData) {
+  return patchFrom(formData, settingForm, (v) => ({ editionId: v.editionId, patch: { version: v.version, settings: { [v.key]: v.value } } }));
+}
+
+export async function updateFringeAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, id, version, rate: rateField("Fringe rate") });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { fringe: [{ id: v.id, version: v.version, rate: v.rate }] } }));
+}
+
+export async function addFringeAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, category: fringeCategoryField, rate: rateField("Fringe rate") });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { fringe: [{ category: v.category, rate: v.rate }] } }));
+}
+
+export async function updateProcedureAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, id, version, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField });
+  return patchFrom(formData, schema, (v) => ({
+    editionId: v.editionId,
+    patch: { procedures: [{ id: v.id, version: v.version, name: v.name, unitCost: v.unitCost, category: v.category }] },
+  }));
+}
+
+export async function addProcedureAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { procedures: [{ code: v.code, name: v.name, unitCost: v.unitCost, category: v.category }] } }));
+}
+
+export async function removeRowAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, id, version, kind: z.enum(["fringe", "procedures"]) });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { [v.kind]: [{ id: v.id, version: v.version, remove: true }] } }));
+}
+
+export async function publishAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, version });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { version: v.version, publish: true } }));
+}
+
+export async function createDraftAction(_prev: unknown, formData: FormData) {
+  const user = await requireUser();
+  const submission = parseWithZod(formData, { schema: newDraftSchema });
+  if (submission.status !== "success") return submission.reply();
+  let editionId: number;
+  try {
+    editionId = await createDraft(user, submission.value);
+  } catch (err) {
+    if (err instanceof HttpError) return submission.reply({ formErrors: [err.message] });
+    throw err;
+  }
+  redirect(`/rate-book/${editionId}`);
+}
+
+export async function finishImportAction(formData: FormData): Promise<void> {
+  const user = await requireUser();
+  const importId = id.parse(formData.get("importId"));
+  const commit = formData.get("decision") === "commit";
+  const editionId = commit ? await commitImport(user, importId) : await cancelImport(user, importId);
+  revalidatePath(`/rate-book/${editionId}`);
+  redirect(`/rate-book/${editionId}${commit ? "?imported=1" : ""}`);
+}

@@ -1,0 +1,63 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { listRateBookAudit } from "@/db/queries/rate-book";
+import { can } from "@/lib/auth/permissions";
+import { requireUser } from "@/lib/server/current-user";
+
+export const metadata: Metadata = { title: "Rate-book change history" };
+
+export default async function AuditPage() {
+  const user = await requireUser();
+  if (!can(user, "ratebook.edit")) {
+    return (
+      <div className="card max-w-xl">
+        <h1>Change history</h1>
+        <p className="mt-2">The rate book&apos;s change history is kept for the grants office.</p>
+      </div>
+    );
+  }
+  const rows = await listRateBookAudit(user);
+  return (
+    <div className="flex flex-col gap-5">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link href="/rate-book">Rate book</Link> <span aria-hidden="true">›</span> Change history
+      </nav>
+      <h1>Change history</h1>
+      <p className="text-ink-soft">Every change to a rate-book edition: who, when, which field, the old and the new value.</p>
+      <div className="card overflow-x-auto p-0">
+        <table className="table" data-testid="audit">
+          <thead>
+            <tr>
+              <th scope="col">When (UTC)</th>
+              <th scope="col">Who</th>
+              <th scope="col">Edition</th>
+              <th scope="col">What</th>
+              <th scope="col">Field</th>
+              <th scope="col" className="num">
+                Old
+              </th>
+              <th scope="col" className="num">
+                New
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((r) => (
+              <tr key={r.id}>
+                <td className="num text-sm">{r.at.replace("T", " ").slice(0, 19)}</td>
+                <td>{r.userName ?? "—"}</td>
+                <td>
+                  <Link href={`/rate-book/${r.entityId}`}>#{r.entityId}</Link>
+                </td>
+                <td>{r.action}</td>
+                <td className="num">{r.field ?? "—"}</td>
+                <td className="num">{r.oldValue ?? "—"}</td>
+                <td className="num">{r.newValue ?? "—"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}

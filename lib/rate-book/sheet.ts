@@ -1,0 +1,241 @@
+/**
+ * Rate sheets (CSV or XLSX) for importing into a draft edition. Columns: section, key, name, value,
+ * category. Sections: `setting` (key = a setting's name), `fringe` (key = staff category, value = rate),
+ * `procedure` (key = code, name, value = unit cost, category).
+ *
+ * Untrusted files: the type is decided by content, not name; size and rows are limited; an XLSX
+ * archive's declared uncompressed size is read from its central directory and checked before
+ * anything is inflated (zip bombs); formula cells are refused, in XLSX and CSV alike.
+ */
+import ExcelJS from "exceljs";
+import { parse as parseCsv } from "csv-parse/sync";
+import {
+  fringeCategoryField,
+  moneyField,
+  procedureCategoryField,
+  procedureCodeField,
+  procedureNameField,
+  rateField,
+  SETTING_BY_KEY,
+  SETTING_FIELDS,
+  settingSchema,
+  type SettingKey,
+} from "./fields";
+
+export const SHEET_MAX_BYTES = 2 * 1024 * 1024;
+export const SHEET_MAX_ROWS = 2000;
+export const XLSX_MAX_UNCOMPRESSED = 20 * 1024 * 1024;
+export const XLSX_MAX_ENTRIES = 500;
+export const XLSX_MAX_RATIO = 100;
+
+export class SheetError extends Error {
+  readonly code = "bad-sheet";
+}
+
+export type SheetRow =
+  | { row: number; section: "setting"; key: SettingKey; value: string | null }
+  | { row: number; section: "fringe"; key: string; value: string }
+  | { row: number; section: "procedure"; key: string; name: string; value: string; category: string };
+
+export type ParsedSheet = { kind: "csv" | "xlsx"; rows: SheetRow[]; errors: { row: number; message: string }[] };
+
+export const SHEET_COLUMNS = ["section", "key", "name", "value", "category"] as const;
+
+/** Display-safe file name: no folders, no control characters, bounded length. */
+export function safeFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? "";
+  // eslint-disable-next-line no-control-regex
+  const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").replace(/^\.+/, "").trim();
+  return (clean || "rate-sheet").slice(0, 100);
+}
+
+function isZip(b: Uint8Array): boolean {
+  return b.length >= 4 && b[0] === 0x50 && b[1] === 0x4b && b[2] === 0x03 && b[3] === 0x04;
+}
+
+/**
+ * Reads the ZIP central directory (APPNOTE.TXT 4.3.12/4.3.16) and returns the declared sizes, without
+ * inflating anything. A hand-written reader because the check must come before any library unzips.
+ */
+export function zipDeclaredSizes(b: Uint8Array): { entries: number; compressed: number; uncompressed: number } {
+  const view = new DataView(b.buffer, b.byteOffset, b.byteLength);
+  const minEocd = Math.max(0, b.length - 22 - 65535);
+  let eocd = -1;
+  for (let i = b.length - 22; i >= minEocd; i--) {
+    if (view.getUint32(i, true) === 0x06054b50) {
+      eocd = i;
+      break;
+    }
+  }
+  if (eocd < 0) throw new SheetError("The file looks like an XLSX workbook but its archive is damaged.");
+  const entries = view.getUint16(eocd + 10, true);
+  const cdSize = view.getUint32(eocd + 12, true);
+  const cdOffset = view.getUint32(eocd + 16, true);
+  if (entries === 0xffff || cdOffset === 0xffffffff || cdOffset + cdSize > b.length) {
+    throw new SheetError("The workbook's archive uses a layout we do not accept (ZIP64 or damaged).");
+  }
+  let p = cdOffset;
+  let compressed = 0;
+  let uncompressed = 0;
+  for (let i = 0; i < entries; i++) {
+    if (p + 46 > b.length || view.getUint32(p, true) !== 0x02014b50) throw new SheetError("The workbook's archive directory is damaged.");
+    const c = view.getUint32(p + 20, true);
+    const u = view.getUint32(p + 24, true);
+    if (c === 0xffffffff || u === 0xffffffff) throw new SheetError("The workbook's archive uses ZIP64, which we do not accept.");
+    compressed += c;
+    uncompressed += u;
+    p += 46 + view.getUint16(p + 28, true) + view.getUint16(p + 30, true) + view.getUint16(p + 32, true);
+  }
+  return { entries, compressed, uncompressed };
+}
+
+function checkArchive(b: Uint8Array): void {
+  const z = zipDeclaredSizes(b);
+  if (z.entries > XLSX_MAX_ENTRIES) throw new SheetError(`The workbook holds ${z.entries} parts; at most ${XLSX_MAX_ENTRIES} are accepted.`);
+  if (z.uncompressed > XLSX_MAX_UNCOMPRESSED) {
+    throw new SheetError(`The workbook would unpack to ${(z.uncompressed / 1048576).toFixed(1)} MB; at most ${XLSX_MAX_UNCOMPRESSED / 1048576} MB are accepted.`);
+  }
+  if (z.compressed > 0 && z.uncompressed / z.compressed > XLSX_MAX_RATIO) {
+    throw new SheetError("The workbook compresses suspiciously well (a possible zip bomb) and was refused.");
+  }
+}
+
+const FORMULA_LIKE = /^\s*(=|@|[+-](?!\s*\d))/;
+
+type RawRow = { row: number; cells: string[] };
+
+async function readXlsx(b: Uint8Array): Promise<RawRow[]> {
+  checkArchive(b);
+  const wb = new ExcelJS.Workbook();
+  try {
+    await wb.xlsx.load(b.buffer.slice(b.byteOffset, b.byteOffset + b.byteLength) as ArrayBuffer);
+  } catch {
+    throw new SheetError("The XLSX workbook could not be read.");
+  }
+  const ws = wb.worksheets[0];
+  if (!ws) throw new SheetError("The workbook has no sheet.");
+  if (ws.rowCount > SHEET_MAX_ROWS + 1) throw new SheetError(`The sheet has ${ws.rowCount} rows; at most ${SHEET_MAX_ROWS} are accepted.`);
+  const rows: RawRow[] = [];
+  ws.eachRow({ includeEmpty: false }, (row, rowNumber) => {
+    const cells: string[] = [];
+    for (let c = 1; c <= SHEET_COLUMNS.length; c++) {
+      const cell = row.getCell(c);
+      if (cell.type === ExcelJS.ValueType.Formula || (cell as { formula?: string }).formula) {
+        throw new SheetError(`Row ${rowNumber}, column ${c} holds a formula; rate sheets must hold plain values.`);
+      }
+      const v = cell.value;
+      cells.push(v == null ? "" : typeof v === "object" && "richText" in v ? v.richText.map((r) => r.text).join("") : String(v));
+    }
+    rows.push({ row: rowNumber, cells });
+  });
+  return rows;
+}
+
+function readCsv(b: Uint8Array): RawRow[] {
+  let text: string;
+  try {
+    text = new TextDecoder("utf-8", { fatal: true }).decode(b);
+  } catch {
+    throw new SheetError("The file is neither an XLSX workbook nor UTF-8 text (CSV).");
+  }
+  if (text.includes("\u0000")) throw new SheetError("The file is neither an XLSX workbook nor a text CSV.");
+  let records: string[][];
+  try {
+    records = parseCsv(text.replace(/^\uFEFF/, ""), { relax_column_count: true, skip_empty_lines: true, trim: true, to: SHEET_MAX_ROWS + 2 });
+  } catch (err) {
+    throw new SheetError(`The CSV could not be read: ${(err as Error).message.split("\n")[0]}`);
+  }
+  if (records.length > SHEET_MAX_ROWS + 1) throw new SheetError(`The sheet has more than ${SHEET_MAX_ROWS} rows.`);
+  return records.map((cells, i) => ({ row: i + 1, cells }));
+}
+
+export async function parseRateSheet(bytes: Uint8Array): Promise<ParsedSheet> {
+  if (bytes.length === 0) throw new SheetError("The file is empty.");
+  if (bytes.length > SHEET_MAX_BYTES) throw new SheetError(`The file is ${(bytes.length / 1048576).toFixed(1)} MB; at most 2 MB are accepted.`);
+  const kind = isZip(bytes) ? "xlsx" : "csv";
+  const raw = kind === "xlsx" ? await readXlsx(bytes) : readCsv(bytes);
+  if (raw.length === 0) throw new SheetError("The sheet has no rows.");
+  const header = raw[0]!.cells.map((c) => c.trim().toLowerCase());
+  if (SHEET_COLUMNS.some((c, i) => header[i] !== c)) {
+    throw new SheetError(`The first row must name the columns: ${SHEET_COLUMNS.join(", ")}. Download the template to start from.`);
+  }
+  const rows: SheetRow[] = [];
+  const errors: ParsedSheet["errors"] = [];
+  for (const { row, cells } of raw.slice(1)) {
+    const [section = "", key = "", name = "", value = "", category = ""] = cells.map((c) => c.trim());
+    if (!section && !key && !value) continue;
+    const formula = cells.findIndex((c) => FORMULA_LIKE.test(c));
+    if (formula >= 0) {
+      errors.push({ row, message: `Column ${SHEET_COLUMNS[formula] ?? formula + 1} looks like a formula; rate sheets must hold plain values.` });
+      continue;
+    }
+    const fail = (message: string) => errors.push({ row, message });
+    const check = <T>(schema: { safeParse: (v: unknown) => { success: true; data: T } | { success: false; error: { issues: { message: string }[] } } }, v: unknown): T | undefined => {
+      const r = schema.safeParse(v);
+      if (r.success) return r.data;
+      fail(r.error.issues[0]!.message);
+      return undefined;
+    };
+    switch (section.toLowerCase()) {
+      case "setting": {
+        const field = SETTING_BY_KEY.get(key as SettingKey);
+        if (!field) {
+          fail(`Unknown setting "${key.slice(0, 40)}"; settings are ${SETTING_FIELDS.map((f) => f.key).join(", ")}.`);
+          break;
+        }
+        const v = check(settingSchema(field), value);
+        if (v !== undefined) rows.push({ row, section: "setting", key: field.key, value: v });
+        break;
+      }
+      case "fringe": {
+        const k = check(fringeCategoryField, key);
+        const v = check(rateField("Fringe rate"), value);
+        if (k !== undefined && v !== undefined) rows.push({ row, section: "fringe", key: k, value: v });
+        break;
+      }
+      case "procedure": {
+        const k = check(procedureCodeField, key);
+        const n = check(procedureNameField, name);
+        const v = check(moneyField("Unit cost"), value);
+        const c = check(procedureCategoryField, category || "other");
+        if (k !== undefined && n !== undefined && v !== undefined && c !== undefined) rows.push({ row, section: "procedure", key: k, name: n, value: v, category: c });
+        break;
+      }
+      default:
+        fail(`Section must be setting, fringe or procedure, not "${section.slice(0, 40)}".`);
+    }
+  }
+  const seen = new Set<string>();
+  for (const r of rows) {
+    const id = `${r.section}:${r.key}`;
+    if (seen.has(id)) errors.push({ row: r.row, message: `${r.section} ${r.key} appears more than once.` });
+    seen.add(id);
+  }
+  return { kind, rows, errors };
+}
+
+/** The template sheet's rows: the header, then one example of each section. */
+export function templateRows(): string[][] {
+  return [
+    [...SHEET_COLUMNS],
+    ["setting", "faRate", "", "0.565", ""],
+    ["setting", "escalationSalaries", "", "0.03", ""],
+    ["fringe", "faculty", "", "0.285", ""],
+    ["procedure", "LAB-CBC", "Complete blood count", "28.50", "laboratory"],
+  ];
+}
+
+export async function templateXlsx(): Promise<Buffer> {
+  const wb = new ExcelJS.Workbook();
+  const ws = wb.addWorksheet("Rate sheet");
+  for (const r of templateRows()) ws.addRow(r);
+  ws.getRow(1).font = { bold: true };
+  ws.columns.forEach((c) => (c.width = 22));
+  return Buffer.from(await wb.xlsx.writeBuffer());
+}
+
+export function templateCsv(): string {
+  return templateRows()
+    .map((r) => r.map((c) => (/[",\n]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(","))
+    .join("\r\n") + "\r\n";
+}
