@@ -27,8 +27,9 @@ export type EditionDetail = EditionSummary & { settings: Record<SettingKey, stri
 const conflict = (message: string, fields?: Record<string, string[]>, current?: unknown) =>
   new HttpError(409, "conflict", message, fields, current === undefined ? undefined : { current });
 
-async function institutionOf(actor: Actor): Promise<number> {
-  const row = await getDb().selectFrom("users").select("institution_id").where("id", "=", actor.id).executeTakeFirstOrThrow();
+// Inside a transaction pass the transaction: SQLite has one connection, so a query on getDb() there would wait forever.
+async function institutionOf(actor: Actor, db: Kysely<Database> | Transaction<Database> = getDb()): Promise<number> {
+  const row = await db.selectFrom("users").select("institution_id").where("id", "=", actor.id).executeTakeFirstOrThrow();
   return row.institution_id;
 }
 
@@ -161,7 +162,7 @@ export async function createDraft(actor: Actor, input: { label: string; effectiv
 
 async function draftForEdit(trx: Transaction<Database>, actor: Actor, id: number): Promise<EditionDetail> {
   enforce(decide(actor, "ratebook.edit"));
-  const e = Number.isSafeInteger(id) ? await loadEdition(trx, id, await institutionOf(actor)) : null;
+  const e = Number.isSafeInteger(id) ? await loadEdition(trx, id, await institutionOf(actor, trx)) : null;
   if (!e) throw notFound("That rate-book edition was not found.");
   if (e.status !== "draft") throw conflict("This edition is published and read-only; start a new draft to change rates.");
   return e;
@@ -289,7 +290,7 @@ export async function applyEditionPatch(actor: Actor, id: number, patch: Edition
           .execute();
       }
       await writeAudit(trx, audit);
-      return (await loadEdition(trx, id, await institutionOf(actor)))!;
+      return (await loadEdition(trx, id, await institutionOf(actor, trx)))!;
     });
 }
 
