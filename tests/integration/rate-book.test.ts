@@ -229,7 +229,7 @@ describe("importing a rate sheet", () => {
     const ws = wb.addWorksheet("Rates");
     ws.addRow(["section", "key", "name", "value", "category"]);
     ws.addRow(["setting", "faRate", "", null, ""]);
-    ws.getCell("D2").value = { formula: "0.5+0.1", result: 0.6 };
+    ws.getCell("D2").value = { formula: "0.5+0.1", result: 0.6 } as ExcelJS.CellFormulaValue;
     const x = await upload("grants", id, "formula.xlsx", Buffer.from(await wb.xlsx.writeBuffer()));
     expect(x.status).toBe(422);
     expect((await x.json()).error.message).toMatch(/formula/);

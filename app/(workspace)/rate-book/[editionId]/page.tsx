@@ -157,7 +157,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
           <tbody>
             {e.procedures.map((p) => (
               <tr key={p.id}>
-                <td className="num">{p.code}</td>
+                <td className="font-mono text-sm whitespace-nowrap">{p.code}</td>
                 <td>{p.name}</td>
                 <td>{p.category}</td>
                 <td className="num">{formatMoney(p.unitCost)}</td>
