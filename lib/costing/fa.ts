@@ -4,31 +4,38 @@
  * participant support costs, and each subaward's part above the threshold ($50,000 now, $25,000
  * before; a rate-book setting) over the life of the award. Or total direct costs (TDC).
  */
-import { D, toCents, ZERO, type Money } from "./money";
+import { exact, type Arith } from "./arith";
+import { toCents, type Money } from "./money";
 import { MTDC_EXCLUDED, type CostCategory, type RateBook } from "./types";
 
-export type BaseLine = { category: CostCategory; amounts: string[]; subawardId?: string };
+export type BaseLine<T> = { category: CostCategory; amounts: T[]; subawardId?: string };
 
-/** For each line, the part of each period's amount that counts in the base (cents strings). */
-export function faBaseByLine(lines: BaseLine[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">): string[][] {
-  const threshold = new D(rates.mtdcSubawardThreshold);
-  const used = new Map<string, Money>();
+/** For each line, the part of each period's amount that counts in the base. */
+export function faBaseByLine<T>(lines: BaseLine<T>[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">, A: Arith<T>): T[][] {
+  const threshold = A.of(rates.mtdcSubawardThreshold);
+  const used = new Map<string, T>();
   const periods = lines[0]?.amounts.length ?? 0;
-  const out = lines.map(() => [] as string[]);
+  const out = lines.map(() => [] as T[]);
   // Period by period, so a subaward's threshold is used up in the order the money is spent.
   for (let p = 0; p < periods; p++) {
     lines.forEach((line, i) => {
-      const amount = new D(line.amounts[p] ?? "0");
-      if (rates.faBase === "tdc") out[i]!.push(toCents(amount));
-      else if (MTDC_EXCLUDED.has(line.category)) out[i]!.push("0.00");
+      const amount = line.amounts[p] ?? A.zero;
+      if (rates.faBase === "tdc") out[i]!.push(amount);
+      else if (MTDC_EXCLUDED.has(line.category)) out[i]!.push(A.zero);
       else if (line.category === "subaward") {
         const id = line.subawardId ?? `line-${i}`;
-        const before = used.get(id) ?? ZERO;
-        const counted = D.max(ZERO, D.min(amount, threshold.minus(before)));
-        used.set(id, before.plus(counted));
-        out[i]!.push(toCents(counted));
-      } else out[i]!.push(toCents(amount));
+        const before = used.get(id) ?? A.zero;
+        const counted = A.max(A.zero, A.min(amount, A.sub(threshold, before)));
+        used.set(id, A.add(before, counted));
+        out[i]!.push(counted);
+      } else out[i]!.push(amount);
     });
   }
   return out;
+}
+
+/** The same on decimal strings, in and out (cents). */
+export function faBaseOfAmounts(lines: BaseLine<string>[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">): string[][] {
+  const parsed = lines.map((l) => ({ ...l, amounts: l.amounts.map((a) => exact.of(a)) }));
+  return faBaseByLine<Money>(parsed, rates, exact).map((row) => row.map(toCents));
 }

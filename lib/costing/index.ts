@@ -2,6 +2,7 @@
 export * from "./types";
 export { computeLedger, CostingError, type Ledger, type LedgerLine, type CapChecks } from "./ledger";
 export { computeTimeline, sitesNeeded, budgetPeriods, allocate, TimelineError, type Period, type TimelineResult } from "./timeline";
-export { faBaseByLine } from "./fa";
+export { faBaseByLine, faBaseOfAmounts } from "./fa";
+export { approximateTotals, buildCostStructure, priceStructure, type CostStructure } from "./ledger";
 export { costAtEvaluable, largestAffordable, armsFor, type CostPlan, type CostAtN } from "./inverse";
 export { cents, escalationFactor, toCents, D } from "./money";

@@ -6,8 +6,9 @@
  * line's amount is ROUND(quantity × unit × (1 + escalation)^(period − 1), 2); a salary line's is
  * ROUND(MIN(base × (1 + escalation)^(period − 1), cap) × effort × months / 12, 2).
  */
-import { cents, D, escalationFactor, sum, toCents, ZERO, type Money } from "./money";
+import { cents, D, sum, toCents, ZERO, type Money } from "./money";
 import { allocate, computeTimeline, periodOfMonth, type Period, type TimelineResult } from "./timeline";
+import { approximate, exact, type Arith } from "./arith";
 import { faBaseByLine } from "./fa";
 import type { CostCategory, CostInputs, RateBook } from "./types";
 
@@ -75,7 +76,57 @@ function escalationFor(category: CostCategory, rates: { salaries: string; costs:
   return rates.byCategory[category] ?? (category === "salaries" || category === "fringe" ? rates.salaries : rates.costs);
 }
 
-export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
+/** How one line is priced: the same spec is priced exactly (the ledger) or approximately (the reach curve). */
+type Pricing =
+  | { kind: "quantity"; unit: string; quantities: number[]; escalation: string }
+  | { kind: "salary"; base: string; cap: string | null; effort: number[]; months: number[]; escalation: string }
+  | { kind: "fringe"; of: number; rate: string }
+  | { kind: "amounts"; amounts: string[] }
+  | { kind: "per-period"; amount: string; escalation: string | null };
+
+type LineSpec = Omit<LedgerLine, "amounts" | "total" | "inBase"> & { pricing: Pricing };
+
+export type CostStructure = {
+  tl: TimelineResult;
+  specs: LineSpec[];
+  counts: Ledger["counts"];
+  sites: number;
+};
+
+function priceLines<T>(specs: LineSpec[], P: number, A: Arith<T>): T[][] {
+  const out: T[][] = [];
+  specs.forEach((spec) => {
+    const pr = spec.pricing;
+    const amounts: T[] = [];
+    for (let p = 0; p < P; p++) {
+      switch (pr.kind) {
+        case "quantity":
+          amounts.push(pr.quantities[p] ? A.round(A.mul(A.mul(A.of(pr.unit), pr.quantities[p]!), A.growth(pr.escalation, p))) : A.zero);
+          break;
+        case "salary": {
+          const escalated = A.mul(A.of(pr.base), A.growth(pr.escalation, p));
+          const base = pr.cap === null ? escalated : A.min(escalated, A.of(pr.cap));
+          amounts.push(A.round(A.div(A.mul(A.mul(base, pr.effort[p]!), pr.months[p]!), 12)));
+          break;
+        }
+        case "fringe":
+          amounts.push(A.round(A.mul(out[pr.of]![p]!, A.of(pr.rate))));
+          break;
+        case "amounts":
+          amounts.push(A.round(A.of(pr.amounts[p] ?? "0")));
+          break;
+        case "per-period":
+          amounts.push(A.round(pr.escalation === null ? A.of(pr.amount) : A.mul(A.of(pr.amount), A.growth(pr.escalation, p))));
+          break;
+      }
+    }
+    out.push(amounts);
+  });
+  return out;
+}
+
+/** Everything but the prices: the timeline, and each line's quantities, salaries and amounts by period. */
+export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStructure {
   const enrolled = inputs.arms.reduce((a, b) => a + b.enrolled, 0);
   const evaluable = inputs.arms.reduce((a, b) => a + b.evaluable, 0);
   const screened = inputs.arms.reduce((a, b) => a + b.screened, 0);
@@ -89,16 +140,14 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
     costs: inputs.escalation?.costs ?? rates.escalation.costs,
     byCategory: inputs.escalation?.byCategory ?? {},
   };
-  const lines: LedgerLine[] = [];
+  const specs: LineSpec[] = [];
 
   const quantityLine = (key: string, group: LineGroup, category: CostCategory, label: string, unit: string, quantities: number[]): void => {
     if (quantities.every((q) => q === 0)) return;
     const e = escalationFor(category, esc);
-    const amounts = quantities.map((q, p) => cents(new D(unit).times(q).times(escalationFactor(e, p))));
-    lines.push({ key, group, category, label, basis: "quantity", unitCost: new D(unit).toFixed(2), quantities, escalation: e, amounts: amounts.map(toCents), total: toCents(sum(amounts)), inBase: [] });
+    specs.push({ key, group, category, label, basis: "quantity", unitCost: unit, quantities, escalation: e, pricing: { kind: "quantity", unit, quantities, escalation: e } });
   };
   const perPeriod = (): number[] => Array.from({ length: P }, () => 0);
-
   // Participants: screening, screen failures, visits by cohort month.
   const cohorts = tl.enrolledByMonth;
   const failuresByMonth = allocate(screened - enrolled, cohorts);
@@ -175,16 +224,11 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
         : period.months,
     );
     const effort = tl.periods.map((_, p) => person.effort[Math.min(p, person.effort.length - 1)] ?? 0);
-    const salaries = tl.periods.map((_, p) => {
-      const escalated = new D(person.baseSalary).times(escalationFactor(e, p));
-      const base = capped ? D.min(escalated, new D(rates.salaryCap!)) : escalated;
-      return cents(base.times(effort[p]!).times(months[p]!).div(12));
-    });
     const key = `salary:${i}`;
     const personnel = {
       role: person.role,
-      baseSalary: new D(person.baseSalary).toFixed(2),
-      salaryCap: capped ? new D(rates.salaryCap!).toFixed(2) : null,
+      baseSalary: person.baseSalary,
+      salaryCap: capped ? rates.salaryCap! : null,
       capped,
       effort,
       months,
@@ -192,44 +236,93 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
       fringeCategory: person.fringeCategory,
       fringeRate,
     };
-    lines.push({ key, group: "personnel", category: "salaries", label: person.role, basis: "salary", escalation: e, amounts: salaries.map(toCents), total: toCents(sum(salaries)), inBase: [], personnel });
-    const fringe = salaries.map((s) => cents(s.times(fringeRate)));
-    lines.push({ key: `fringe:${i}`, group: "personnel", category: "fringe", label: `Fringe, ${person.role}`, basis: "fringe", escalation: e, amounts: fringe.map(toCents), total: toCents(sum(fringe)), inBase: [], fringeOf: key, personnel });
+    const salaryIndex = specs.length;
+    specs.push({
+      key,
+      group: "personnel",
+      category: "salaries",
+      label: person.role,
+      basis: "salary",
+      escalation: e,
+      personnel,
+      pricing: { kind: "salary", base: person.baseSalary, cap: capped ? rates.salaryCap! : null, effort, months, escalation: e },
+    });
+    specs.push({ key: `fringe:${i}`, group: "personnel", category: "fringe", label: `Fringe, ${person.role}`, basis: "fringe", escalation: e, fringeOf: key, personnel, pricing: { kind: "fringe", of: salaryIndex, rate: fringeRate } });
   });
 
   // Other direct costs.
   inputs.other.forEach((o, i) => {
     const e = escalationFor(o.category, esc);
-    const amounts = tl.periods.map((_, p) => {
-      if (o.byPeriod) return cents(o.byPeriod[p] ?? "0");
-      const base = new D(o.perPeriod ?? "0");
-      return cents(o.escalate === false ? base : base.times(escalationFactor(e, p)));
-    });
-    lines.push({
+    specs.push({
       key: `other:${i}`,
       group: "other",
       category: o.category,
       label: o.label,
       basis: "amount",
       escalation: o.byPeriod || o.escalate === false ? "0" : e,
-      amounts: amounts.map(toCents),
-      total: toCents(sum(amounts)),
-      inBase: [],
       ...(o.category === "subaward" ? { subawardId: o.subawardId ?? `subaward-${i}` } : {}),
+      pricing: o.byPeriod ? { kind: "amounts", amounts: o.byPeriod } : { kind: "per-period", amount: o.perPeriod ?? "0", escalation: o.escalate === false ? null : e },
     });
   });
 
-  // The F&A base: MTDC (or total direct costs where the rate book says so).
-  const inBase = faBaseByLine(lines, rates);
-  lines.forEach((line, i) => (line.inBase = inBase[i]!));
+  return {
+    tl,
+    specs,
+    sites: inputs.timeline.sites,
+    counts: { evaluable, enrolled, screened, screenFailures: screened - enrolled, dropouts: enrolled - evaluable, sites: inputs.timeline.sites, visitsAttended: attendance.reduce((a, b) => a + b, 0) },
+  };
+}
 
-  const direct = tl.periods.map((_, p) => sum(lines.map((l) => new D(l.amounts[p]!))));
-  const base = tl.periods.map((_, p) => sum(lines.map((l) => new D(l.inBase[p]!))));
-  const fa = base.map((b) => cents(b.times(rates.faRate)));
+/** Direct, base, F&A and total by period for priced lines, in the given arithmetic. */
+function summarize<T>(specs: LineSpec[], amounts: T[][], P: number, rates: RateBook, A: Arith<T>) {
+  const inBase = faBaseByLine(specs.map((s, i) => ({ category: s.category, amounts: amounts[i]!, subawardId: s.subawardId })), rates, A);
+  const direct: T[] = [];
+  const base: T[] = [];
+  const fa: T[] = [];
+  for (let p = 0; p < P; p++) {
+    let d = A.zero;
+    let b = A.zero;
+    for (let i = 0; i < specs.length; i++) {
+      d = A.add(d, amounts[i]![p]!);
+      b = A.add(b, inBase[i]![p]!);
+    }
+    direct.push(d);
+    base.push(b);
+    fa.push(A.round(A.mul(b, A.of(rates.faRate))));
+  }
+  return { inBase, direct, base, fa };
+}
+
+/** Total and direct costs only, priced in floating point: for the reach curve (see arith.ts). */
+export function approximateTotals(structure: CostStructure, rates: RateBook): { direct: number; total: number } {
+  const P = structure.tl.periods.length;
+  const amounts = priceLines(structure.specs, P, approximate);
+  const { direct, fa } = summarize(structure.specs, amounts, P, rates, approximate);
+  const d = direct.reduce((a, b) => a + b, 0);
+  return { direct: d, total: d + fa.reduce((a, b) => a + b, 0) };
+}
+
+export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
+  return priceStructure(buildCostStructure(inputs, rates), inputs, rates);
+}
+
+export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs, "caps">, rates: RateBook): Ledger {
+  const { tl, specs, counts } = structure;
+  const P = tl.periods.length;
+  const amounts = priceLines(specs, P, exact);
+  const { inBase, direct, base, fa } = summarize(specs, amounts, P, rates, exact);
+  // Money in the structure is as typed; the ledger shows it in cents.
+  const fixed = (v: string) => new D(v).toFixed(2);
+  const lines: LedgerLine[] = specs.map(({ pricing: _pricing, ...spec }, i) => ({
+    ...spec,
+    ...(spec.unitCost !== undefined ? { unitCost: fixed(spec.unitCost) } : {}),
+    ...(spec.personnel ? { personnel: { ...spec.personnel, baseSalary: fixed(spec.personnel.baseSalary), salaryCap: spec.personnel.salaryCap === null ? null : fixed(spec.personnel.salaryCap) } } : {}),
+    amounts: amounts[i]!.map(toCents),
+    total: toCents(sum(amounts[i]!)),
+    inBase: inBase[i]!.map(toCents),
+  }));
   const total = direct.map((d, p) => d.plus(fa[p]!));
   const grand = sum(total);
-
-  const dropouts = enrolled - evaluable;
   const perParticipant = sum(lines.filter((l) => PER_PARTICIPANT_GROUPS.has(l.group)).map((l) => new D(l.total)));
   const directTotal = sum(direct);
   const siteDirect = sum(lines.filter((l) => l.group === "sites").map((l) => new D(l.total)));
@@ -252,11 +345,11 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
       lastVisitMonth: tl.lastVisitMonth,
       studyMonths: tl.studyMonths,
     },
-    counts: { evaluable, enrolled, screened, screenFailures: screened - enrolled, dropouts, sites: inputs.timeline.sites, visitsAttended: attendance.reduce((a, b) => a + b, 0) },
+    counts,
     unit: {
-      perEnrolled: ratio(enrolled),
-      perEvaluable: ratio(evaluable),
-      perSite: inputs.timeline.sites > 0 ? toCents(cents(siteDirect.div(inputs.timeline.sites))) : "0.00",
+      perEnrolled: ratio(counts.enrolled),
+      perEvaluable: ratio(counts.evaluable),
+      perSite: structure.sites > 0 ? toCents(cents(siteDirect.div(structure.sites))) : "0.00",
       fixedShare: share(directTotal.minus(perParticipant)),
       perParticipantShare: share(perParticipant),
     },

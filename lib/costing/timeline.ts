@@ -55,7 +55,20 @@ function dayBefore(isoDate: string): string {
   return date.toISOString().slice(0, 10);
 }
 
+const periodCache = new Map<string, Period[]>();
+
+/** 12-month periods from the start date (memoised: the planner asks for the same few thousands of times). */
 export function budgetPeriods(startDate: string, studyMonths: number): Period[] {
+  const key = `${startDate}|${studyMonths}`;
+  const hit = periodCache.get(key);
+  if (hit) return hit.map((p) => ({ ...p }));
+  const periods = computePeriods(startDate, studyMonths);
+  if (periodCache.size > 5000) periodCache.clear();
+  periodCache.set(key, periods);
+  return periods.map((p) => ({ ...p }));
+}
+
+function computePeriods(startDate: string, studyMonths: number): Period[] {
   const periods: Period[] = [];
   for (let p = 0; p * 12 < studyMonths; p++) {
     const startMonth = p * 12;
@@ -84,11 +97,13 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   let cum = 0;
   let given = 0;
   let month = 0;
+  const sorted = [...activationMonths].sort((a, b) => a - b);
+  let active = 0;
   while (given < enrolledTotal) {
     if (month >= MAX_STUDY_MONTHS) {
       throw new TimelineError(`Enrolling ${enrolledTotal} participants would take more than ${MAX_STUDY_MONTHS} months at this rate; add sites or raise the rate.`);
     }
-    const active = activationMonths.filter((a) => a <= month).length;
+    while (active < sorted.length && sorted[active]! <= month) active++;
     cum += active * t.ratePerSiteMonth;
     const target = Math.min(enrolledTotal, Math.floor(cum + 1e-9));
     enrolledByMonth.push(target - given);

@@ -9,6 +9,12 @@ import type { Funnel, FunnelArm } from "./schema";
 
 export function inflate(n: number, rate: number): number {
   if (rate <= 0) return n;
+  // Rates of up to six decimals as exact integers (the planner calls this thousands of times); Decimal otherwise.
+  const scaled = Math.round(rate * 1e6);
+  if (Math.abs(scaled / 1e6 - rate) < 1e-15 && n < 1e9) {
+    const keep = 1e6 - scaled;
+    return Math.floor((n * 1e6 + keep - 1) / keep);
+  }
   return new Decimal(n).div(new Decimal(1).minus(new Decimal(rate))).ceil().toNumber();
 }
 

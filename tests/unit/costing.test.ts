@@ -5,7 +5,7 @@
  * NIH rule (requested salary = min(base, cap) × effort). Other examples are worked here in comments.
  */
 import { describe, expect, it } from "vitest";
-import { computeLedger, computeTimeline, costAtEvaluable, faBaseByLine, largestAffordable, type CostPlan, type RateBook } from "@/lib/costing";
+import { computeLedger, computeTimeline, costAtEvaluable, faBaseOfAmounts as faBaseByLine, largestAffordable, type CostPlan, type RateBook } from "@/lib/costing";
 import { D } from "@/lib/costing/money";
 import { ROUND_RATES, SMALL_STUDY } from "../fixtures/rate-books";
 

@@ -1,0 +1,210 @@
+/**
+ * A scenario's computation: the power engine sizes it, the funnel and timeline follow, the costing
+ * engine prices it with a rate-book edition, and the planner says what the sponsor's cap buys.
+ */
+import Decimal from "decimal.js";
+import { buildCostStructure, computeLedger, priceStructure, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
+import { buildFunnel } from "@/lib/power/funnel";
+import { solveParsed, powerInputSchema, quantityNames, type PowerResult } from "@/lib/power";
+import type { ParsedPowerInput } from "@/lib/power/schema";
+import type { ScenarioInputs } from "./schema";
+
+export type StudyContext = { startDate: string; sponsorCap: string | null };
+
+export class ScenarioError extends Error {
+  readonly code = "scenario";
+}
+
+export const isCluster = (i: ScenarioInputs) => i.design.design.startsWith("cluster-");
+
+/** The power-engine input for this scenario, with the given quantity left out (or n fixed). */
+export function powerInput(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n?: number): ParsedPowerInput {
+  const d = i.design;
+  const names = quantityNames(d.design);
+  const sd = i.pilot && i.pilot.kind === "sd" ? (i.pilot.use === "upper" && i.pilot.upperLimit ? i.pilot.upperLimit : i.pilot.estimate) : d.sd;
+  const p1 = i.pilot && i.pilot.kind === "proportion" ? i.pilot.estimate : d.p1;
+  const raw: Record<string, unknown> = {
+    design: d.design,
+    alpha: d.alpha,
+    sides: d.sides,
+    attrition: i.recruitment.attrition,
+    screenFailure: i.recruitment.screenFailure,
+  };
+  if (d.design !== "one-mean") raw.allocationRatio = d.allocationRatio;
+  if (d.design.endsWith("proportions")) raw.p1 = p1;
+  if (d.design.startsWith("cluster-")) Object.assign(raw, { clusterSize: d.clusterSize, icc: d.icc, cv: d.cv ?? 0 });
+  if (d.design === "time-to-event") Object.assign(raw, { controlMedian: d.controlMedian, accrualMonths: d.accrualMonths, followUpMonths: d.followUpMonths });
+  if (solveFor !== "power") raw.power = d.power;
+  if (solveFor !== "n") raw[names.n] = n;
+  if (solveFor !== "effect") {
+    if (names.effect === "effectSize") {
+      if (d.meanDifference !== undefined && sd !== undefined) Object.assign(raw, { meanDifference: d.meanDifference, sd });
+      else raw.effectSize = d.effectSize;
+    } else raw[names.effect] = names.effect === "p2" ? d.p2 : d.hazardRatio;
+  } else if (names.effect === "p2") raw.direction = (d.p2 ?? 1) < (p1 ?? 0) ? "decrease" : "increase";
+  else if (names.effect === "hazardRatio") raw.direction = (d.hazardRatio ?? 0) > 1 ? "increase" : "decrease";
+  const parsed = powerInputSchema.safeParse(raw);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0]!;
+    throw new ScenarioError(`Design: ${issue.message}`);
+  }
+  return parsed.data;
+}
+
+/** The effect the power engine reports, whatever the design calls it. */
+export function effectOf(r: PowerResult): number {
+  return r.effectSize ?? r.p2 ?? r.hazardRatio ?? Number.NaN;
+}
+
+/** The unit the sample size is counted in: participants per arm, or clusters per arm. */
+export function nOf(r: PowerResult): number {
+  return r.clusters1 ?? r.n1;
+}
+
+export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInputs["arms"], sites: number): CostInputs {
+  return {
+    startDate: study.startDate,
+    arms,
+    timeline: {
+      sites,
+      startupMonths: i.recruitment.startupMonths,
+      staggerMonths: i.recruitment.staggerMonths,
+      ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
+      closeoutMonths: i.recruitment.closeoutMonths,
+    },
+    visits: i.visits.map((v) => ({ name: v.name, month: v.month, procedures: v.procedures.map((code) => ({ code })) })),
+    dropoutVisitShare: i.recruitment.dropoutVisitShare,
+    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: [p.effortPercent / 100], follows: p.follows })),
+    other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
+    caps: { total: study.sponsorCap },
+  };
+}
+
+/**
+ * Sites for a sample: cluster designs enrol one cluster per site; otherwise the fixed number, or the
+ * fewest that finish enrolment by the deadline.
+ */
+export function sitesFor(i: ScenarioInputs, enrolled: number, clusters: number | null): number | null {
+  if (clusters !== null) return clusters;
+  if (i.recruitment.maxEnrolmentMonths) {
+    return sitesNeeded(
+      { startupMonths: i.recruitment.startupMonths, staggerMonths: i.recruitment.staggerMonths, ratePerSiteMonth: i.recruitment.ratePerSiteMonth, closeoutMonths: i.recruitment.closeoutMonths },
+      enrolled,
+      i.recruitment.maxEnrolmentMonths,
+    );
+  }
+  return i.recruitment.sites;
+}
+
+/** The parsed power input with the sample size set: validated once, then reused for every n (the curve asks hundreds of times). */
+export function withN(parsed: ParsedPowerInput, n: number): ParsedPowerInput {
+  return { ...parsed, [quantityNames(parsed.design).n]: n } as ParsedPowerInput;
+}
+
+/** The study at a given sample size (participants per arm, or clusters per arm): its power result and its cost structure inputs. */
+export function studyAt(i: ScenarioInputs, study: StudyContext, n: number, atN?: ParsedPowerInput): { power: PowerResult; cost: CostInputs } | null {
+  const power = solveParsed(atN ? withN(atN, n) : powerInput(i, "power", n));
+  const clusters = power.clusters1 !== undefined ? power.clusters1 + (power.clusters2 ?? 0) : null;
+  const sites = sitesFor(i, power.funnel.total.enrolled, clusters);
+  if (sites === null) return null;
+  return { power, cost: costInputs(i, study, power.funnel.arms, sites) };
+}
+
+export type CapBuys = {
+  n: number;
+  n1: number;
+  n2: number | null;
+  sites: number;
+  total: string;
+  effect: number;
+  powerAtTarget: number;
+  monthsToEnrol: number;
+} | null;
+
+export type ScenarioResults = {
+  computedAt: string;
+  edition: { id: number | null; label: string | null; effectiveDate: string | null };
+  power: PowerResult;
+  effectName: "effectSize" | "p2" | "hazardRatio";
+  targetEffect: number;
+  mdes: number;
+  powerAtTarget: number;
+  sites: number;
+  ledger: Ledger;
+  capBuys: CapBuys;
+  warnings: string[];
+};
+
+export function computeScenario(i: ScenarioInputs, rates: RateBook, study: StudyContext): ScenarioResults {
+  const names = quantityNames(i.design.design);
+  const sized = solveParsed(powerInput(i, "n"));
+  const n = nOf(sized);
+  const at = studyAt(i, study, n);
+  if (!at) throw new ScenarioError("No number of sites up to 500 enrols this sample by the enrolment deadline; relax the deadline or raise the rate.");
+  const ledger = computeLedger(at.cost, rates);
+  const mdesResult = solveParsed(powerInput(i, "effect", n));
+  const warnings = [...sized.warnings];
+  if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
+  return {
+    computedAt: new Date().toISOString(),
+    edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },
+    power: sized,
+    effectName: names.effect as ScenarioResults["effectName"],
+    targetEffect: effectOf(sized),
+    mdes: effectOf(mdesResult),
+    powerAtTarget: sized.power,
+    sites: at.cost.timeline.sites,
+    ledger,
+    capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
+    warnings,
+  };
+}
+
+/** The largest sample the budget buys, with its sites, MDES and power at the target effect. */
+export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyContext, budget: string): CapBuys {
+  const limit = new Decimal(budget);
+  const exactTotal = (n: number) => {
+    try {
+      const at = studyAt(i, study, n);
+      if (!at) return null;
+      const ledger = priceStructure(buildCostStructure(at.cost, rates), at.cost, rates);
+      return { at, ledger };
+    } catch {
+      return null;
+    }
+  };
+  const fits = (n: number) => {
+    const r = exactTotal(n);
+    return r && new Decimal(r.ledger.totals.total).lessThanOrEqualTo(limit) ? r : null;
+  };
+  let lo = 2;
+  let best = fits(lo);
+  if (!best) return null;
+  let hi = 4;
+  while (hi <= 5_000_000) {
+    const r = fits(hi);
+    if (!r) break;
+    best = r;
+    lo = hi;
+    hi *= 2;
+  }
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    const r = fits(mid);
+    if (r) {
+      best = r;
+      lo = mid;
+    } else hi = mid;
+  }
+  const effect = effectOf(solveParsed(powerInput(i, "effect", lo)));
+  return {
+    n: lo,
+    n1: best.at.power.n1,
+    n2: best.at.power.n2,
+    sites: best.at.cost.timeline.sites,
+    total: best.ledger.totals.total,
+    effect,
+    powerAtTarget: best.at.power.power,
+    monthsToEnrol: best.ledger.timeline.monthsToEnrol,
+  };
+}

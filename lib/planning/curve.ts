@@ -1,0 +1,91 @@
+/**
+ * The reach curve: for each total budget, the minimum detectable effect the study can afford.
+ * Points are taken at sample sizes from the smallest viable study to the one the largest budget
+ * buys; each is priced with the approximate arithmetic (lib/costing/arith.ts explains why) and its
+ * MDES solved at the scenario's alpha, sides and power.
+ */
+import { approximateTotals, buildCostStructure, type RateBook } from "@/lib/costing";
+import { solveParsed } from "@/lib/power";
+import type { ParsedPowerInput } from "@/lib/power/schema";
+import { effectOf, powerInput, studyAt, withN, type StudyContext } from "./compute";
+import type { ScenarioInputs } from "./schema";
+
+export type CurvePoint = {
+  budget: number;
+  direct: number;
+  n: number;
+  n1: number;
+  n2: number | null;
+  sites: number;
+  monthsToEnrol: number;
+  mdes: number;
+  powerAtTarget: number;
+};
+
+export type ReachCurve = { points: CurvePoint[]; effectName: string; minBudget: number | null; maxBudget: number };
+
+type Parsed = { power: ParsedPowerInput; effect: ParsedPowerInput };
+
+function pointAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed): CurvePoint | null {
+  try {
+    const at = studyAt(i, study, n, parsed.power);
+    if (!at) return null;
+    const structure = buildCostStructure(at.cost, rates);
+    const t = approximateTotals(structure, rates);
+    const mdes = effectOf(solveParsed(withN(parsed.effect, n)));
+    return {
+      budget: t.total,
+      direct: t.direct,
+      n,
+      n1: at.power.n1,
+      n2: at.power.n2,
+      sites: at.cost.timeline.sites,
+      monthsToEnrol: structure.tl.monthsToEnrol,
+      mdes,
+      powerAtTarget: at.power.power,
+    };
+  } catch {
+    return null;
+  }
+}
+
+/** Up to `points` points from the cheapest viable study to `maxBudget` (default 1.5 × the cap or the scenario's own total). */
+export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: { points?: number; maxBudget?: number; referenceTotal?: number } = {}): ReachCurve {
+  const count = Math.max(8, Math.min(512, opts.points ?? 64));
+  const cap = study.sponsorCap ? Number(study.sponsorCap) : null;
+  const maxBudget = opts.maxBudget ?? 1.5 * Math.max(cap ?? 0, opts.referenceTotal ?? 0, 1);
+  const nMin = 2;
+  const parsed: Parsed = { power: powerInput(i, "power", nMin), effect: powerInput(i, "effect", nMin) };
+  const at = (n: number) => pointAt(i, rates, study, n, parsed);
+  const first = at(nMin);
+  const names = powerInput(i, "n");
+  const effectName = names.design === "time-to-event" ? "hazardRatio" : names.design.endsWith("proportions") ? "p2" : "effectSize";
+  if (!first) return { points: [], effectName, minBudget: null, maxBudget };
+  // The largest n within the largest budget: gallop, then bisect on the approximate cost.
+  let lo = nMin;
+  let hi = nMin * 2;
+  let hiPoint = at(hi);
+  while (hiPoint && hiPoint.budget <= maxBudget && hi < 2_000_000) {
+    lo = hi;
+    hi *= 2;
+    hiPoint = at(hi);
+  }
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    const p = at(mid);
+    if (p && p.budget <= maxBudget) lo = mid;
+    else hi = mid;
+  }
+  const nMax = Math.max(nMin, lo);
+  // Sample sizes spread evenly on a square-root scale (the MDES falls like 1/sqrt(n)).
+  const ns = new Set<number>();
+  const a = Math.sqrt(nMin);
+  const b = Math.sqrt(nMax);
+  for (let k = 0; k < count; k++) ns.add(Math.round((a + ((b - a) * k) / Math.max(1, count - 1)) ** 2));
+  const points = [...ns]
+    .sort((x, y) => x - y)
+    .map((n) => at(n))
+    .filter((p): p is CurvePoint => p !== null)
+    .sort((x, y) => x.budget - y.budget);
+  return { points, effectName, minBudget: first.budget, maxBudget };
+}

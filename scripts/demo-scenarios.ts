@@ -1,0 +1,71 @@
+import type { RateBook } from "../lib/costing";
+import type { ScenarioInputs } from "../lib/planning/schema";
+import { DEMO_RATES } from "./seed";
+
+/** The demo study's scenarios: invented assumptions a planner would weigh against each other. */
+const base: ScenarioInputs = {
+  design: {
+    design: "two-means",
+    outcome: "knee pain on a 0–10 numeric rating scale at 6 months",
+    alpha: 0.05,
+    sides: 2,
+    power: 0.9,
+    allocationRatio: 1,
+    meanDifference: 1,
+    sd: 2.2,
+    targetRationale: "a 1-point reduction is the smallest change patients in the invented feasibility survey called worthwhile",
+    sdSource: "the invented feasibility cohort of the same clinics",
+  },
+  recruitment: { sites: 6, startupMonths: 4, staggerMonths: 1, ratePerSiteMonth: 1.5, closeoutMonths: 3, attrition: 0.15, screenFailure: 0.35, dropoutVisitShare: 0.5 },
+  visits: [
+    { name: "Baseline", month: 0, procedures: ["NURSE-VISIT", "LAB-PANEL", "XRAY-KNEE", "PROM-SET", "GAIT"] },
+    { name: "Month 3", month: 3, procedures: ["PROM-SET", "ACTIVITY-7D"] },
+    { name: "Month 6", month: 6, procedures: ["NURSE-VISIT", "PROM-SET", "GAIT", "ACTIVITY-7D"] },
+  ],
+  personnel: [
+    { role: "Principal investigator", fringeCategory: "faculty", baseSalary: "195000", effortPercent: 20, follows: "study" },
+    { role: "Trial statistician", fringeCategory: "faculty", baseSalary: "140000", effortPercent: 10, follows: "study" },
+    { role: "Research coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent: 100, follows: "enrolment" },
+  ],
+  other: [
+    { label: "Study supplies", category: "supplies", perPeriod: "4000", escalate: true },
+    { label: "Investigator travel", category: "travel", perPeriod: "6000", escalate: false },
+    { label: "Data platform licence", category: "services", perPeriod: "12000", escalate: true },
+  ],
+};
+
+export const DEMO_SCENARIOS: { name: string; inputs: ScenarioInputs }[] = [
+  { name: "Six sites, 90% power", inputs: base },
+  { name: "Three sites, longer enrolment", inputs: { ...base, recruitment: { ...base.recruitment, sites: 3 } } },
+  {
+    name: "Clinic clusters",
+    inputs: {
+      ...base,
+      design: { ...base.design, design: "cluster-two-means", clusterSize: 12, icc: 0.03, cv: 0.4 },
+      recruitment: { ...base.recruitment, ratePerSiteMonth: 2, staggerMonths: 0 },
+    },
+  },
+  {
+    name: "Lean follow-up, 80% power",
+    inputs: { ...base, design: { ...base.design, power: 0.8 }, visits: [base.visits[0]!, { name: "Month 6", month: 6, procedures: ["PROM-SET"] }] },
+  },
+];
+
+export function demoRateBook(editionId: number): RateBook {
+  const r = DEMO_RATES;
+  return {
+    editionId,
+    label: r.label,
+    effectiveDate: r.effective_date,
+    faRate: r.fa_rate,
+    faBase: r.fa_base,
+    mtdcSubawardThreshold: r.mtdc_subaward_threshold,
+    equipmentThreshold: r.equipment_threshold,
+    escalation: { salaries: r.escalation_salaries, costs: r.escalation_costs },
+    salaryCap: r.salary_cap,
+    fringe: r.fringe.map(([category, rate]) => ({ category: category!, rate: rate! })),
+    site: { startupFee: r.site_startup_fee, annualFee: r.site_annual_fee, monitoringVisitsPerYear: Number(r.monitoring_visits_per_year), monitoringVisitCost: r.monitoring_visit_cost, closeoutFee: r.site_closeout_fee },
+    participant: { incentivePerVisit: r.incentive_per_visit, screeningCost: r.screening_cost, screenFailurePayment: r.screen_failure_payment },
+    procedures: r.procedures.map(([code, name, unitCost, category]) => ({ code: code!, name: name!, unitCost: unitCost!, category: category! })),
+  };
+}
