@@ -132,6 +132,26 @@ export interface RateBookImportsTable {
   created_at: CreatedAt;
 }
 
+export interface ScenariosTable {
+  id: Generated<number>;
+  study_id: number;
+  name: string;
+  state: ColumnType<"draft" | "in-review" | "returned" | "cleared", "draft" | "in-review" | "returned" | "cleared" | undefined, "draft" | "in-review" | "returned" | "cleared">;
+  version: ColumnType<number, number | undefined, number>;
+  inputs_json: string;
+  results_json: string;
+  rate_edition_id: number;
+  justification: string | null;
+  review_note: string | null;
+  cloned_from: number | null;
+  created_by: number;
+  created_at: CreatedAt;
+  updated_at: ColumnType<string, string | undefined, string>;
+  submitted_at: string | null;
+  reviewed_by: number | null;
+  reviewed_at: string | null;
+}
+
 export interface Database {
   institutions: InstitutionsTable;
   users: UsersTable;
@@ -144,6 +164,7 @@ export interface Database {
   rate_book_fringe: RateBookFringeTable;
   rate_book_procedures: RateBookProceduresTable;
   rate_book_imports: RateBookImportsTable;
+  scenarios: ScenariosTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -3,6 +3,8 @@ import { createKysely, defaultDatabasePath } from "../db/connection";
 import type { Database } from "../db/types";
 import { hashPassword } from "../lib/auth/password";
 import type { AccountRole } from "../lib/auth/roles";
+import { computeScenario } from "../lib/planning/compute";
+import { DEMO_RATES, DEMO_SCENARIOS, demoRateBook } from "./demo-data";
 
 /**
  * Demo data: an invented institution, study and people. Nothing here describes a real
@@ -24,42 +26,6 @@ export const DEMO_STUDY = {
   sponsor: "Meridian Health Research Fund",
   sponsorCap: "2400000.00",
   startDate: "2027-07-01",
-};
-
-/** The demo institution's published rate book (invented rates; real ones come from the institution's agreements). */
-export const DEMO_RATES = {
-  label: "2027 rates",
-  effective_date: "2027-01-01",
-  fa_rate: "0.565",
-  fa_base: "mtdc" as const,
-  mtdc_subaward_threshold: "50000.00",
-  equipment_threshold: "10000.00",
-  escalation_salaries: "0.03",
-  escalation_costs: "0.03",
-  salary_cap: "225700.00",
-  site_startup_fee: "12000.00",
-  site_annual_fee: "3500.00",
-  monitoring_visits_per_year: "4",
-  monitoring_visit_cost: "1800.00",
-  site_closeout_fee: "2500.00",
-  incentive_per_visit: "40.00",
-  screening_cost: "85.00",
-  screen_failure_payment: "25.00",
-  fringe: [
-    ["faculty", "0.285"],
-    ["research-staff", "0.362"],
-    ["postdoc", "0.24"],
-    ["student", "0.085"],
-  ],
-  procedures: [
-    ["NURSE-VISIT", "Research nurse visit", "95.00", "clinical"],
-    ["LAB-PANEL", "Metabolic panel", "38.00", "laboratory"],
-    ["XRAY-KNEE", "Knee radiograph, two views", "140.00", "imaging"],
-    ["PROM-SET", "Patient-reported outcome set", "15.00", "assessment"],
-    ["GAIT", "Gait and walking-speed assessment", "110.00", "assessment"],
-    ["ACTIVITY-7D", "Activity monitor, 7 days", "60.00", "device"],
-    ["COACH", "Walking coach session", "75.00", "intervention"],
-  ],
 };
 
 export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean }> {
@@ -109,6 +75,23 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
       .insertInto("rate_book_procedures")
       .values(procedures.map(([code, name, unit_cost, category]) => ({ edition_id: editionId, code: code!, name: name!, unit_cost: unit_cost!, category: category! })))
       .execute();
+    // The demo scenarios, costed with the published edition; the lean one is already with the grants office.
+    for (const s of DEMO_SCENARIOS) {
+      const results = computeScenario(s.inputs, demoRateBook(editionId), { startDate: DEMO_STUDY.startDate, sponsorCap: DEMO_STUDY.sponsorCap });
+      await trx
+        .insertInto("scenarios")
+        .values({
+          study_id: studyId,
+          name: s.name,
+          state: s.state,
+          inputs_json: JSON.stringify(s.inputs),
+          results_json: JSON.stringify(results),
+          rate_edition_id: editionId,
+          created_by: ids["pi@demo.test"]!,
+          ...(s.state === "in-review" ? { submitted_at: now } : {}),
+        })
+        .execute();
+    }
     await trx
       .insertInto("study_members")
       .values([

@@ -95,6 +95,16 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
   }
 }
 
+/**
+ * Whether the role could ever take the action (on its own study, in a state that allows it): route
+ * handlers ask this before reading a body, so a role that may not act gets 403 whatever it sends.
+ */
+export function roleMay(actor: Actor, action: Action): boolean {
+  return (["owner", "member", null] as Membership[]).some((membership) =>
+    (["draft", "in-review", "returned", "cleared"] as const).some((scenarioState) => decide(actor, action, { membership, scenarioState }) !== "forbidden"),
+  );
+}
+
 export function can(actor: Actor, action: Action, ctx: Context = {}): boolean {
   return decide(actor, action, ctx) === "allow";
 }

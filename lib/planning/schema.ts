@@ -54,12 +54,11 @@ export const recruitmentSchema = z.object({
 export const visitSchema = z.object({
   name: text("Visit name", 60).min(1, "Name the visit."),
   month: n("Visit month").int("Month: a whole number.").min(0, "Month 0 or later.").max(240, "At most month 240."),
+  // Typed as "CODE, CODE" in the form; stored (and accepted over the API) as a list.
   procedures: z
-    .string()
-    .trim()
-    .max(400)
+    .union([z.string().max(400, "At most 400 characters."), z.array(z.string().max(24)).max(40, "At most 40 procedures a visit.")])
     .default("")
-    .transform((s) => s.split(/[\s,;]+/).map((c) => c.trim().toUpperCase()).filter(Boolean)),
+    .transform((v) => (Array.isArray(v) ? v : v.split(/[\s,;]+/)).map((c) => c.trim().toUpperCase()).filter(Boolean)),
 });
 
 export const personnelSchema = z.object({

@@ -11,7 +11,7 @@ import { reachCurve } from "@/lib/planning/curve";
 import { generateJustification } from "@/lib/planning/justification";
 import { cheapestDesign, raudenbushOptimalClusterSize } from "@/lib/planning/optimiser";
 import { sensitivity } from "@/lib/planning/sensitivity";
-import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-scenarios";
+import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
 
 const rates = demoRateBook(1);
 const study = { startDate: "2027-07-01", sponsorCap: "2400000.00" };

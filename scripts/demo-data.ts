@@ -1,6 +1,43 @@
 import type { RateBook } from "../lib/costing";
 import type { ScenarioInputs } from "../lib/planning/schema";
-import { DEMO_RATES } from "./seed";
+
+/** Demo data: all invented. */
+/** The demo institution's published rate book (invented rates; real ones come from the institution's agreements). */
+export const DEMO_RATES = {
+  label: "2027 rates",
+  effective_date: "2027-01-01",
+  fa_rate: "0.565",
+  fa_base: "mtdc" as const,
+  mtdc_subaward_threshold: "50000.00",
+  equipment_threshold: "10000.00",
+  escalation_salaries: "0.03",
+  escalation_costs: "0.03",
+  salary_cap: "225700.00",
+  site_startup_fee: "12000.00",
+  site_annual_fee: "3500.00",
+  monitoring_visits_per_year: "4",
+  monitoring_visit_cost: "1800.00",
+  site_closeout_fee: "2500.00",
+  incentive_per_visit: "40.00",
+  screening_cost: "85.00",
+  screen_failure_payment: "25.00",
+  fringe: [
+    ["faculty", "0.285"],
+    ["research-staff", "0.362"],
+    ["postdoc", "0.24"],
+    ["student", "0.085"],
+  ],
+  procedures: [
+    ["NURSE-VISIT", "Research nurse visit", "95.00", "clinical"],
+    ["LAB-PANEL", "Metabolic panel", "38.00", "laboratory"],
+    ["XRAY-KNEE", "Knee radiograph, two views", "140.00", "imaging"],
+    ["PROM-SET", "Patient-reported outcome set", "15.00", "assessment"],
+    ["GAIT", "Gait and walking-speed assessment", "110.00", "assessment"],
+    ["ACTIVITY-7D", "Activity monitor, 7 days", "60.00", "device"],
+    ["COACH", "Walking coach session", "75.00", "intervention"],
+  ],
+};
+
 
 /** The demo study's scenarios: invented assumptions a planner would weigh against each other. */
 const base: ScenarioInputs = {
@@ -34,11 +71,12 @@ const base: ScenarioInputs = {
   ],
 };
 
-export const DEMO_SCENARIOS: { name: string; inputs: ScenarioInputs }[] = [
-  { name: "Six sites, 90% power", inputs: base },
-  { name: "Three sites, longer enrolment", inputs: { ...base, recruitment: { ...base.recruitment, sites: 3 } } },
+export const DEMO_SCENARIOS: { name: string; state: "draft" | "in-review"; inputs: ScenarioInputs }[] = [
+  { name: "Six sites, 90% power", state: "draft", inputs: base },
+  { name: "Three sites, longer enrolment", state: "draft", inputs: { ...base, recruitment: { ...base.recruitment, sites: 3 } } },
   {
     name: "Clinic clusters",
+    state: "draft",
     inputs: {
       ...base,
       design: { ...base.design, design: "cluster-two-means", clusterSize: 12, icc: 0.03, cv: 0.4 },
@@ -47,6 +85,7 @@ export const DEMO_SCENARIOS: { name: string; inputs: ScenarioInputs }[] = [
   },
   {
     name: "Lean follow-up, 80% power",
+    state: "in-review",
     inputs: { ...base, design: { ...base.design, power: 0.8 }, visits: [base.visits[0]!, { name: "Month 6", month: 6, procedures: ["PROM-SET"] }] },
   },
 ];

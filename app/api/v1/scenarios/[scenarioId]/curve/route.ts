@@ -1,0 +1,29 @@
+import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
+import type { Actor } from "@/lib/auth/permissions";
+import { validationError } from "@/lib/http/errors";
+import { curveQuerySchema, previewSchema } from "@/lib/planning/api-schemas";
+import { reachCurve } from "@/lib/planning/curve";
+import type { CurveResponse } from "@/lib/planning/curve-response";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import { json, parseId, readJson, withUser } from "@/lib/server/api";
+
+type P = { scenarioId: string };
+
+async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs): Promise<CurveResponse> {
+  const ctx = await scenarioContext(user, id);
+  const curve = reachCurve(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
+  return { ...curve, cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null, targetEffect: ctx.results.targetEffect, markers: await scenarioMarkers(user, ctx.studyId) };
+}
+
+/** GET ?points=N: the saved scenario's reach curve, with a marker for every scenario of the study. */
+export const GET = withUser<P>(async ({ req, user, params }) => {
+  const parsed = curveQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
+  if (!parsed.success) throw validationError(parsed.error);
+  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), parsed.data.points) });
+});
+
+/** POST { inputs, points? }: the curve for unsaved assumptions, priced with the scenario's edition. */
+export const POST = withUser<P>(async ({ req, user, params }) => {
+  const { inputs, points } = await readJson(req, previewSchema);
+  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), points ?? 64, inputs) });
+});

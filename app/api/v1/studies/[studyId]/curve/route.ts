@@ -1,0 +1,26 @@
+import { scenarioMarkers, studyContextFor } from "@/db/queries/scenarios";
+import { previewSchema } from "@/lib/planning/api-schemas";
+import { computeScenario } from "@/lib/planning/compute";
+import { reachCurve } from "@/lib/planning/curve";
+import type { CurveResponse } from "@/lib/planning/curve-response";
+import { HttpError } from "@/lib/auth/errors";
+import { json, parseId, readJson, withUser } from "@/lib/server/api";
+
+/** POST { inputs, points? }: the reach curve for a scenario not yet saved, priced with the edition in force. */
+export const POST = withUser<{ studyId: string }>(async ({ req, user, params }) => {
+  const studyId = parseId(params.studyId, "That study");
+  const { inputs, points } = await readJson(req, previewSchema);
+  const { study, rates } = await studyContextFor(user, studyId);
+  let target: number;
+  let total: number;
+  try {
+    const r = computeScenario(inputs, rates, study);
+    target = r.targetEffect;
+    total = Number(r.ledger.totals.total);
+  } catch (err) {
+    throw new HttpError(422, "cannot-compute", (err as Error).message);
+  }
+  const curve = reachCurve(inputs, rates, study, { points: points ?? 64, referenceTotal: total });
+  const body: CurveResponse = { ...curve, cap: study.sponsorCap ? Number(study.sponsorCap) : null, targetEffect: target, markers: await scenarioMarkers(user, studyId) };
+  return json({ curve: body });
+});

@@ -1,0 +1,303 @@
+import "server-only";
+import { getDb } from "@/db";
+import { enforce, HttpError, notFound } from "@/lib/auth/errors";
+import { decide, type Actor, type Membership } from "@/lib/auth/permissions";
+import type { ScenarioState } from "@/lib/auth/roles";
+import { computeScenario, ScenarioError, type ScenarioResults, type StudyContext } from "@/lib/planning/compute";
+import { generateJustification } from "@/lib/planning/justification";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import { TimelineError, CostingError } from "@/lib/costing";
+import { UnreachableError } from "@/lib/power";
+import { writeAudit, type AuditEntry } from "./audit";
+import { editionToRateBook, getEdition, latestPublishedEdition } from "./rate-book";
+import { membershipOf } from "./studies";
+
+export type ScenarioSummary = {
+  id: number;
+  studyId: number;
+  name: string;
+  state: ScenarioState;
+  version: number;
+  updatedAt: string;
+  editionId: number;
+  headline: { n1: number; n2: number | null; nTotal: number; clusters1?: number; total: string; mdes: number; effectName: string; power: number; monthsToEnrol: number; sites: number };
+};
+
+export type ScenarioDetail = ScenarioSummary & {
+  inputs: ScenarioInputs;
+  results: ScenarioResults;
+  justification: string;
+  justificationEdited: boolean;
+  reviewNote: string | null;
+  clonedFrom: number | null;
+  study: { id: number; code: string; title: string; sponsorCap: string | null; startDate: string };
+  membership: Membership;
+  newerEdition: { id: number; label: string } | null;
+};
+
+const EDITABLE: readonly ScenarioState[] = ["draft", "returned"];
+
+type Row = Awaited<ReturnType<typeof loadRow>>;
+
+async function loadRow(id: number) {
+  return getDb()
+    .selectFrom("scenarios as s")
+    .innerJoin("studies as st", "st.id", "s.study_id")
+    .selectAll("s")
+    .select(["st.code as study_code", "st.title as study_title", "st.sponsor_cap", "st.start_date"])
+    .where("s.id", "=", id)
+    .executeTakeFirst();
+}
+
+function summaryOf(r: NonNullable<Row> | { id: number; study_id: number; name: string; state: ScenarioState; version: number; updated_at: string; rate_edition_id: number; results_json: string }): ScenarioSummary {
+  const res = JSON.parse(r.results_json) as ScenarioResults;
+  return {
+    id: r.id,
+    studyId: r.study_id,
+    name: r.name,
+    state: r.state,
+    version: r.version,
+    updatedAt: r.updated_at,
+    editionId: r.rate_edition_id,
+    headline: {
+      n1: res.power.n1,
+      n2: res.power.n2,
+      nTotal: res.power.nTotal,
+      ...(res.power.clusters1 !== undefined ? { clusters1: res.power.clusters1 } : {}),
+      total: res.ledger.totals.total,
+      mdes: res.mdes,
+      effectName: res.effectName,
+      power: res.powerAtTarget,
+      monthsToEnrol: res.ledger.timeline.monthsToEnrol,
+      sites: res.sites,
+    },
+  };
+}
+
+/** Loads a scenario the actor may see (404 otherwise, alike for missing and hidden). */
+async function access(actor: Actor, id: number, action: Parameters<typeof decide>[1] = "scenario.view") {
+  const row = Number.isSafeInteger(id) ? await loadRow(id) : undefined;
+  if (!row) {
+    enforce(actor.role === "admin" ? "forbidden" : "not-found", "That scenario");
+    throw notFound("That scenario was not found.");
+  }
+  const membership = await membershipOf(actor.id, row.study_id);
+  // Seeing comes first: a scenario the actor may not see is not found, whatever the action.
+  enforce(decide(actor, "scenario.view", { membership, scenarioState: row.state }), "That scenario");
+  if (action !== "scenario.view") enforce(decide(actor, action, { membership, scenarioState: row.state }), "That scenario");
+  return { row, membership };
+}
+
+function studyContext(row: NonNullable<Row>): StudyContext {
+  return { startDate: row.start_date, sponsorCap: row.sponsor_cap };
+}
+
+/** Computation errors are the user's to fix: say what, as a 422. */
+function compute(inputs: ScenarioInputs, rates: Parameters<typeof computeScenario>[1], study: StudyContext): ScenarioResults {
+  try {
+    return computeScenario(inputs, rates, study);
+  } catch (err) {
+    if (err instanceof ScenarioError || err instanceof UnreachableError || err instanceof TimelineError || err instanceof CostingError) {
+      throw new HttpError(422, "cannot-compute", err.message);
+    }
+    throw err;
+  }
+}
+
+export async function listScenarios(actor: Actor, studyId: number): Promise<ScenarioSummary[]> {
+  const membership = await membershipOf(actor.id, studyId);
+  const exists = await getDb().selectFrom("studies").select("id").where("id", "=", studyId).executeTakeFirst();
+  enforce(exists ? decide(actor, "study.view", { membership }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
+  const rows = await getDb()
+    .selectFrom("scenarios")
+    .select(["id", "study_id", "name", "state", "version", "updated_at", "rate_edition_id", "results_json"])
+    .where("study_id", "=", studyId)
+    .orderBy("created_at")
+    .orderBy("id")
+    .execute();
+  return rows.filter((r) => decide(actor, "scenario.view", { membership, scenarioState: r.state }) === "allow").map(summaryOf);
+}
+
+export async function getScenario(actor: Actor, id: number): Promise<ScenarioDetail> {
+  const { row, membership } = await access(actor, id);
+  const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
+  const results = JSON.parse(row.results_json) as ScenarioResults;
+  const latest = await latestPublishedEdition(actor);
+  const study = studyContext(row);
+  return {
+    ...summaryOf(row),
+    inputs,
+    results,
+    justification: row.justification ?? generateJustification(inputs, results, study),
+    justificationEdited: row.justification !== null,
+    reviewNote: row.review_note,
+    clonedFrom: row.cloned_from,
+    study: { id: row.study_id, code: row.study_code, title: row.study_title, sponsorCap: row.sponsor_cap, startDate: row.start_date },
+    membership,
+    newerEdition: latest && latest.id !== row.rate_edition_id && latest.effectiveDate >= (results.edition.effectiveDate ?? "") ? { id: latest.id, label: latest.label } : null,
+  };
+}
+
+/** Computes a scenario's results without saving: for the results panel while assumptions change. */
+export async function previewScenario(actor: Actor, studyId: number, inputs: ScenarioInputs): Promise<ScenarioResults> {
+  const membership = await membershipOf(actor.id, studyId);
+  enforce(decide(actor, "study.view", { membership }), "That study");
+  const study = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  if (!study) throw notFound("That study was not found.");
+  const edition = await latestPublishedEdition(actor);
+  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet; the grants office must publish one first.");
+  return compute(inputs, editionToRateBook(edition), { startDate: study.start_date, sponsorCap: study.sponsor_cap });
+}
+
+export async function createScenario(actor: Actor, studyId: number, input: { name: string; inputs: ScenarioInputs }, clonedFrom: number | null = null): Promise<number> {
+  const membership = await membershipOf(actor.id, studyId);
+  const exists = await getDb().selectFrom("studies").select(["id", "start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  enforce(exists ? decide(actor, "scenario.edit", { membership, scenarioState: "draft" }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
+  const edition = await latestPublishedEdition(actor);
+  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet; the grants office must publish one first.");
+  const results = compute(input.inputs, editionToRateBook(edition), { startDate: exists!.start_date, sponsorCap: exists!.sponsor_cap });
+  return getDb()
+    .transaction()
+    .execute(async (trx) => {
+      const { id } = await trx
+        .insertInto("scenarios")
+        .values({
+          study_id: studyId,
+          name: input.name,
+          inputs_json: JSON.stringify(input.inputs),
+          results_json: JSON.stringify(results),
+          rate_edition_id: edition.id,
+          created_by: actor.id,
+          cloned_from: clonedFrom,
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+      await writeAudit(trx, [{ userId: actor.id, action: clonedFrom ? "clone" : "create", entity: "scenario", entityId: id, field: "name", newValue: input.name }]);
+      return id;
+    });
+}
+
+export type ScenarioPatch = { version: number; name?: string; inputs?: ScenarioInputs; justification?: string | null; recompute?: boolean };
+
+export async function updateScenario(actor: Actor, id: number, patch: ScenarioPatch): Promise<ScenarioDetail> {
+  const { row } = await access(actor, id, "scenario.edit");
+  if (row.state === "cleared") throw new HttpError(409, "frozen", "This scenario is cleared and frozen. Clone it to make a new draft to change.");
+  if (!EDITABLE.includes(row.state)) throw new HttpError(409, "in-review", "This scenario is with the grants office for review; it can be changed once it is returned.");
+  if (patch.version !== row.version) {
+    throw new HttpError(409, "conflict", `This scenario was changed since you opened it (now version ${row.version}). Nothing was saved; reload to see the current assumptions.`, undefined, {
+      current: { version: row.version },
+    });
+  }
+  const inputs = patch.inputs ?? (JSON.parse(row.inputs_json) as ScenarioInputs);
+  let editionId = row.rate_edition_id;
+  let results_json = row.results_json;
+  if (patch.inputs || patch.recompute) {
+    // A recompute takes the published edition in force; an edit of assumptions keeps the pinned one.
+    const edition = patch.recompute ? await latestPublishedEdition(actor) : await getEdition(actor, row.rate_edition_id);
+    if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition.");
+    editionId = edition.id;
+    results_json = JSON.stringify(compute(inputs, editionToRateBook(edition), studyContext(row)));
+  }
+  const audit: AuditEntry[] = [];
+  if (patch.name !== undefined && patch.name !== row.name) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "name", oldValue: row.name, newValue: patch.name });
+  if (patch.inputs) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "inputs", oldValue: null, newValue: null });
+  if (editionId !== row.rate_edition_id) audit.push({ userId: actor.id, action: "recompute", entity: "scenario", entityId: id, field: "rate_edition_id", oldValue: String(row.rate_edition_id), newValue: String(editionId) });
+  if (patch.justification !== undefined) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "justification", oldValue: null, newValue: null });
+  await getDb()
+    .transaction()
+    .execute(async (trx) => {
+      await trx
+        .updateTable("scenarios")
+        .set({
+          ...(patch.name !== undefined ? { name: patch.name } : {}),
+          ...(patch.justification !== undefined ? { justification: patch.justification } : {}),
+          inputs_json: JSON.stringify(inputs),
+          results_json,
+          rate_edition_id: editionId,
+          version: row.version + 1,
+          updated_at: new Date().toISOString(),
+        })
+        .where("id", "=", id)
+        .execute();
+      await writeAudit(trx, audit);
+    });
+  return getScenario(actor, id);
+}
+
+export async function cloneScenario(actor: Actor, id: number): Promise<number> {
+  const { row } = await access(actor, id, "scenario.edit");
+  return createScenario(actor, row.study_id, { name: `${row.name} (copy)`.slice(0, 80), inputs: JSON.parse(row.inputs_json) as ScenarioInputs }, id);
+}
+
+export async function deleteScenario(actor: Actor, id: number): Promise<void> {
+  const { row } = await access(actor, id, "scenario.edit");
+  if (!EDITABLE.includes(row.state)) throw new HttpError(409, "not-draft", "Only draft or returned scenarios can be deleted.");
+  await getDb()
+    .transaction()
+    .execute(async (trx) => {
+      await trx.deleteFrom("scenarios").where("id", "=", id).execute();
+      await writeAudit(trx, [{ userId: actor.id, action: "delete", entity: "scenario", entityId: id, field: "name", oldValue: row.name }]);
+    });
+}
+
+export type ReviewAction = "submit" | "return" | "clear";
+
+/** The review workflow: draft or returned → in-review (investigator); in-review → returned with a reason, or cleared (grants office). */
+export async function reviewScenario(actor: Actor, id: number, action: ReviewAction, reason?: string): Promise<ScenarioDetail> {
+  const { row } = await access(actor, id, action === "submit" ? "scenario.submit" : "scenario.review");
+  const from = row.state;
+  const allowed: Record<ReviewAction, ScenarioState[]> = { submit: ["draft", "returned"], return: ["in-review"], clear: ["in-review"] };
+  if (!allowed[action].includes(from)) throw new HttpError(409, "wrong-state", `A ${from} scenario cannot be ${action === "submit" ? "submitted" : action === "return" ? "returned" : "cleared"}.`);
+  if (action === "return" && !reason?.trim()) throw new HttpError(400, "invalid", "Say why the scenario is returned.", { reason: ["Say why the scenario is returned."] });
+  const to: ScenarioState = action === "submit" ? "in-review" : action === "return" ? "returned" : "cleared";
+  const now = new Date().toISOString();
+  await getDb()
+    .transaction()
+    .execute(async (trx) => {
+      await trx
+        .updateTable("scenarios")
+        .set({
+          state: to,
+          version: row.version + 1,
+          updated_at: now,
+          ...(action === "submit" ? { submitted_at: now, review_note: null } : { reviewed_by: actor.id, reviewed_at: now, review_note: action === "return" ? reason!.trim() : row.review_note }),
+        })
+        .where("id", "=", id)
+        .where("state", "=", from)
+        .execute();
+      await writeAudit(trx, [{ userId: actor.id, action, entity: "scenario", entityId: id, field: "state", oldValue: from, newValue: to }]);
+    });
+  return getScenario(actor, id);
+}
+
+/** Scenarios of one study for the comparison (2 to 4), each one the actor may see. */
+export async function scenariosForComparison(actor: Actor, studyId: number, ids: number[]): Promise<ScenarioDetail[]> {
+  if (ids.length < 2 || ids.length > 4) throw new HttpError(400, "invalid", "Choose two to four scenarios to compare.", { scenarios: ["Choose two to four scenarios."] });
+  const details = await Promise.all(ids.map((id) => getScenario(actor, id)));
+  if (details.some((d) => d.studyId !== studyId)) throw notFound("Those scenarios are not all in this study.");
+  return details;
+}
+
+export async function scenarioContext(
+  actor: Actor,
+  id: number,
+): Promise<{ studyId: number; inputs: ScenarioInputs; rates: ReturnType<typeof editionToRateBook>; study: StudyContext; results: ScenarioResults }> {
+  const { row } = await access(actor, id);
+  const edition = await getEdition(actor, row.rate_edition_id).catch(() => null);
+  if (!edition) throw notFound("That scenario's rate-book edition is not available.");
+  return { studyId: row.study_id, inputs: JSON.parse(row.inputs_json), rates: editionToRateBook(edition), study: studyContext(row), results: JSON.parse(row.results_json) };
+}
+
+/** Markers for the reach curve: every scenario of the study the actor may see. */
+export async function scenarioMarkers(actor: Actor, studyId: number) {
+  return (await listScenarios(actor, studyId)).map((s) => ({ id: s.id, name: s.name, budget: Number(s.headline.total), mdes: s.headline.mdes, power: s.headline.power, state: s.state }));
+}
+
+export async function studyContextFor(actor: Actor, studyId: number): Promise<{ study: StudyContext; rates: ReturnType<typeof editionToRateBook> }> {
+  const membership = await membershipOf(actor.id, studyId);
+  const s = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  enforce(s ? decide(actor, "study.view", { membership }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
+  const edition = await latestPublishedEdition(actor);
+  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet.");
+  return { study: { startDate: s!.start_date, sponsorCap: s!.sponsor_cap }, rates: editionToRateBook(edition) };
+}
