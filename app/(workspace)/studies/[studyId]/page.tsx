@@ -1,6 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { listScenarios } from "@/db/queries/scenarios";
 import { getStudy } from "@/db/queries/studies";
+import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
@@ -11,6 +13,9 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
   const user = await requireUser();
   const { studyId } = await params;
   const study = await loadOr404(() => getStudy(user, Number(studyId)));
+  const scenarios = await listScenarios(user, study.id);
+  const mayCreate = can(user, "scenario.edit", { membership: study.membership, scenarioState: "draft" });
+  const STATE = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
   return (
     <div className="flex flex-col gap-6">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -38,6 +43,74 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
           </div>
         </dl>
       </header>
+      <section className="card overflow-x-auto p-0" aria-labelledby="scenarios-heading">
+        <div className="flex flex-wrap items-center justify-between gap-3 px-5 pt-4">
+          <h2 id="scenarios-heading">Scenarios</h2>
+          {mayCreate ? (
+            <Link className="btn" href={`/studies/${study.id}/scenarios/new`}>
+              New scenario
+            </Link>
+          ) : null}
+        </div>
+        {scenarios.length === 0 ? (
+          <p className="p-5 text-ink-soft">{user.role === "finance" ? "No scenario of this study is in review or cleared yet." : "No scenarios yet."}</p>
+        ) : (
+          <form action={`/studies/${study.id}/compare`} method="get">
+            <table className="table">
+              <thead>
+                <tr>
+                  <th scope="col">
+                    <span className="sr-only">Compare</span>
+                  </th>
+                  <th scope="col">Scenario</th>
+                  <th scope="col">State</th>
+                  <th scope="col" className="num">
+                    Evaluable
+                  </th>
+                  <th scope="col" className="num">
+                    Sites · months
+                  </th>
+                  <th scope="col" className="num">
+                    MDES
+                  </th>
+                  <th scope="col" className="num">
+                    Total
+                  </th>
+                </tr>
+              </thead>
+              <tbody>
+                {scenarios.map((sc) => (
+                  <tr key={sc.id}>
+                    <td>
+                      <input type="checkbox" name="ids" value={sc.id} aria-label={`Compare ${sc.name}`} />
+                    </td>
+                    <td>
+                      <Link href={`/studies/${study.id}/scenarios/${sc.id}`}>{sc.name}</Link>
+                    </td>
+                    <td>
+                      <span className={sc.state === "cleared" ? "badge" : "badge badge-muted"}>{STATE[sc.state]}</span>
+                    </td>
+                    <td className="num">{sc.headline.nTotal}</td>
+                    <td className="num">
+                      {sc.headline.sites} · {sc.headline.monthsToEnrol}
+                    </td>
+                    <td className="num">{sc.headline.mdes.toFixed(3)}</td>
+                    <td className="num">{formatMoney(sc.headline.total, { cents: false })}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            {scenarios.length > 1 ? (
+              <div className="p-4">
+                <button type="submit" className="btn btn-quiet">
+                  Compare the chosen scenarios
+                </button>
+                <span className="ml-2 text-sm text-ink-soft">Choose two to four.</span>
+              </div>
+            ) : null}
+          </form>
+        )}
+      </section>
       <div className="grid gap-6 md:grid-cols-3">
         <section className="card md:col-span-2" aria-labelledby="tools">
           <h2 id="tools">Plan</h2>

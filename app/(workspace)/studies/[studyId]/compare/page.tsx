@@ -1,0 +1,134 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
+import { HttpError } from "@/lib/auth/errors";
+import { formatMoney } from "@/lib/format/money";
+import { requireUser } from "@/lib/server/current-user";
+import { loadOr404 } from "@/lib/server/page";
+
+export const metadata: Metadata = { title: "Compare scenarios" };
+
+type Row = { label: string; values: (s: ScenarioDetail) => string };
+
+const pct = (v: number) => `${Math.round(v * 100)}%`;
+const ROWS: { section: string; rows: Row[] }[] = [
+  {
+    section: "Assumptions",
+    rows: [
+      { label: "Design", values: (s) => s.inputs.design.design },
+      { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
+      { label: "Target power", values: (s) => String(s.inputs.design.power) },
+      { label: "Target effect", values: (s) => s.results.targetEffect.toFixed(3) },
+      { label: "Attrition", values: (s) => pct(s.inputs.recruitment.attrition) },
+      { label: "Screen failure", values: (s) => pct(s.inputs.recruitment.screenFailure) },
+      { label: "Enrolled per site per month", values: (s) => String(s.inputs.recruitment.ratePerSiteMonth) },
+      { label: "Visits", values: (s) => String(s.inputs.visits.length) },
+    ],
+  },
+  {
+    section: "Funnel and timeline",
+    rows: [
+      { label: "Evaluable per arm", values: (s) => (s.results.power.n2 === null ? String(s.results.power.n1) : `${s.results.power.n1} + ${s.results.power.n2}`) },
+      { label: "Enrolled", values: (s) => String(s.results.power.funnel.total.enrolled) },
+      { label: "Screened", values: (s) => String(s.results.power.funnel.total.screened) },
+      { label: "Sites", values: (s) => String(s.results.sites) },
+      { label: "Months to enrol", values: (s) => String(s.results.ledger.timeline.monthsToEnrol) },
+      { label: "Study months", values: (s) => String(s.results.ledger.timeline.studyMonths) },
+    ],
+  },
+  {
+    section: "What it buys",
+    rows: [
+      { label: "MDES at the planned n", values: (s) => s.results.mdes.toFixed(3) },
+      { label: "Power at the target", values: (s) => s.results.powerAtTarget.toFixed(3) },
+    ],
+  },
+];
+
+export default async function ComparePage({ params, searchParams }: { params: Promise<{ studyId: string }>; searchParams: Promise<{ ids?: string | string[] }> }) {
+  const user = await requireUser();
+  const { studyId } = await params;
+  const q = await searchParams;
+  const ids = (Array.isArray(q.ids) ? q.ids : (q.ids ?? "").split(",")).map(Number).filter((n) => Number.isInteger(n) && n > 0);
+  let list: ScenarioDetail[] | null = null;
+  let problem: string | null = null;
+  try {
+    list = await loadOr404(() => scenariosForComparison(user, Number(studyId), ids));
+  } catch (err) {
+    if (err instanceof HttpError && err.status === 400) problem = err.message;
+    else throw err;
+  }
+  if (!list) {
+    return (
+      <div className="card max-w-xl">
+        <h1>Compare scenarios</h1>
+        <p className="mt-2">{problem}</p>
+        <p className="mt-3">
+          <Link href={`/studies/${studyId}`}>Back to the study</Link>
+        </p>
+      </div>
+    );
+  }
+  const periods = Math.max(...list.map((s) => s.results.ledger.periods.length));
+  const money: { section: string; rows: Row[] } = {
+    section: "Cost",
+    rows: [
+      ...Array.from({ length: periods }, (_, p) => ({ label: `Period ${p + 1}`, values: (s: ScenarioDetail) => formatMoney(s.results.ledger.byPeriod.total[p] ?? "0", { cents: false }) })),
+      { label: "Direct costs", values: (s) => formatMoney(s.results.ledger.totals.direct, { cents: false }) },
+      { label: "F&A", values: (s) => formatMoney(s.results.ledger.totals.fa, { cents: false }) },
+      { label: "Total", values: (s) => formatMoney(s.results.ledger.totals.total, { cents: false }) },
+    ],
+  };
+  return (
+    <div className="flex flex-col gap-5">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link href="/studies">Studies</Link> <span aria-hidden="true">›</span> <Link href={`/studies/${studyId}`}>{list[0]!.study.code}</Link> <span aria-hidden="true">›</span> Compare
+      </nav>
+      <h1>Compare scenarios</h1>
+      <p className="text-sm text-ink-soft">Values that differ between the scenarios are highlighted.</p>
+      <div className="card overflow-x-auto p-0">
+        <table className="table" data-testid="comparison">
+          <thead>
+            <tr>
+              <th scope="col">
+                <span className="sr-only">Row</span>
+              </th>
+              {list.map((s) => (
+                <th key={s.id} scope="col" className="num">
+                  <Link href={`/studies/${studyId}/scenarios/${s.id}`}>{s.name}</Link>
+                  <span className="block text-[10px] font-normal normal-case">{s.state}</span>
+                </th>
+              ))}
+            </tr>
+          </thead>
+          {[...ROWS, money].map((sec) => (
+            <tbody key={sec.section}>
+              <tr>
+                <th scope="rowgroup" colSpan={list!.length + 1} className="bg-paper">
+                  {sec.section}
+                </th>
+              </tr>
+              {sec.rows.map((row) => {
+                const values = list!.map(row.values);
+                const differs = new Set(values).size > 1;
+                return (
+                  <tr key={row.label}>
+                    <th scope="row" className="font-normal normal-case tracking-normal text-ink">
+                      {row.label}
+                    </th>
+                    {values.map((v, k) => (
+                      <td key={k} className={`num ${differs ? "bg-brass-tint font-semibold" : ""}`} data-differs={differs || undefined}>
+                        {v}
+                      </td>
+                    ))}
+                  </tr>
+                );
+              })}
+            </tbody>
+          ))}
+        </table>
+      </div>
+      <p className="text-xs text-ink-soft">The figures support, and do not replace, review by a statistician and by the grants office.</p>
+    </div>
+  );
+}

@@ -1,0 +1,98 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { PlannerPanel } from "@/components/scenario/planner-panel";
+import { ReachChart } from "@/components/scenario/reach-chart";
+import { ResultsPanel } from "@/components/scenario/results-panel";
+import { JustificationEditor, ScenarioActions } from "@/components/scenario/scenario-actions";
+import { ScenarioForm } from "@/components/scenario/scenario-form";
+import { getEdition } from "@/db/queries/rate-book";
+import { getScenario } from "@/db/queries/scenarios";
+import { can } from "@/lib/auth/permissions";
+import { formatMoney } from "@/lib/format/money";
+import { requireUser } from "@/lib/server/current-user";
+import { loadOr404 } from "@/lib/server/page";
+import { notFound } from "next/navigation";
+
+export const metadata: Metadata = { title: "Scenario" };
+
+const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
+
+export default async function ScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string; scenarioId: string }>; searchParams: Promise<{ saved?: string }> }) {
+  const user = await requireUser();
+  const { studyId, scenarioId } = await params;
+  const { saved } = await searchParams;
+  const s = await loadOr404(() => getScenario(user, Number(scenarioId)));
+  if (s.studyId !== Number(studyId)) notFound();
+  const ctx = { membership: s.membership, scenarioState: s.state };
+  const editable = can(user, "scenario.edit", ctx) && (s.state === "draft" || s.state === "returned");
+  const ids = { studyId: s.studyId, scenarioId: s.id, version: s.version };
+  const edition = await getEdition(user, s.editionId);
+  return (
+    <div className="flex flex-col gap-5">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link href="/studies">Studies</Link> <span aria-hidden="true">›</span> <Link href={`/studies/${s.studyId}`}>{s.study.code}</Link> <span aria-hidden="true">›</span> {s.name}
+      </nav>
+      <header className="flex flex-wrap items-end justify-between gap-4">
+        <div>
+          <h1>
+            {s.name}{" "}
+            <span className={s.state === "cleared" ? "badge" : "badge badge-muted"} data-testid="scenario-state">
+              {STATE_LABEL[s.state]}
+            </span>
+          </h1>
+          <p className="text-sm text-ink-soft">
+            Costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
+          </p>
+        </div>
+        <ScenarioActions
+          ids={ids}
+          can={{
+            submit: can(user, "scenario.submit", ctx) && (s.state === "draft" || s.state === "returned"),
+            review: can(user, "scenario.review", ctx) && s.state === "in-review",
+            edit: can(user, "scenario.edit", ctx),
+            delete: editable,
+            recompute: editable && s.newerEdition !== null,
+          }}
+        />
+      </header>
+      {saved ? (
+        <p className="notice" role="status">
+          Saved, with its results.
+        </p>
+      ) : null}
+      {s.reviewNote && s.state === "returned" ? <p className="alert">Returned by the grants office: {s.reviewNote}</p> : null}
+      {s.newerEdition ? (
+        <p className="notice">
+          A newer rate-book edition, “{s.newerEdition.label}”, has been published. {editable ? "Recompute to cost this scenario with it." : "The figures here use the edition the scenario was costed with."}
+        </p>
+      ) : null}
+      {s.state === "cleared" ? <p className="notice">Cleared by the grants office and frozen. To change it, clone it into a new draft.</p> : null}
+      {editable ? (
+        <ScenarioForm
+          studyId={s.studyId}
+          scenarioId={s.id}
+          version={s.version}
+          name={s.name}
+          inputs={s.inputs}
+          initialResults={s.results}
+          sponsorCap={s.study.sponsorCap}
+          fringeCategories={edition.fringe.map((f) => f.category)}
+        />
+      ) : (
+        <div className="grid gap-6 xl:grid-cols-5">
+          <section className="card xl:col-span-3" aria-labelledby="results-heading">
+            <h2 id="results-heading" className="mb-3">
+              Results
+            </h2>
+            <ResultsPanel results={s.results} sponsorCap={s.study.sponsorCap} />
+          </section>
+          <div className="xl:col-span-2">
+            <ReachChart source={{ kind: "saved", scenarioId: s.id }} effectName={s.results.effectName} />
+          </div>
+        </div>
+      )}
+      <PlannerPanel scenarioId={s.id} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
+      <JustificationEditor ids={ids} text={s.justification} edited={s.justificationEdited} editable={editable} />
+    </div>
+  );
+}

@@ -1,0 +1,124 @@
+"use client";
+
+import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import useSWR from "swr";
+import type { CapBuys } from "@/lib/planning/compute";
+import type { Optimum } from "@/lib/planning/optimiser";
+import type { SensitivityRow } from "@/lib/planning/sensitivity";
+import { formatMoney } from "@/lib/format/money";
+
+type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
+
+const fetcher = async (url: string): Promise<Planner> => {
+  const res = await fetch(url);
+  const body = await res.json();
+  if (!res.ok) throw new Error(body?.error?.message ?? "The planner could not run.");
+  return body;
+};
+
+const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents: false }));
+
+/** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
+export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; capLabel: string | null }) {
+  const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/planner`, fetcher, { revalidateOnFocus: false });
+  if (error) return <p className="alert">{(error as Error).message}</p>;
+  if (isLoading || !data) return <p className="text-ink-soft">Working out what the budget buys…</p>;
+  const bars = data.sensitivity.map((r) => ({ assumption: r.assumption, spread: Math.round(r.costSpread) }));
+  return (
+    <div className="grid gap-4 lg:grid-cols-2">
+      <section className="card" aria-labelledby="cap-buys">
+        <h2 id="cap-buys">What the cap buys</h2>
+        {data.capBuys ? (
+          <p className="mt-2" data-testid="cap-buys">
+            {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
+            {data.capBuys.sites} sites ({data.capBuys.monthsToEnrol} months to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
+            <strong className="num">{data.capBuys.effect.toFixed(3)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
+          </p>
+        ) : (
+          <p className="mt-2 text-ink-soft">{capLabel ? "Even the smallest viable study costs more than the cap." : "The study has no sponsor cap."}</p>
+        )}
+        <h3 className="mt-4 text-base">Cheapest design for the target power</h3>
+        {data.cheapest ? (
+          <>
+            <p className="mt-1" data-testid="cheapest">
+              {data.cheapest.best.clusterSize !== undefined
+                ? `${data.cheapest.best.clustersPerArm} clusters per arm of ${data.cheapest.best.clusterSize}`
+                : `${data.cheapest.best.sites} sites`}
+              , {money(data.cheapest.best.total)}, {data.cheapest.best.monthsToEnrol} months to enrol.
+              {data.cheapest.optimalClusterSize !== undefined ? ` Raudenbush's cost-optimal cluster size m* is ${data.cheapest.optimalClusterSize.toFixed(1)}.` : ""}
+            </p>
+            <details className="mt-2">
+              <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
+              <table className="table mt-2 text-sm">
+                <thead>
+                  <tr>
+                    <th scope="col">{data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites"}</th>
+                    <th scope="col" className="num">
+                      n per arm
+                    </th>
+                    <th scope="col" className="num">
+                      Months
+                    </th>
+                    <th scope="col" className="num">
+                      Total
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {data.cheapest.alternatives.map((a, k) => (
+                    <tr key={k}>
+                      <td className="num">{a.clusterSize ?? a.sites}</td>
+                      <td className="num">{a.n1}</td>
+                      <td className="num">{a.monthsToEnrol}</td>
+                      <td className="num">{money(a.total)}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </details>
+          </>
+        ) : (
+          <p className="mt-1 text-ink-soft">No design within the limits reaches the target.</p>
+        )}
+      </section>
+      <section className="card" aria-labelledby="sensitivity">
+        <h2 id="sensitivity">Sensitivity</h2>
+        <p className="text-sm text-ink-soft">Each assumption moved over a plausible range; sorted by how much it moves the total.</p>
+        <div className="mt-2 h-48" aria-hidden="true">
+          <ResponsiveContainer width="100%" height="100%">
+            <BarChart data={bars} layout="vertical" margin={{ left: 20, right: 20 }}>
+              <CartesianGrid stroke="#e5e0d3" />
+              <XAxis type="number" tickFormatter={(v: number) => `$${Math.round(v / 1000)}k`} />
+              <YAxis type="category" dataKey="assumption" width={150} tick={{ fontSize: 11 }} />
+              <Tooltip formatter={(v) => `$${Number(v).toLocaleString("en-US")}`} />
+              <Bar dataKey="spread" fill="#2f5d50" isAnimationActive={false} />
+            </BarChart>
+          </ResponsiveContainer>
+        </div>
+        <table className="table mt-2 text-sm" data-testid="sensitivity-table">
+          <thead>
+            <tr>
+              <th scope="col">Assumption</th>
+              <th scope="col">Low</th>
+              <th scope="col">Base</th>
+              <th scope="col">High</th>
+            </tr>
+          </thead>
+          <tbody>
+            {data.sensitivity.map((r) => (
+              <tr key={r.assumption}>
+                <td>{r.assumption}</td>
+                {[r.low, r.base, r.high].map((c, k) => (
+                  <td key={k} className="num text-xs">
+                    {c.label}
+                    <br />n {c.n ?? "—"} · {money(c.total)} · {c.months ?? "—"} mo
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,98 @@
+"use client";
+
+import { useState } from "react";
+import { CartesianGrid, ComposedChart, Line, ReferenceArea, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from "recharts";
+import useSWR from "swr";
+import type { CurveResponse } from "@/lib/planning/curve-response";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+
+type Source = { kind: "saved"; scenarioId: number } | { kind: "unsaved"; url: string; inputs: ScenarioInputs };
+
+async function fetchCurve([url, body]: [string, string | null]): Promise<CurveResponse> {
+  const res = await fetch(url, body ? { method: "POST", headers: { "content-type": "application/json" }, body } : undefined);
+  const data = await res.json();
+  if (!res.ok) throw new Error(data?.error?.message ?? "The curve could not be computed.");
+  return data.curve;
+}
+
+const money = (v: number) => (v >= 1e6 ? `$${(v / 1e6).toFixed(2)}M` : `$${Math.round(v / 1000)}k`);
+
+/** The reach curve: what each budget can detect; markers for the study's scenarios, the cap and the target. */
+export function ReachChart({ source, effectName }: { source: Source; effectName: string }) {
+  const [x, setX] = useState<"budget" | "direct">("budget");
+  const [view, setView] = useState<"mdes" | "power">("mdes");
+  const key: [string, string | null] =
+    source.kind === "saved" ? [`/api/v1/scenarios/${source.scenarioId}/curve?points=96`, null] : [source.url, JSON.stringify({ inputs: source.inputs, points: 96 })];
+  const { data, error, isLoading } = useSWR(key, fetchCurve, { keepPreviousData: true, revalidateOnFocus: false });
+  const standardized = effectName === "effectSize";
+  const yKey = view === "mdes" ? "mdes" : "powerAtTarget";
+  const points = data?.points ?? [];
+  const maxY = view === "mdes" ? Math.min(2, Math.max(0.1, ...(points.length ? [points[Math.min(points.length - 1, 3)]!.mdes] : [1]))) : 1;
+  return (
+    <section className="card flex flex-col gap-3" aria-labelledby="reach-heading">
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <h2 id="reach-heading">Reach curve</h2>
+        <div className="flex flex-wrap gap-3 text-sm">
+          <label className="flex items-center gap-1">
+            Show
+            <select className="input py-0.5" value={view} onChange={(e) => setView(e.target.value as "mdes" | "power")} aria-label="What the chart shows">
+              <option value="mdes">detectable effect</option>
+              <option value="power">power at the target effect</option>
+            </select>
+          </label>
+          <label className="flex items-center gap-1">
+            against
+            <select className="input py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct")} aria-label="Budget axis">
+              <option value="budget">total budget</option>
+              <option value="direct">direct costs</option>
+            </select>
+          </label>
+        </div>
+      </div>
+      <p className="text-sm text-ink-soft">
+        {view === "mdes" ? "The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power." : "Power to detect the target effect for each budget."}
+      </p>
+      {error ? <p className="alert">{(error as Error).message}</p> : null}
+      <div className="h-80 w-full" data-testid="reach-chart" data-points={points.length} aria-busy={isLoading}>
+        <ResponsiveContainer width="100%" height="100%">
+          <ComposedChart data={points} margin={{ top: 10, right: 20, bottom: 20, left: 10 }}>
+            <CartesianGrid stroke="#e5e0d3" />
+            {view === "mdes" && standardized
+              ? [
+                  <ReferenceArea key="s" y1={0} y2={0.2} fill="#e3ede8" fillOpacity={0.5} ifOverflow="hidden" />,
+                  <ReferenceArea key="m" y1={0.2} y2={0.5} fill="#f4ecd6" fillOpacity={0.35} ifOverflow="hidden" />,
+                  <ReferenceArea key="l" y1={0.5} y2={0.8} fill="#f8e7de" fillOpacity={0.3} ifOverflow="hidden" />,
+                ]
+              : null}
+            <XAxis dataKey={x} type="number" domain={["dataMin", "dataMax"]} tickFormatter={money} label={{ value: x === "budget" ? "Total budget" : "Direct costs", position: "insideBottom", offset: -10 }} />
+            <YAxis type="number" domain={[0, maxY]} allowDataOverflow tickFormatter={(v: number) => v.toFixed(2)} width={50} />
+            <Tooltip
+              content={({ active, payload }) => {
+                const p = active && payload?.[0]?.payload;
+                if (!p || !("n1" in p)) return null;
+                return (
+                  <div className="rounded border border-rule bg-white p-2 text-xs shadow">
+                    <div className="num">Budget {money(p.budget)} (direct {money(p.direct)})</div>
+                    <div className="num">
+                      n per arm {p.n1}
+                      {p.n2 !== null ? ` + ${p.n2}` : ""} · {p.sites} sites · {p.monthsToEnrol} months
+                    </div>
+                    <div className="num">MDES {p.mdes.toFixed(3)} · power at target {p.powerAtTarget.toFixed(3)}</div>
+                  </div>
+                );
+              }}
+            />
+            <Line type="stepAfter" dataKey={yKey} stroke="#2f5d50" strokeWidth={2} dot={false} isAnimationActive={false} />
+            {data?.cap ? <ReferenceLine x={data.cap} stroke="#a6461f" strokeDasharray="4 3" label={{ value: "cap", position: "top", fill: "#a6461f" }} /> : null}
+            {view === "mdes" && data ? <ReferenceLine y={data.targetEffect} stroke="#8a6a1f" strokeDasharray="2 3" label={{ value: "target", position: "right", fill: "#8a6a1f" }} /> : null}
+            {view === "power" ? <ReferenceLine y={0.8} stroke="#8a6a1f" strokeDasharray="2 3" /> : null}
+            {x === "budget" ? <Scatter data={(data?.markers ?? []).map((m) => ({ budget: m.budget, [yKey]: view === "mdes" ? m.mdes : m.power, name: m.name }))} dataKey={yKey} fill="#1c2430" /> : null}
+          </ComposedChart>
+        </ResponsiveContainer>
+      </div>
+      {data?.markers?.length && x === "budget" ? (
+        <p className="text-xs text-ink-soft">Dots: the study&apos;s scenarios ({data.markers.map((m) => m.name).join("; ")}). Dashed lines: the sponsor&apos;s cap and the target effect. Bands: Cohen&apos;s small, medium and large.</p>
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,136 @@
+import type { ScenarioResults } from "@/lib/planning/compute";
+import { formatMoney } from "@/lib/format/money";
+import { formatRate } from "@/lib/format/rates";
+
+const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
+export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
+
+/** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
+export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
+  const p = results.power;
+  const l = results.ledger;
+  const caps = l.caps.total;
+  return (
+    <div className="flex flex-col gap-4" data-testid="results">
+      <dl className="grid grid-cols-2 gap-3">
+        <div>
+          <dt className="text-sm text-ink-soft">Evaluable per arm</dt>
+          <dd className="num text-xl font-medium" data-testid="result-n">
+            {p.n2 === null ? p.n1 : `${p.n1} + ${p.n2}`}
+          </dd>
+          {p.clusters1 !== undefined ? <dd className="text-xs text-ink-soft">{`${p.clusters1} + ${p.clusters2} clusters`}</dd> : null}
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Enrolled / screened</dt>
+          <dd className="num text-xl" data-testid="result-enrolled">
+            {p.funnel.total.enrolled} / {p.funnel.total.screened}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Sites · months to enrol</dt>
+          <dd className="num text-xl" data-testid="result-months">
+            {results.sites} · {l.timeline.monthsToEnrol}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Total cost</dt>
+          <dd className="num text-xl font-medium" data-testid="result-total">
+            {formatMoney(l.totals.total)}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Power at the target</dt>
+          <dd className="num text-lg">{fmt(results.powerAtTarget, 3)}</dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Target ({effectLabel(results.effectName)})</dt>
+          <dd className="num text-lg">{fmt(results.targetEffect)}</dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">MDES at this n</dt>
+          <dd className="num text-lg" data-testid="result-mdes">
+            {fmt(results.mdes)}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-sm text-ink-soft">Cost per evaluable</dt>
+          <dd className="num text-lg">{formatMoney(l.unit.perEvaluable, { cents: false })}</dd>
+        </div>
+      </dl>
+      {caps ? (
+        <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">
+          {caps.within
+            ? `Within the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })}, with ${formatMoney(String(Number(caps.cap) - Number(caps.total)), { cents: false })} to spare.`
+            : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
+        </p>
+      ) : null}
+      <div className="overflow-x-auto">
+        <table className="table" aria-label="Cost by budget period">
+          <thead>
+            <tr>
+              <th scope="col">Budget period</th>
+              {l.periods.map((per) => (
+                <th key={per.index} scope="col" className="num">
+                  {per.index + 1}
+                  <span className="block text-[10px] font-normal normal-case">{per.months < 12 ? `${per.months} mo` : per.startDate.slice(0, 7)}</span>
+                </th>
+              ))}
+              <th scope="col" className="num">
+                Total
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {(["direct", "fa", "total"] as const).map((k) => (
+              <tr key={k} className={k === "total" ? "font-semibold" : ""}>
+                <td>{k === "direct" ? "Direct costs" : k === "fa" ? `F&A (${formatRate(l.faRate)} of ${l.faBase === "mtdc" ? "MTDC" : "TDC"})` : "Total"}</td>
+                {l.byPeriod[k].map((v, i) => (
+                  <td key={i} className="num">
+                    {formatMoney(v, { cents: false })}
+                  </td>
+                ))}
+                <td className="num">{formatMoney(l.totals[k], { cents: false })}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <details>
+        <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
+        <div className="mt-2 overflow-x-auto">
+          <table className="table text-sm">
+            <thead>
+              <tr>
+                <th scope="col">Line</th>
+                <th scope="col">Category</th>
+                <th scope="col" className="num">
+                  Total
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {l.lines.map((line) => (
+                <tr key={line.key}>
+                  <td>{line.label}</td>
+                  <td>{line.category}</td>
+                  <td className="num">{formatMoney(line.total)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </details>
+      {results.warnings.length ? (
+        <ul className="notice flex flex-col gap-1" data-testid="scenario-warnings">
+          {results.warnings.map((w) => (
+            <li key={w}>{w}</li>
+          ))}
+        </ul>
+      ) : null}
+      <p className="text-xs text-ink-soft">
+        {p.method}. Costed with the rate-book edition “{results.edition.label}”. These figures support, and do not replace, review by a statistician and by the grants office;
+        sponsor and institutional rules come from your own agreements.
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,345 @@
+"use client";
+
+import { getFormProps, getInputProps, getSelectProps, getTextareaProps, useForm, type FieldMetadata } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { useActionState, useEffect, useRef, useState, type ReactNode } from "react";
+import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
+import { COST_CATEGORIES } from "@/lib/costing/types";
+import type { ScenarioResults } from "@/lib/planning/compute";
+import { scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { FormErrors } from "../form/field";
+import { keptSubmit } from "../form/kept-submit";
+import { PilotUpload } from "./pilot-upload";
+import { ReachChart } from "./reach-chart";
+import { ResultsPanel } from "./results-panel";
+
+const DESIGN_LABELS: Record<string, string> = {
+  "two-means": "Two independent means",
+  "one-mean": "One mean or paired differences",
+  "two-proportions": "Two proportions",
+  "cluster-two-means": "Cluster-randomised, means",
+  "cluster-two-proportions": "Cluster-randomised, proportions",
+  "time-to-event": "Time to event (log-rank)",
+};
+
+/** The stored inputs as the form's strings. */
+function toFormValues(i: ScenarioInputs) {
+  const s = (v: unknown) => (v === undefined || v === null ? "" : String(v));
+  return {
+    design: Object.fromEntries(Object.entries(i.design).map(([k, v]) => [k, s(v)])),
+    recruitment: Object.fromEntries(Object.entries(i.recruitment).map(([k, v]) => [k, s(v)])),
+    visits: i.visits.map((v) => ({ name: v.name, month: s(v.month), procedures: v.procedures.join(", ") })),
+    personnel: i.personnel.map((p) => ({ ...p, effortPercent: s(p.effortPercent) })),
+    other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
+  };
+}
+
+function Text({ meta, label, hint, wide }: { meta: FieldMetadata<unknown>; label: string; hint?: string; wide?: boolean }) {
+  const describedBy = [hint ? `${meta.id}-hint` : null, meta.errors?.length ? `${meta.id}-error` : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className={`field ${wide ? "sm:col-span-2" : ""}`}>
+      <label htmlFor={meta.id}>{label}</label>
+      <input {...getInputProps(meta as FieldMetadata<string>, { type: "text" })} key={meta.key} className="input" aria-describedby={describedBy} />
+      {hint ? (
+        <span id={`${meta.id}-hint`} className="hint">
+          {hint}
+        </span>
+      ) : null}
+      {meta.errors?.length ? (
+        <span id={`${meta.id}-error`} className="error">
+          {meta.errors.join(" ")}
+        </span>
+      ) : null}
+    </div>
+  );
+}
+
+function Section({ title, children, id }: { title: string; children: ReactNode; id: string }) {
+  return (
+    <fieldset className="card flex flex-col gap-4" aria-labelledby={id}>
+      <legend className="sr-only">{title}</legend>
+      <h2 id={id}>{title}</h2>
+      {children}
+    </fieldset>
+  );
+}
+
+export function ScenarioForm({
+  studyId,
+  scenarioId,
+  version,
+  name,
+  inputs,
+  initialResults,
+  sponsorCap,
+  fringeCategories,
+}: {
+  studyId: number;
+  scenarioId?: number;
+  version?: number;
+  name: string;
+  inputs: ScenarioInputs;
+  initialResults: ScenarioResults | null;
+  sponsorCap: string | null;
+  fringeCategories: string[];
+}) {
+  const [lastResult, action, pending] = useActionState(saveScenarioAction, undefined);
+  const [form, fields] = useForm({
+    lastResult,
+    defaultValue: { name, inputs: toFormValues(inputs) },
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: scenarioFormSchema }),
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+  });
+  const i = fields.inputs.getFieldset();
+  const d = i.design.getFieldset();
+  const r = i.recruitment.getFieldset();
+  const design = (d.design.value as string | undefined) ?? inputs.design.design;
+
+  // The results panel follows the assumptions: valid inputs are previewed, debounced, without saving.
+  const [live, setLive] = useState<ScenarioInputs>(inputs);
+  const [preview, setPreview] = useState<{ results: ScenarioResults | null; error: string | null; busy: boolean }>({ results: initialResults, error: null, busy: false });
+  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
+  const formRef = useRef<HTMLFormElement>(null);
+  const onChange = () => {
+    if (timer.current) clearTimeout(timer.current);
+    timer.current = setTimeout(() => {
+      if (!formRef.current) return;
+      const parsed = parseWithZod(new FormData(formRef.current), { schema: scenarioFormSchema });
+      if (parsed.status === "success") setLive(parsed.value.inputs);
+    }, 400);
+  };
+  const first = useRef(true);
+  useEffect(() => {
+    if (first.current) {
+      first.current = false;
+      if (initialResults) return;
+    }
+    const ctl = new AbortController();
+    setPreview((p) => ({ ...p, busy: true }));
+    fetch(`/api/v1/studies/${studyId}/scenarios/preview`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: live }), signal: ctl.signal })
+      .then(async (res) => {
+        const body = await res.json();
+        setPreview(res.ok ? { results: body.results, error: null, busy: false } : (p) => ({ results: p.results, error: body?.error?.message ?? "Could not compute.", busy: false }));
+      })
+      .catch((err) => {
+        if ((err as Error).name !== "AbortError") setPreview((p) => ({ ...p, error: "Could not reach the server; your inputs are kept.", busy: false }));
+      });
+    return () => ctl.abort();
+  }, [live, studyId, initialResults]);
+
+  const visits = i.visits.getFieldList();
+  const personnel = i.personnel.getFieldList();
+  const other = i.other.getFieldList();
+  const means = design === "two-means" || design === "one-mean" || design === "cluster-two-means";
+  const proportions = design.endsWith("proportions");
+  const cluster = design.startsWith("cluster-");
+
+  return (
+    <div className="grid gap-6 xl:grid-cols-5">
+      <form
+        {...getFormProps(form)}
+        ref={formRef}
+        onSubmit={keptSubmit(form.onSubmit, action)}
+        action={action}
+        onInput={onChange}
+        onChange={onChange}
+        className="flex flex-col gap-5 xl:col-span-3"
+        noValidate
+      >
+        <input type="hidden" name="studyId" value={studyId} />
+        {scenarioId ? <input type="hidden" name="scenarioId" value={scenarioId} /> : null}
+        {version ? <input type="hidden" name="version" value={version} /> : null}
+        <FormErrors errors={form.errors} />
+        <div className="card grid gap-4 sm:grid-cols-2">
+          <Text meta={fields.name} label="Scenario name" wide />
+        </div>
+        <Section title="Design" id="sec-design">
+          <div className="grid gap-4 sm:grid-cols-2">
+            <div className="field">
+              <label htmlFor={d.design.id}>Design</label>
+              <select {...getSelectProps(d.design)} key={d.design.key} className="input">
+                {Object.entries(DESIGN_LABELS).map(([v, l]) => (
+                  <option key={v} value={v}>
+                    {l}
+                  </option>
+                ))}
+              </select>
+            </div>
+            <Text meta={d.outcome} label="Primary outcome" />
+            <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05" />
+            <div className="field">
+              <label htmlFor={d.sides.id}>Test</label>
+              <select {...getSelectProps(d.sides)} key={d.sides.key} className="input">
+                <option value="2">Two-sided</option>
+                <option value="1">One-sided</option>
+              </select>
+            </div>
+            <Text meta={d.power} label="Target power" hint="e.g. 0.80 or 0.90" />
+            {design !== "one-mean" ? <Text meta={d.allocationRatio} label="Allocation ratio (n2 / n1)" /> : null}
+            {means ? (
+              <>
+                <Text meta={d.meanDifference} label="Target mean difference" hint="In outcome units; or leave empty and give d" />
+                <Text meta={d.sd} label="Outcome SD" hint="Planning SD (a pilot's upper limit is safer)" />
+                <Text meta={d.effectSize} label="Or: standardized effect d" hint="Used when the difference is empty" />
+              </>
+            ) : null}
+            {proportions ? (
+              <>
+                <Text meta={d.p1} label="Control proportion (p1)" />
+                <Text meta={d.p2} label="Target intervention proportion (p2)" />
+              </>
+            ) : null}
+            {cluster ? (
+              <>
+                <Text meta={d.clusterSize} label="Mean cluster size" />
+                <Text meta={d.icc} label="ICC" hint="Intracluster correlation" />
+                <Text meta={d.cv} label="CV of cluster size" hint="0 for equal clusters" />
+              </>
+            ) : null}
+            {design === "time-to-event" ? (
+              <>
+                <Text meta={d.hazardRatio} label="Target hazard ratio" />
+                <Text meta={d.controlMedian} label="Control median (months)" />
+                <Text meta={d.accrualMonths} label="Accrual (months)" />
+                <Text meta={d.followUpMonths} label="Further follow-up (months)" />
+              </>
+            ) : null}
+            <div className="field sm:col-span-2">
+              <label htmlFor={d.targetRationale.id}>Where the target effect comes from</label>
+              <textarea {...getTextareaProps(d.targetRationale)} key={d.targetRationale.key} rows={2} className="input" />
+              {d.targetRationale.errors ? <span className="error">{d.targetRationale.errors.join(" ")}</span> : null}
+            </div>
+            <Text meta={d.sdSource} label="Where the SD or control proportion comes from" wide />
+          </div>
+          <PilotUpload studyId={studyId} kind={proportions ? "proportion" : "sd"} />
+        </Section>
+
+        <Section title="Recruitment" id="sec-recruitment">
+          <div className="grid gap-4 sm:grid-cols-3">
+            {!cluster ? <Text meta={r.sites} label="Sites" /> : null}
+            {!cluster ? <Text meta={r.maxEnrolmentMonths} label="Enrolment deadline (months)" hint="Optional: sites are added to meet it" /> : null}
+            <Text meta={r.ratePerSiteMonth} label="Enrolled per site per month" />
+            <Text meta={r.startupMonths} label="Start-up months per site" />
+            <Text meta={r.staggerMonths} label="Months between activations" />
+            <Text meta={r.closeoutMonths} label="Close-out months" />
+            <Text meta={r.attrition} label="Attrition" hint="Share lost after enrolment" />
+            <Text meta={r.screenFailure} label="Screen failure" hint="Share of those screened not enrolled" />
+            <Text meta={r.dropoutVisitShare} label="Visits a dropout attends" hint="Share of the schedule, e.g. 0.5" />
+          </div>
+          {cluster ? <p className="text-sm text-ink-soft">In a cluster design each cluster is a site; the number of sites follows from the clusters needed.</p> : null}
+        </Section>
+
+        <Section title="Visit schedule" id="sec-visits">
+          {visits.map((v, idx) => {
+            const f = v.getFieldset();
+            return (
+              <div key={v.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[1fr_6rem_2fr_auto]">
+                <Text meta={f.name} label={`Visit ${idx + 1}`} />
+                <Text meta={f.month} label="Month" />
+                <Text meta={f.procedures} label="Procedures (codes)" hint="From the rate book, comma-separated" />
+                <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button {...form.insert.getButtonProps({ name: i.visits.name, defaultValue: { name: "", month: "", procedures: "" } })} className="btn btn-quiet self-start">
+            Add a visit
+          </button>
+        </Section>
+
+        <Section title="Costs: personnel" id="sec-personnel">
+          {personnel.map((p, idx) => {
+            const f = p.getFieldset();
+            return (
+              <div key={p.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_6rem_1fr_auto]">
+                <Text meta={f.role} label="Role" />
+                <div className="field">
+                  <label htmlFor={f.fringeCategory.id}>Staff category</label>
+                  <select {...getSelectProps(f.fringeCategory)} key={f.fringeCategory.key} className="input">
+                    {fringeCategories.map((c) => (
+                      <option key={c} value={c}>
+                        {c}
+                      </option>
+                    ))}
+                  </select>
+                </div>
+                <Text meta={f.baseSalary} label="Base salary" />
+                <Text meta={f.effortPercent} label="Effort %" />
+                <div className="field">
+                  <label htmlFor={f.follows.id}>Effort runs</label>
+                  <select {...getSelectProps(f.follows)} key={f.follows.key} className="input">
+                    <option value="study">whole study</option>
+                    <option value="enrolment">during recruitment and visits</option>
+                  </select>
+                </div>
+                <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button
+            {...form.insert.getButtonProps({ name: i.personnel.name, defaultValue: { role: "", fringeCategory: fringeCategories[0] ?? "", baseSalary: "", effortPercent: "", follows: "study" } })}
+            className="btn btn-quiet self-start"
+          >
+            Add a person
+          </button>
+        </Section>
+
+        <Section title="Costs: other direct costs" id="sec-other">
+          {other.map((o, idx) => {
+            const f = o.getFieldset();
+            return (
+              <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_auto_auto]">
+                <Text meta={f.label} label="Item" />
+                <div className="field">
+                  <label htmlFor={f.category.id}>Category</label>
+                  <select {...getSelectProps(f.category)} key={f.category.key} className="input">
+                    {COST_CATEGORIES.map((c) => (
+                      <option key={c} value={c}>
+                        {c}
+                      </option>
+                    ))}
+                  </select>
+                </div>
+                <Text meta={f.perPeriod} label="Per budget period" />
+                <label className="flex items-center gap-1.5 pb-2 text-sm">
+                  <input {...getInputProps(f.escalate, { type: "checkbox" })} key={f.escalate.key} /> escalate
+                </label>
+                <button {...form.remove.getButtonProps({ name: i.other.name, index: idx })} className="btn btn-danger py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button {...form.insert.getButtonProps({ name: i.other.name, defaultValue: { label: "", category: "supplies", perPeriod: "", escalate: "on" } })} className="btn btn-quiet self-start">
+            Add an item
+          </button>
+        </Section>
+
+        <div className="flex gap-3">
+          <button type="submit" className="btn" disabled={pending}>
+            {pending ? "Saving…" : scenarioId ? "Save changes" : "Create scenario"}
+          </button>
+        </div>
+      </form>
+
+      <aside className="flex flex-col gap-4 xl:col-span-2" aria-live="polite">
+        <section className="card flex flex-col gap-3" aria-labelledby="live-results" aria-busy={preview.busy}>
+          <h2 id="live-results">
+            Results {preview.busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : <span className="text-sm font-normal text-ink-soft">(not saved until you save)</span>}
+          </h2>
+          {preview.error ? (
+            <p className="alert" role="alert">
+              {preview.error}
+            </p>
+          ) : null}
+          {preview.results ? <ResultsPanel results={preview.results} sponsorCap={sponsorCap} /> : <p className="text-ink-soft">Calculating…</p>}
+        </section>
+        <ReachChart source={scenarioId ? { kind: "unsaved", url: `/api/v1/scenarios/${scenarioId}/curve`, inputs: live } : { kind: "unsaved", url: `/api/v1/studies/${studyId}/curve`, inputs: live }} effectName={preview.results?.effectName ?? "effectSize"} />
+      </aside>
+    </div>
+  );
+}
