@@ -53,7 +53,13 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
         {view === "mdes" ? "The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power." : "Power to detect the target effect for each budget."}
       </p>
       {error ? <p className="alert">{(error as Error).message}</p> : null}
-      <div className="h-80 w-full" data-testid="reach-chart" data-points={points.length} aria-busy={isLoading}>
+      <div
+        className="h-80 w-full"
+        data-testid="reach-chart"
+        data-points={points.length}
+        data-signature={points.length ? `${points.length}:${Math.round(points[0]!.budget)}:${Math.round(points[points.length - 1]!.mdes * 1e4)}` : ""}
+        aria-busy={isLoading}
+      >
         <ResponsiveContainer width="100%" height="100%">
           <ComposedChart data={points} margin={{ top: 10, right: 20, bottom: 20, left: 10 }}>
             <CartesianGrid stroke="#e5e0d3" />

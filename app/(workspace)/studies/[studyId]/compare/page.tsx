@@ -73,7 +73,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
   const money: { section: string; rows: Row[] } = {
     section: "Cost",
     rows: [
-      ...Array.from({ length: periods }, (_, p) => ({ label: `Period ${p + 1}`, values: (s: ScenarioDetail) => formatMoney(s.results.ledger.byPeriod.total[p] ?? "0", { cents: false }) })),
+      ...Array.from({ length: periods }, (_, p) => ({ label: `Period ${p + 1}`, values: (s: ScenarioDetail) => { const v = s.results.ledger.byPeriod.total[p]; return v === undefined ? "—" : formatMoney(v, { cents: false }); } })),
       { label: "Direct costs", values: (s) => formatMoney(s.results.ledger.totals.direct, { cents: false }) },
       { label: "F&A", values: (s) => formatMoney(s.results.ledger.totals.fa, { cents: false }) },
       { label: "Total", values: (s) => formatMoney(s.results.ledger.totals.total, { cents: false }) },

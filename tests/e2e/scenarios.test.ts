@@ -1,0 +1,72 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { launchBrowser, screenshot, signIn } from "./browser";
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let page: Page;
+beforeAll(async () => {
+  browser = await launchBrowser();
+  page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(page, baseUrl, "pi@demo.test");
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("the investigator's scenario workspace", () => {
+  it("changes attrition and sees the numbers and the chart change", async () => {
+    await page.getByRole("link", { name: /Walking Better/ }).click();
+    await page.getByRole("link", { name: "Six sites, 90% power" }).click();
+    await page.waitForURL(/\/scenarios\/\d+$/);
+    const enrolled = page.getByTestId("result-enrolled");
+    await enrolled.waitFor();
+    const before = await enrolled.textContent();
+    const chart = page.getByTestId("reach-chart");
+    await page.waitForFunction(() => (document.querySelector('[data-testid="reach-chart"]')?.getAttribute("data-points") ?? "0") !== "0");
+    const signature = await chart.getAttribute("data-signature");
+    await page.getByLabel("Attrition").fill("0.30");
+    await page.waitForFunction((b) => document.querySelector('[data-testid="result-enrolled"]')?.textContent !== b, before);
+    expect(Number((await enrolled.textContent())!.split("/")[0])).toBeGreaterThan(Number(before!.split("/")[0]));
+    await page.waitForFunction((s) => document.querySelector('[data-testid="reach-chart"]')?.getAttribute("data-signature") !== s, signature);
+    await page.getByTestId("cap-buys").waitFor();
+    await screenshot(page, "scenario-page");
+    // A bad value names the field and keeps the text; nothing is saved.
+    await page.getByLabel("Attrition").fill("1.5");
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Attrition: from 0 to below 1.").first().waitFor();
+    expect(await page.getByLabel("Attrition").inputValue()).toBe("1.5");
+    await page.getByLabel("Attrition").fill("0.30");
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Saved, with its results.").waitFor();
+  });
+
+  it("compares two scenarios with the differences marked", async () => {
+    await page.getByRole("link", { name: "WALK-KNEE" }).first().click();
+    await page.getByLabel("Compare Six sites, 90% power").check();
+    await page.getByLabel("Compare Three sites, longer enrolment").check();
+    await page.getByRole("button", { name: "Compare the chosen scenarios" }).click();
+    await page.waitForURL(/\/compare\?/);
+    const table = page.getByTestId("comparison");
+    await table.waitFor();
+    expect(await table.locator("[data-differs]").count()).toBeGreaterThan(3);
+    await screenshot(page, "comparison");
+  });
+
+  it("submits one for review; the grants officer clears it; it is then frozen", async () => {
+    await page.getByRole("link", { name: "Six sites, 90% power" }).first().click();
+    await page.getByTestId("submit-review").click();
+    await page.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    const url = page.url();
+    const grants = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(grants, baseUrl, "grants@demo.test");
+    await grants.goto(url);
+    await grants.getByTestId("clear-review").click();
+    await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    await screenshot(grants, "scenario-cleared");
+    await grants.close();
+    await page.reload();
+    await page.getByText("Cleared by the grants office and frozen").waitFor();
+    expect(await page.getByRole("button", { name: "Save changes" }).count()).toBe(0);
+  });
+});
