@@ -2,13 +2,17 @@
  * `npm run bench`: speed targets, measured as medians over repeated batches on one core
  * (Node runs this single-threaded). Targets from the issues:
  *   power engine, two-means: one power evaluation ≤ 5 µs, solve n ≤ 20 µs, solve the effect ≤ 40 µs;
- *   the reach curve: 256 points for a two-means scenario ≤ 20 ms.
+ *   the reach curve: 256 points for a two-means scenario ≤ 20 ms;
+ *   a four-scenario comparison workbook ≤ 500 ms.
  * Prints the median µs per call for each design and a PASS/FAIL line per target; exits 1 on a miss.
  */
 import { solve, solveParsed, powerInputSchema, type PowerInput } from "../lib/power";
 import { twoMeansPower } from "../lib/power/designs/means";
 import { studentQuantileUncached } from "../lib/power/distributions";
 import { reachCurve } from "../lib/planning/curve";
+import { computeScenario } from "../lib/planning/compute";
+import { generateJustification } from "../lib/planning/justification";
+import { buildWorkbook } from "../lib/workbook/build";
 import { DEMO_SCENARIOS, demoRateBook } from "./demo-data";
 
 type Result = { name: string; medianUs: number; target?: number };
@@ -90,6 +94,21 @@ const study = { startDate: "2027-07-01", sponsorCap: "2400000.00" };
 const twoMeansScenario = DEMO_SCENARIOS.find((s) => s.inputs.design.design === "two-means")!.inputs;
 const curveMs = medianUsPerCall(() => reachCurve(twoMeansScenario, rates, study, { points: 256 }), 1, 25) / 1000;
 results.push({ name: "reach curve, 256 points, two-means (ms per curve)", medianUs: curveMs, target: 20 });
+
+// A four-scenario comparison workbook (exceljs), built in memory.
+const fourStudy = { code: "WALK-KNEE", title: "Walking Better", sponsor: "Meridian Health Research Fund", sponsorCap: "2400000.00" };
+const four = DEMO_SCENARIOS.map((s) => {
+  const results = computeScenario(s.inputs, rates, study);
+  return { name: s.name, state: s.state, inputs: s.inputs, results, justification: generateJustification(s.inputs, results, study), rates };
+});
+const times: number[] = [];
+for (let k = 0; k < 9; k++) {
+  const t0 = performance.now();
+  await buildWorkbook(fourStudy, four, "2026-12-01");
+  times.push(performance.now() - t0);
+}
+times.sort((a, b) => a - b);
+results.push({ name: "comparison workbook, 4 scenarios (ms per workbook)", medianUs: times[4]!, target: 500 });
 
 let failed = 0;
 console.log("Delta Ledger benchmark (median µs per call, one core)\n");

@@ -301,3 +301,20 @@ export async function studyContextFor(actor: Actor, studyId: number): Promise<{ 
   if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet.");
   return { study: { startDate: s!.start_date, sponsorCap: s!.sponsor_cap }, rates: editionToRateBook(edition) };
 }
+
+/** Everything a workbook needs for these scenarios of one study, each checked for workbook.download. */
+export async function workbookData(actor: Actor, ids: number[], studyId?: number) {
+  const list = [];
+  for (const id of ids) {
+    await access(actor, id, "workbook.download");
+    const [detail, ctx] = await Promise.all([getScenario(actor, id), scenarioContext(actor, id)]);
+    if (studyId !== undefined && detail.studyId !== studyId) throw notFound("Those scenarios are not all in this study.");
+    list.push({ detail, rates: ctx.rates });
+  }
+  const first = list[0]!.detail;
+  const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
+  return {
+    study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
+    scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, rates })),
+  };
+}

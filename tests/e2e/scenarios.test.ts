@@ -70,3 +70,23 @@ describe("the investigator's scenario workspace", () => {
     expect(await page.getByRole("button", { name: "Save changes" }).count()).toBe(0);
   });
 });
+
+describe("finance and the workbook", () => {
+  it("finance downloads the workbook from the scenario page and it opens with its sheets", async () => {
+    const { default: ExcelJS } = await import("exceljs");
+    const fin = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(fin, baseUrl, "finance@demo.test");
+    await fin.getByRole("link", { name: /Walking Better/ }).click();
+    // Finance sees only scenarios in review or cleared.
+    await fin.getByRole("link", { name: "Lean follow-up, 80% power" }).click();
+    await fin.waitForURL(/\/scenarios\/\d+$/);
+    const [download] = await Promise.all([fin.waitForEvent("download"), fin.getByTestId("download-workbook").click()]);
+    expect(download.suggestedFilename()).toMatch(/^WALK-KNEE_lean-follow-up-80-power_\d{4}-\d{2}-\d{2}\.xlsx$/);
+    const file = await download.path();
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile(file!);
+    expect(wb.worksheets.map((w) => w.name)).toContain("Budget by period");
+    await screenshot(fin, "scenario-finance");
+    await fin.close();
+  });
+});

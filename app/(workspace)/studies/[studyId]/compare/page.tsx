@@ -84,8 +84,15 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       <nav aria-label="Breadcrumb" className="text-sm">
         <Link href="/studies">Studies</Link> <span aria-hidden="true">›</span> <Link href={`/studies/${studyId}`}>{list[0]!.study.code}</Link> <span aria-hidden="true">›</span> Compare
       </nav>
-      <h1>Compare scenarios</h1>
-      <p className="text-sm text-ink-soft">Values that differ between the scenarios are highlighted.</p>
+      <div className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1>Compare scenarios</h1>
+          <p className="text-sm text-ink-soft">Values that differ between the scenarios are highlighted.</p>
+        </div>
+        <a className="btn btn-quiet" href={`/api/v1/studies/${studyId}/workbook?scenarios=${list.map((s) => s.id).join(",")}`} download>
+          Download the comparison workbook
+        </a>
+      </div>
       <div className="card overflow-x-auto p-0">
         <table className="table" data-testid="comparison">
           <thead>

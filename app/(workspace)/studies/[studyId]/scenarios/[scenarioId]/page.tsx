@@ -44,7 +44,13 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             Costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
           </p>
         </div>
-        <ScenarioActions
+        <div className="flex flex-wrap items-start gap-2">
+          {can(user, "workbook.download", ctx) ? (
+            <a className="btn btn-quiet" href={`/api/v1/scenarios/${s.id}/workbook`} download data-testid="download-workbook">
+              Download the budget workbook
+            </a>
+          ) : null}
+          <ScenarioActions
           ids={ids}
           can={{
             submit: can(user, "scenario.submit", ctx) && (s.state === "draft" || s.state === "returned"),
@@ -53,7 +59,8 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             delete: editable,
             recompute: editable && s.newerEdition !== null,
           }}
-        />
+          />
+        </div>
       </header>
       {saved ? (
         <p className="notice" role="status">

@@ -1,0 +1,171 @@
+/**
+ * The budget workbook: read back with exceljs, then recalculated for real with LibreOffice, whose
+ * values must equal the app's ledger to the cent; a changed F&A rate must flow through the same formula.
+ */
+import ExcelJS from "exceljs";
+import Decimal from "decimal.js";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
+import * as studyWorkbookRoute from "@/app/api/v1/studies/[studyId]/workbook/route";
+import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
+import { createAccount } from "@/db/queries/accounts";
+import type { ScenarioResults } from "@/lib/planning/compute";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+import { params, request, signInAs } from "../support/http";
+import { recalculate } from "../support/libreoffice";
+
+let dir = "";
+const c: Record<string, string> = {};
+let studyId = 0;
+let scenarios: { id: number; name: string; state: string }[] = [];
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+  const admin = await getDb().selectFrom("users").select("id").where("email", "=", "admin@demo.test").executeTakeFirstOrThrow();
+  await createAccount({ id: admin.id, role: "admin" }, { email: "other-pi@demo.test", name: "Dr Invented Outsider", role: "investigator", password: "demo-pass-2026" });
+  for (const who of ["pi", "coi", "grants", "finance", "admin", "other-pi"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
+  studyId = (await getDb().selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
+  scenarios = await getDb().selectFrom("scenarios").select(["id", "name", "state"]).orderBy("id").execute();
+  // A hostile name, to check that user text stays inert in the workbook.
+  await getDb().updateTable("scenarios").set({ name: '=HYPERLINK("http://evil.example","click")' }).where("id", "=", scenarios[1]!.id).execute();
+});
+afterAll(() => dropDatabase(dir));
+
+const one = (who: string, id: number) => scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie: c[who] }), params({ scenarioId: String(id) }));
+const many = (who: string, ids: number[]) => studyWorkbookRoute.GET(request("GET", `/api/v1/studies/${studyId}/workbook?scenarios=${ids.join(",")}`, { cookie: c[who] }), params({ studyId: String(studyId) }));
+const load = async (buf: Buffer) => {
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.load(buf as unknown as ArrayBuffer);
+  return wb;
+};
+const resultsOf = async (id: number): Promise<ScenarioResults> => (await (await scenarioRoute.GET(request("GET", `/api/v1/scenarios/${id}`, { cookie: c.pi }), params({ scenarioId: String(id) }))).json()).scenario.results;
+// exceljs reads a formula whose cached result is 0 without a result, so a formula with none is 0 here (errors carry { error }).
+const num = (v: ExcelJS.CellValue): number =>
+  typeof v === "number" ? v : v && typeof v === "object" && "formula" in v ? Number((v as ExcelJS.CellFormulaValue).result ?? 0) : v && typeof v === "object" && "sharedFormula" in v ? Number((v as { result?: number }).result ?? 0) : Number(v);
+const cents = (x: number) => new Decimal(x).toFixed(2);
+
+/** Finds the rows of the budget sheet by their label in column B. */
+function budgetRows(ws: ExcelJS.Worksheet): Map<string, ExcelJS.Row> {
+  const m = new Map<string, ExcelJS.Row>();
+  ws.eachRow((row) => {
+    const label = row.getCell(2).value;
+    if (typeof label === "string") m.set(label, row);
+  });
+  return m;
+}
+
+function checkAgainstLedger(ws: ExcelJS.Worksheet, results: ScenarioResults): number {
+  const rows = budgetRows(ws);
+  const l = results.ledger;
+  const P = l.periods.length;
+  let checked = 0;
+  for (const line of l.lines) {
+    const row = rows.get(line.label);
+    expect(row, line.label).toBeDefined();
+    for (let p = 0; p < P; p++) {
+      expect(cents(num(row!.getCell(4 + p).value)), `${line.label} P${p + 1}`).toBe(line.amounts[p]);
+      checked++;
+    }
+    expect(cents(num(row!.getCell(4 + P).value))).toBe(line.total);
+  }
+  for (const [label, key] of [["Direct costs", "direct"], ["MTDC base", "base"], ["F&A", "fa"], ["Total", "total"]] as const) {
+    const row = rows.get(label)!;
+    for (let p = 0; p < P; p++) expect(cents(num(row.getCell(4 + p).value)), `${label} P${p + 1}`).toBe(l.byPeriod[key][p]);
+    expect(cents(num(row.getCell(4 + P).value)), label).toBe(l.totals[key]);
+    checked++;
+  }
+  return checked;
+}
+
+describe("permissions", () => {
+  it("each role's access to each route", async () => {
+    const draft = scenarios.find((s) => s.state === "draft")!;
+    const inReview = scenarios.find((s) => s.state === "in-review")!;
+    for (const who of ["pi", "coi", "grants"]) expect((await one(who, draft.id)).status, who).toBe(200);
+    expect((await one("finance", draft.id)).status).toBe(404);
+    expect((await one("finance", inReview.id)).status).toBe(200);
+    expect((await one("admin", draft.id)).status).toBe(403);
+    expect((await one("other-pi", draft.id)).status).toBe(404);
+    expect((await many("grants", [draft.id, inReview.id])).status).toBe(200);
+    expect((await many("finance", [draft.id, inReview.id])).status).toBe(404);
+    expect((await many("admin", [draft.id, inReview.id])).status).toBe(403);
+    expect((await many("pi", [draft.id])).status).toBe(400);
+    expect((await many("pi", scenarios.map((s) => s.id).concat([999]))).status).toBe(400);
+  });
+  it("names the file after the study, the scenario and the date", async () => {
+    const res = await one("pi", scenarios[0]!.id);
+    expect(res.headers.get("content-type")).toMatch(/spreadsheetml/);
+    expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="WALK-KNEE_six-sites-90-power_\d{4}-\d{2}-\d{2}\.xlsx"$/);
+  });
+});
+
+describe("read back with exceljs", () => {
+  it("has the sheets, live formulas, named cells, and inert user text", async () => {
+    const wb = await load(Buffer.from(await (await one("pi", scenarios[1]!.id)).arrayBuffer()));
+    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Personnel", "Participants", "Sites", "Justification", "Assumptions"]);
+    const budget = wb.getWorksheet("Budget by period")!;
+    const total = budgetRows(budget).get("Total")!;
+    expect((total.getCell(4).value as ExcelJS.CellFormulaValue).formula).toMatch(/D\d+\+D\d+/);
+    expect((budgetRows(budget).get("F&A")!.getCell(4).value as ExcelJS.CellFormulaValue).formula).toMatch(/ROUND\(D\d+\*FA_RATE,2\)/);
+    const names = (wb.definedNames as unknown as { model: { name: string }[] }).model.map((n) => n.name);
+    expect(names).toEqual(expect.arrayContaining(["FA_RATE", "ESC_SALARIES", "ESC_COSTS", "SALARY_CAP", "MTDC_THRESHOLD", "FRINGE_FACULTY", "FRINGE_RESEARCH_STAFF", "GRAND_TOTAL"]));
+    const summary = wb.getWorksheet("Summary")!;
+    const scenarioCell = summary.getColumn(2).values.find((v) => typeof v === "string" && v.includes("HYPERLINK"));
+    expect(scenarioCell).toBe(`'=HYPERLINK("http://evil.example","click")`);
+    expect(budget.views[0]).toMatchObject({ state: "frozen" });
+    expect(budget.pageSetup.orientation).toBe("landscape");
+  });
+});
+
+describe("recalculated with LibreOffice", () => {
+  it("every line, subtotal and total of one scenario equals the ledger to the cent", async () => {
+    const id = scenarios[0]!.id;
+    const recalculated = await load(recalculate(Buffer.from(await (await one("pi", id)).arrayBuffer())));
+    const checked = checkAgainstLedger(recalculated.getWorksheet("Budget by period")!, await resultsOf(id));
+    expect(checked).toBeGreaterThan(40);
+    // No cell errors anywhere.
+    recalculated.eachSheet((ws) =>
+      ws.eachRow((row) =>
+        row.eachCell((cell) => {
+          const v = cell.value as { error?: string; result?: { error?: string } } | null;
+          expect(v && typeof v === "object" && ("error" in v || (v.result && typeof v.result === "object" && "error" in v.result)), `${ws.name}!${cell.address}`).toBeFalsy();
+        }),
+      ),
+    );
+  }, 120_000);
+
+  it("a comparison reconciles scenario by scenario", async () => {
+    const ids = scenarios.slice(0, 3).map((s) => s.id);
+    const recalculated = await load(recalculate(Buffer.from(await (await many("grants", ids)).arrayBuffer())));
+    expect(recalculated.worksheets[0]!.name).toBe("Comparison");
+    const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+    expect(budgets.length).toBe(3);
+    for (let k = 0; k < 3; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
+    const cmp = recalculated.getWorksheet("Comparison")!;
+    let grand: ExcelJS.Row | undefined;
+    cmp.eachRow((row) => {
+      if (row.getCell(1).value === "Grand total") grand = row;
+    });
+    for (let k = 0; k < 3; k++) expect(cents(num(grand!.getCell(2 + k).value))).toBe((await resultsOf(ids[k]!)).ledger.totals.total);
+  }, 120_000);
+
+  it("changing the F&A rate cell moves the totals by the engine's formula", async () => {
+    const id = scenarios[0]!.id;
+    const wb = await load(Buffer.from(await (await one("pi", id)).arrayBuffer()));
+    const ref = (wb.definedNames as unknown as { getRanges: (n: string) => { ranges: string[] } }).getRanges("FA_RATE").ranges[0]!;
+    const [sheet, cell] = ref.replace(/'/g, "").split("!");
+    wb.getWorksheet(sheet!)!.getCell(cell!.replace(/\$/g, "")).value = 0.6;
+    const recalculated = await load(recalculate(Buffer.from(await wb.xlsx.writeBuffer())));
+    const rows = budgetRows(recalculated.getWorksheet("Budget by period")!);
+    const results = await resultsOf(id);
+    let grand = new Decimal(0);
+    for (let p = 0; p < results.ledger.periods.length; p++) {
+      const expected = new Decimal(results.ledger.byPeriod.direct[p]!).plus(new Decimal(results.ledger.byPeriod.base[p]!).times("0.6").toDecimalPlaces(2, Decimal.ROUND_HALF_UP));
+      expect(cents(num(rows.get("Total")!.getCell(4 + p).value))).toBe(expected.toFixed(2));
+      grand = grand.plus(expected);
+    }
+    expect(cents(num(rows.get("Total")!.getCell(4 + results.ledger.periods.length).value))).toBe(grand.toFixed(2));
+    expect(grand.greaterThan(results.ledger.totals.total)).toBe(true);
+  }, 120_000);
+});
