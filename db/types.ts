@@ -152,6 +152,46 @@ export interface ScenariosTable {
   reviewed_at: string | null;
 }
 
+export interface CommentsTable {
+  id: Generated<number>;
+  scenario_id: number;
+  author_id: number;
+  parent_id: number | null;
+  field: string | null;
+  body: string;
+  resolved: ColumnType<number, number | undefined, number>;
+  deleted: ColumnType<number, number | undefined, number>;
+  created_at: CreatedAt;
+  updated_at: ColumnType<string, string | undefined, string>;
+}
+
+export interface InvitationsTable {
+  id: Generated<number>;
+  study_id: number;
+  email: string;
+  token_hash: string;
+  invited_by: number;
+  created_at: CreatedAt;
+  expires_at: string;
+  accepted_at: string | null;
+  revoked_at: string | null;
+}
+
+export interface OutboxTable {
+  id: Generated<number>;
+  kind: string;
+  to_address: string;
+  subject: string;
+  text_body: string;
+  html_body: string;
+  created_at: CreatedAt;
+  attempts: ColumnType<number, number | undefined, number>;
+  next_attempt_at: ColumnType<string, string | undefined, string>;
+  claimed_until: string | null;
+  sent_at: string | null;
+  last_error: string | null;
+}
+
 export interface Database {
   institutions: InstitutionsTable;
   users: UsersTable;
@@ -165,6 +205,9 @@ export interface Database {
   rate_book_procedures: RateBookProceduresTable;
   rate_book_imports: RateBookImportsTable;
   scenarios: ScenariosTable;
+  comments: CommentsTable;
+  invitations: InvitationsTable;
+  outbox: OutboxTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -2,6 +2,7 @@ import type { Migration } from "kysely";
 import * as foundation from "./2026-12-01-0001-foundation";
 import * as rateBook from "./2026-12-01-0002-rate-book";
 import * as scenarios from "./2026-12-01-0003-scenarios";
+import * as collaboration from "./2026-12-01-0004-collaboration";
 
 /**
  * Every migration, keyed by its dated file name (Kysely runs them in key order).
@@ -11,4 +12,5 @@ export const migrations: Record<string, Migration> = {
   "2026-12-01-0001-foundation": foundation,
   "2026-12-01-0002-rate-book": rateBook,
   "2026-12-01-0003-scenarios": scenarios,
+  "2026-12-01-0004-collaboration": collaboration,
 };

@@ -15,6 +15,7 @@ export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{
   const file = path.join(dir, "test.sqlite");
   process.env.DATABASE_PATH = file;
   process.env.SESSION_SECRET ??= "test-secret-that-is-long-enough-0123456789";
+  process.env.MAIL_AUTOSEND = "0";
   const db = getDb();
   await migrateToLatest(db);
   if (opts.seed !== false) await seedDemo(db);

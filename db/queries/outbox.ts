@@ -1,0 +1,101 @@
+import "server-only";
+import type { Kysely, Transaction } from "kysely";
+import { getDb } from "@/db";
+import type { Database } from "@/db/types";
+import { enforce } from "@/lib/auth/errors";
+import { decide, type Actor } from "@/lib/auth/permissions";
+import { linksIn, type MailMessage } from "@/lib/mail/templates";
+import { createTransport } from "@/lib/mail/transport";
+
+/** Records messages in the caller's transaction: a rolled-back event sends nothing. */
+export async function enqueueMail(db: Kysely<Database> | Transaction<Database>, messages: MailMessage[]): Promise<void> {
+  if (!messages.length) return;
+  await db
+    .insertInto("outbox")
+    .values(messages.map((m) => ({ kind: m.kind, to_address: m.to, subject: m.subject, text_body: m.text, html_body: m.html })))
+    .execute();
+}
+
+const CLAIM_SECONDS = 60;
+const backoffSeconds = (attempts: number) => Math.min(600, 5 * 2 ** Math.max(0, attempts - 1));
+
+/**
+ * Delivers due messages. Each is claimed first (so two senders never send one message), sent with a
+ * Message-ID fixed by its outbox id (so a receiver can drop a repeat after a crash between sending and
+ * marking), then marked sent; a failure waits with backoff and is tried again.
+ */
+export async function deliverPending(opts: { now?: Date; limit?: number } = {}): Promise<{ sent: number; failed: number }> {
+  const db = getDb();
+  const now = (opts.now ?? new Date()).toISOString();
+  const due = await db
+    .selectFrom("outbox")
+    .selectAll()
+    .where("sent_at", "is", null)
+    .where("next_attempt_at", "<=", now)
+    .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
+    .orderBy("id")
+    .limit(opts.limit ?? 50)
+    .execute();
+  if (!due.length) return { sent: 0, failed: 0 };
+  const { transporter, from } = createTransport();
+  let sent = 0;
+  let failed = 0;
+  try {
+    for (const m of due) {
+      const claimUntil = new Date(Date.parse(now) + CLAIM_SECONDS * 1000).toISOString();
+      const claim = await db
+        .updateTable("outbox")
+        .set({ claimed_until: claimUntil })
+        .where("id", "=", m.id)
+        .where("sent_at", "is", null)
+        .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
+        .executeTakeFirst();
+      if (Number(claim.numUpdatedRows) !== 1) continue;
+      try {
+        await transporter.sendMail({ from, to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body, messageId: `<outbox-${m.id}@delta-ledger.local>` });
+        await db.updateTable("outbox").set({ sent_at: new Date().toISOString(), claimed_until: null, attempts: m.attempts + 1, last_error: null }).where("id", "=", m.id).execute();
+        sent++;
+      } catch (err) {
+        const attempts = m.attempts + 1;
+        await db
+          .updateTable("outbox")
+          .set({ attempts, claimed_until: null, last_error: String((err as Error).message).slice(0, 300), next_attempt_at: new Date(Date.parse(now) + backoffSeconds(attempts) * 1000).toISOString() })
+          .where("id", "=", m.id)
+          .execute();
+        failed++;
+      }
+    }
+  } finally {
+    transporter.close();
+  }
+  return { sent, failed };
+}
+
+let timer: ReturnType<typeof setInterval> | undefined;
+let running = false;
+
+/** Starts the background sender once per server process; also kicked after each event. */
+export function startMailSender(intervalMs = 2000): void {
+  if (timer) return;
+  timer = setInterval(kickMailSender, intervalMs);
+  timer.unref?.();
+}
+
+export function kickMailSender(): void {
+  // Tests deliver explicitly (MAIL_AUTOSEND=0), so that each step's sending is observable.
+  if (running || process.env.MAIL_AUTOSEND === "0") return;
+  running = true;
+  deliverPending()
+    .catch((err) => console.error("[mail] delivery failed", err))
+    .finally(() => {
+      running = false;
+    });
+}
+
+export type OutboxRow = { id: number; kind: string; to: string; subject: string; createdAt: string; sentAt: string | null; attempts: number; lastError: string | null; text: string; links: string[] };
+
+export async function listOutbox(actor: Actor, limit = 200): Promise<OutboxRow[]> {
+  enforce(decide(actor, "outbox.view"));
+  const rows = await getDb().selectFrom("outbox").selectAll().orderBy("id", "desc").limit(limit).execute();
+  return rows.map((r) => ({ id: r.id, kind: r.kind, to: r.to_address, subject: r.subject, createdAt: r.created_at, sentAt: r.sent_at, attempts: r.attempts, lastError: r.last_error, text: r.text_body, links: linksIn(r.text_body) }));
+}
