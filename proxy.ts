@@ -17,5 +17,5 @@ export function proxy(req: NextRequest) {
 
 export const config = {
   // Pages only: the API answers 401 JSON itself; assets and the sign-in page pass.
-  matcher: ["/((?!api/|_next/|sign-in|favicon.ico|icon.svg|fonts/).*)"],
+  matcher: ["/((?!api/|_next/|sign-in|invitations/|favicon.ico|icon.svg|fonts/).*)"],
 };

@@ -1,13 +1,14 @@
 /**
  * `npm run demo`: migrate, seed the invented demo data when the database is empty, build when the
- * sources are newer than the last build, then start the production server (and, once e-mail lands,
- * the local mail server). Ctrl-C stops everything it started.
+ * sources are newer than the last build, then start the local mail server and the production server.
+ * Ctrl-C stops everything it started.
  */
 import { spawn, spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { localSecret } from "../lib/server/local-secret";
 import { migrate } from "./migrate";
+import { startMailServer } from "./mail-server";
 import { seed } from "./seed";
 
 const root = process.cwd();
@@ -45,10 +46,25 @@ async function main(): Promise<void> {
     const r = spawnSync(process.execPath, [nextBin, "build"], { stdio: "inherit", env: { ...process.env, NODE_ENV: "production" } });
     if (r.status !== 0) process.exit(r.status ?? 1);
   }
-  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: "production", DEMO: "1", SESSION_SECRET: process.env.SESSION_SECRET ?? localSecret() };
+  // The local mail server receives every message the demo sends; the admin's Outbox page lists them.
+  const smtpPort = process.env.SMTP_PORT ?? "2525";
+  const mail = await startMailServer({ port: Number(smtpPort) });
+  console.log(`local mail server on 127.0.0.1:${mail.port} (messages in ${mail.dir})`);
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    NODE_ENV: "production",
+    DEMO: "1",
+    SESSION_SECRET: process.env.SESSION_SECRET ?? localSecret(),
+    SMTP_HOST: process.env.SMTP_HOST ?? "127.0.0.1",
+    SMTP_PORT: String(mail.port),
+    APP_URL: process.env.APP_URL ?? `http://localhost:${port}`,
+  };
   const server = spawn(process.execPath, [nextBin, "start", "-p", port, "-H", process.env.HOST ?? "localhost"], { stdio: "inherit", env });
   console.log(`Delta Ledger demo: http://localhost:${port}  (accounts in README.md, password demo-pass-2026)`);
-  const stop = () => server.kill("SIGTERM");
+  const stop = () => {
+    server.kill("SIGTERM");
+    void mail.close();
+  };
   process.on("SIGINT", stop);
   process.on("SIGTERM", stop);
   server.on("exit", (code) => process.exit(code ?? 0));

@@ -9,6 +9,7 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import { scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { FormErrors } from "../form/field";
 import { keptSubmit } from "../form/kept-submit";
+import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { PilotUpload } from "./pilot-upload";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
@@ -38,7 +39,10 @@ function Text({ meta, label, hint, wide }: { meta: FieldMetadata<unknown>; label
   const describedBy = [hint ? `${meta.id}-hint` : null, meta.errors?.length ? `${meta.id}-error` : null].filter(Boolean).join(" ") || undefined;
   return (
     <div className={`field ${wide ? "sm:col-span-2" : ""}`}>
-      <label htmlFor={meta.id}>{label}</label>
+      <span className="flex items-baseline">
+        <label htmlFor={meta.id}>{label}</label>
+        <FieldCommentBadge field={meta.name} />
+      </span>
       <input {...getInputProps(meta as FieldMetadata<string>, { type: "text" })} key={meta.key} className="input" aria-describedby={describedBy} />
       {hint ? (
         <span id={`${meta.id}-hint`} className="hint">
@@ -136,6 +140,7 @@ export function ScenarioForm({
   const cluster = design.startsWith("cluster-");
 
   return (
+    <ScenarioIdContext value={scenarioId ?? null}>
     <div className="grid gap-6 xl:grid-cols-5">
       <form
         {...getFormProps(form)}
@@ -341,5 +346,6 @@ export function ScenarioForm({
         <ReachChart source={scenarioId ? { kind: "unsaved", url: `/api/v1/scenarios/${scenarioId}/curve`, inputs: live } : { kind: "unsaved", url: `/api/v1/studies/${studyId}/curve`, inputs: live }} effectName={preview.results?.effectName ?? "effectSize"} />
       </aside>
     </div>
+    </ScenarioIdContext>
   );
 }

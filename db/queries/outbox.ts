@@ -76,7 +76,7 @@ let running = false;
 
 /** Starts the background sender once per server process; also kicked after each event. */
 export function startMailSender(intervalMs = 2000): void {
-  if (timer) return;
+  if (timer || process.env.MAIL_AUTOSEND === "0") return;
   timer = setInterval(kickMailSender, intervalMs);
   timer.unref?.();
 }

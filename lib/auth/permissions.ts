@@ -116,5 +116,6 @@ export function navigationFor(role: AccountRole): { href: string; label: string 
   if (studyVisibility(actor, "owner") === "allow") items.push({ href: "/studies", label: "Studies" });
   if (can(actor, "ratebook.read")) items.push({ href: "/rate-book", label: "Rate book" });
   if (can(actor, "accounts.manage")) items.push({ href: "/admin/accounts", label: "Accounts" });
+  if (can(actor, "outbox.view")) items.push({ href: "/admin/outbox", label: "Outbox" });
   return items;
 }

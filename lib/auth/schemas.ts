@@ -38,3 +38,9 @@ export const setActiveSchema = z.object({
   userId: z.coerce.number().int().positive(),
   active: z.enum(["0", "1"]).transform((v) => v === "1"),
 });
+
+export const acceptInvitationSchema = z.object({
+  token: z.string().min(10),
+  name: z.string().trim().min(2, "Enter your name.").max(120, "At most 120 characters.").optional(),
+  password: newPasswordField.optional(),
+});

@@ -1,5 +1,6 @@
 import "server-only";
 import type { z } from "zod";
+import { startMailSender } from "@/db/queries/outbox";
 import { findSessionUser, type SessionUser } from "@/db/queries/sessions";
 import { HttpError } from "@/lib/auth/errors";
 import { SESSION_COOKIE } from "@/lib/auth/session-options";
@@ -67,6 +68,7 @@ export function withUser<P = Record<string, unknown>>(handler: Handler<P>) {
       }
       const user = await userFromRequest(req);
       if (!user) return jsonError(401, "unauthenticated", "Sign in first.");
+      startMailSender();
       return await handler({ req, user, params: await ctx.params });
     } catch (err) {
       return errorResponse(err);

@@ -4,6 +4,7 @@ import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
 import { migrate } from "@/scripts/migrate";
+import { startMailServer } from "@/scripts/mail-server";
 import { seed } from "@/scripts/seed";
 
 /**
@@ -20,6 +21,7 @@ declare module "vitest" {
 const root = path.resolve(import.meta.dirname, "../..");
 const nextBin = path.join(root, "node_modules", "next", "dist", "bin", "next");
 let server: ChildProcess | undefined;
+let mail: Awaited<ReturnType<typeof startMailServer>> | undefined;
 let tmp = "";
 
 async function waitFor(url: string, ms: number): Promise<void> {
@@ -53,6 +55,7 @@ export async function setup(project: TestProject): Promise<void> {
   await migrate(databasePath);
   process.env.DEMO = "1";
   await seed(databasePath);
+  mail = await startMailServer({ port: 0, dir: path.join(tmp, "mailbox") });
   const port = String(3900 + Math.floor(Math.random() * 90));
   server = spawn(process.execPath, [nextBin, "start", "-p", port, "-H", "127.0.0.1"], {
     cwd: root,
@@ -62,6 +65,10 @@ export async function setup(project: TestProject): Promise<void> {
       NODE_ENV: "production",
       DATABASE_PATH: databasePath,
       SESSION_SECRET: "e2e-secret-0123456789-0123456789-0123456789",
+      SMTP_HOST: "127.0.0.1",
+      SMTP_PORT: String(mail.port),
+      APP_URL: `http://127.0.0.1:${port}`,
+      MAIL_AUTOSEND: "1",
     },
   });
   const baseUrl = `http://127.0.0.1:${port}`;
@@ -75,5 +82,6 @@ export async function teardown(): Promise<void> {
     server.kill("SIGTERM");
     await new Promise((r) => server!.once("exit", r));
   }
+  await mail?.close();
   if (tmp) fs.rmSync(tmp, { recursive: true, force: true });
 }

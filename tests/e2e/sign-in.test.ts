@@ -12,7 +12,7 @@ afterAll(async () => {
 });
 
 const ACCOUNTS = [
-  { email: "admin@demo.test", role: "Administrator", nav: ["Rate book", "Accounts"], landing: "/admin/accounts", heading: "Accounts" },
+  { email: "admin@demo.test", role: "Administrator", nav: ["Rate book", "Accounts", "Outbox"], landing: "/admin/accounts", heading: "Accounts" },
   { email: "pi@demo.test", role: "Investigator", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
   { email: "coi@demo.test", role: "Co-investigator", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
   { email: "grants@demo.test", role: "Grants officer", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },

@@ -48,7 +48,7 @@ afterAll(async () => {
   await dropDatabase(dir);
 });
 
-const sp = (extra: Record<string, string> = {}) => params({ scenarioId: String(scenarioId), ...extra });
+const sp = (extra: Record<string, string> = {}) => params({ scenarioId: String(scenarioId), commentId: "", ...extra });
 const post = (who: string, body: unknown) => commentsRoute.POST(request("POST", `/api/v1/scenarios/${scenarioId}/comments`, { cookie: c[who], body }), sp());
 const thread = async (who: string) => (await (await commentsRoute.GET(request("GET", `/api/v1/scenarios/${scenarioId}/comments`, { cookie: c[who] }), sp())).json()).comments;
 const inbox = (to: string) => readMailbox(mailDir).filter((m) => m.to.includes(to));

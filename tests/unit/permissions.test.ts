@@ -78,7 +78,7 @@ describe("study membership", () => {
 
 describe("navigation", () => {
   it("shows each role only what it may use", () => {
-    expect(navigationFor("admin").map((i) => i.label)).toEqual(["Rate book", "Accounts"]);
+    expect(navigationFor("admin").map((i) => i.label)).toEqual(["Rate book", "Accounts", "Outbox"]);
     for (const role of ["investigator", "co-investigator", "grants-officer", "finance"] as const) {
       expect(navigationFor(role).map((i) => i.label)).toContain("Studies");
       expect(navigationFor(role).map((i) => i.label)).not.toContain("Accounts");

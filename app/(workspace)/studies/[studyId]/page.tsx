@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { StudyMembers } from "@/components/study-members";
+import { listInvitations } from "@/db/queries/invitations";
 import { listScenarios } from "@/db/queries/scenarios";
 import { getStudy } from "@/db/queries/studies";
 import { can } from "@/lib/auth/permissions";
@@ -14,6 +16,7 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
   const { studyId } = await params;
   const study = await loadOr404(() => getStudy(user, Number(studyId)));
   const scenarios = await listScenarios(user, study.id);
+  const mayInvite = can(user, "study.invite", { membership: study.membership });
   const mayCreate = can(user, "scenario.edit", { membership: study.membership, scenarioState: "draft" });
   const STATE = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
   return (
@@ -121,19 +124,7 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
             </Link>
           </p>
         </section>
-        <section className="card" aria-labelledby="members">
-          <h2 id="members">Members</h2>
-          <ul className="mt-2 flex flex-col gap-2">
-            {study.members.map((m) => (
-              <li key={m.userId}>
-                <span className="font-medium">{m.name}</span>{" "}
-                <span className="badge">{m.studyRole === "investigator" ? "Investigator" : "Co-investigator"}</span>
-                <br />
-                <span className="text-sm text-ink-soft">{m.email}</span>
-              </li>
-            ))}
-          </ul>
-        </section>
+        <StudyMembers studyId={study.id} members={study.members} invitations={mayInvite ? await listInvitations(user, study.id) : []} manage={mayInvite} />
       </div>
     </div>
   );

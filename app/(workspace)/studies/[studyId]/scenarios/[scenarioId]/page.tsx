@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { CommentsPanel } from "@/components/scenario/comments";
 import { PlannerPanel } from "@/components/scenario/planner-panel";
 import { ReachChart } from "@/components/scenario/reach-chart";
 import { ResultsPanel } from "@/components/scenario/results-panel";
@@ -100,6 +101,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       )}
       <PlannerPanel scenarioId={s.id} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
       <JustificationEditor ids={ids} text={s.justification} edited={s.justificationEdited} editable={editable} />
+      <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
     </div>
   );
 }

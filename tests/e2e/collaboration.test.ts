@@ -1,0 +1,60 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { launchBrowser, screenshot, signIn } from "./browser";
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let coi: Page;
+let pi: Page;
+beforeAll(async () => {
+  browser = await launchBrowser();
+  coi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(coi, baseUrl, "coi@demo.test");
+  await signIn(pi, baseUrl, "pi@demo.test");
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function openScenario(page: Page, name: string) {
+  await page.goto(`${baseUrl}/studies`);
+  await page.getByRole("link", { name: /Walking Better/ }).click();
+  await page.getByRole("link", { name }).click();
+  await page.waitForURL(/\/scenarios\/\d+$/);
+}
+
+describe("comments and notifications", () => {
+  it("the co-investigator comments on an assumption; the investigator sees it without reloading and replies; the admin sees both notifications", async () => {
+    await openScenario(pi, "Three sites, longer enrolment");
+    await openScenario(coi, "Three sites, longer enrolment");
+    await pi.getByRole("heading", { name: "Comments" }).waitFor();
+    await coi.getByLabel("Add a comment").fill("Is a 35% screen-failure rate realistic for these clinics?");
+    await coi.getByLabel("About").selectOption("inputs.recruitment.screenFailure");
+    await coi.getByRole("button", { name: "Post" }).click();
+    // The investigator's page polls: the comment appears there without a reload, and beside the field.
+    await pi.getByTestId("comment-body").filter({ hasText: "35% screen-failure" }).waitFor({ timeout: 15_000 });
+    await pi.getByTestId("field-comments-inputs.recruitment.screenFailure").waitFor();
+    await pi.getByRole("button", { name: "Reply" }).first().click();
+    await pi.getByLabel(/Reply to/).fill("The invented audit of these clinics found 30–40%.");
+    await pi.getByRole("button", { name: "Reply" }).last().click();
+    await coi.getByTestId("comment-body").filter({ hasText: "invented audit" }).waitFor({ timeout: 15_000 });
+    await screenshot(pi, "comments");
+
+    const admin = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(admin, baseUrl, "admin@demo.test");
+    await admin.getByRole("link", { name: "Outbox" }).click();
+    const outbox = admin.getByTestId("outbox");
+    for (let k = 0; k < 20; k++) {
+      const text = (await outbox.textContent().catch(() => "")) ?? "";
+      if (/commented on/.test(text) && /replied to your comment/.test(text) && (text.match(/delivered/g) ?? []).length >= 2) break;
+      await admin.waitForTimeout(1000);
+      await admin.reload();
+    }
+    const text = (await outbox.textContent()) ?? "";
+    expect(text).toMatch(/commented on Three sites/);
+    expect(text).toMatch(/replied to your comment/);
+    await screenshot(admin, "outbox");
+    await admin.close();
+  });
+});
