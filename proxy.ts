@@ -1,21 +1,52 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { SESSION_COOKIE } from "@/lib/auth/session-options";
 
+const PUBLIC = [/^\/sign-in(\/|$)/, /^\/invitations\//];
+
+/** A fresh nonce per page: Next puts it on its own scripts, and nothing else may run. */
+function contentSecurityPolicy(nonce: string): string {
+  const dev = process.env.NODE_ENV !== "production";
+  return [
+    "default-src 'self'",
+    `script-src 'self' 'nonce-${nonce}' 'strict-dynamic'${dev ? " 'unsafe-eval'" : ""}`,
+    // Chart libraries set style attributes; styles cannot run code.
+    "style-src 'self' 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "font-src 'self'",
+    "connect-src 'self'",
+    "frame-ancestors 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "object-src 'none'",
+  ].join("; ");
+}
+
 /**
- * Only a convenience redirect for signed-out visitors to pages. It proves nothing: every page,
- * server action and route handler checks the session and the record itself.
+ * Sets the page's Content-Security-Policy, and redirects signed-out visitors to the sign-in page as a
+ * convenience. It proves nothing about access: every page, server action and route handler checks
+ * the session and the record itself.
  */
 export function proxy(req: NextRequest) {
-  if (!req.cookies.get(SESSION_COOKIE)) {
+  const nonce = btoa(crypto.randomUUID());
+  const csp = contentSecurityPolicy(nonce);
+  const isPublic = PUBLIC.some((p) => p.test(req.nextUrl.pathname));
+  let res: NextResponse;
+  if (!isPublic && !req.cookies.get(SESSION_COOKIE)) {
     const url = req.nextUrl.clone();
     url.pathname = "/sign-in";
     url.search = "";
-    return NextResponse.redirect(url);
+    res = NextResponse.redirect(url);
+  } else {
+    const headers = new Headers(req.headers);
+    headers.set("x-nonce", nonce);
+    headers.set("Content-Security-Policy", csp);
+    res = NextResponse.next({ request: { headers } });
   }
-  return NextResponse.next();
+  res.headers.set("Content-Security-Policy", csp);
+  return res;
 }
 
 export const config = {
-  // Pages only: the API answers 401 JSON itself; assets and the sign-in page pass.
-  matcher: ["/((?!api/|_next/|sign-in|invitations/|favicon.ico|icon.svg|fonts/).*)"],
+  // Pages only: the API answers JSON itself and static assets need no policy.
+  matcher: ["/((?!api/|_next/static|_next/image|favicon.ico|icon.svg).*)"],
 };

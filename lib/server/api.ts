@@ -30,6 +30,9 @@ export function errorResponse(err: unknown): Response {
     const body = errorBody(err.code, err.message, err.fields);
     return json(err.details ? { error: { ...body.error, ...err.details } } : body, { status: err.status });
   }
+  if ((err as { code?: string })?.code === "SQLITE_FULL") {
+    return jsonError(507, "storage-full", "The server's storage is full, so nothing was saved. Tell your administrator.");
+  }
   const id = crypto.randomUUID();
   console.error(`[api ${id}]`, err);
   return jsonError(500, "internal", `Something went wrong on our side (reference ${id}). Nothing was changed by the failed request.`);

@@ -1,0 +1,186 @@
+/** Data that is never lost: backups that restore, crash safety, a full disk, and migrations that keep rows. */
+import { spawn } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import SQLite from "better-sqlite3";
+import { Migrator } from "kysely";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { backupDatabase, integrityOk, restoreDatabase } from "@/db/backup";
+import { createKysely } from "@/db/connection";
+import { migrateToLatest } from "@/db/migrate";
+import { migrations } from "@/migrations";
+import { seedDemo } from "@/scripts/seed";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+
+const root = path.resolve(import.meta.dirname, "../..");
+let dir = "";
+let file = "";
+beforeAll(async () => {
+  ({ dir, file } = await useFreshDatabase());
+});
+afterAll(() => dropDatabase(dir));
+
+/** A consistent copy (the live file is in WAL mode, so copying the main file alone would miss pages). */
+async function copyDb(src: string, dst: string): Promise<void> {
+  const db = new SQLite(src);
+  await db.backup(dst);
+  db.close();
+}
+
+const count = (f: string, table: string) => {
+  const db = new SQLite(f, { readonly: true });
+  const n = (db.prepare(`select count(*) as n from ${table}`).get() as { n: number }).n;
+  db.close();
+  return n;
+};
+
+describe("backups", () => {
+  it("a backup taken while the app writes is consistent, checked, dated, and restores", async () => {
+    const writer = new SQLite(file);
+    writer.pragma("journal_mode = WAL");
+    const study = writer.prepare("select id, owner_id from studies").get() as { id: number; owner_id: number };
+    const insert = writer.prepare("insert into audit_log (at, user_id, action, entity) values (?, ?, 'write', 'during-backup')");
+    let writing = true;
+    const loop = (async () => {
+      while (writing) {
+        insert.run(new Date().toISOString(), study.owner_id);
+        await new Promise((r) => setImmediate(r));
+      }
+    })();
+    const backup = await backupDatabase(file, path.join(dir, "backups"));
+    writing = false;
+    await loop;
+    writer.close();
+    expect(path.basename(backup)).toMatch(/^delta-ledger-\d{8}-\d{6}\.sqlite$/);
+    expect(integrityOk(backup).ok).toBe(true);
+    const scenariosInBackup = count(backup, "scenarios");
+    expect(scenariosInBackup).toBeGreaterThan(0);
+    const restored = path.join(dir, "restored.sqlite");
+    fs.writeFileSync(restored, "");
+    restoreDatabase(backup, restored);
+    expect(count(restored, "scenarios")).toBe(scenariosInBackup);
+    expect(count(restored, "users")).toBe(count(file, "users"));
+  });
+  it("refuses to restore a damaged or foreign file, and leaves the database alone", async () => {
+    const target = path.join(dir, "keep.sqlite");
+    await copyDb(file, target);
+    const junk = path.join(dir, "junk.sqlite");
+    fs.writeFileSync(junk, "this is not a database at all, just text".repeat(100));
+    expect(() => restoreDatabase(junk, target)).toThrow();
+    const foreign = path.join(dir, "foreign.sqlite");
+    const f = new SQLite(foreign);
+    f.exec("create table t (x)");
+    f.close();
+    expect(() => restoreDatabase(foreign, target)).toThrow(/not a Delta Ledger database/);
+    expect(count(target, "scenarios")).toBe(count(file, "scenarios"));
+  });
+});
+
+describe("crash safety", () => {
+  it("a writer killed with SIGKILL at random moments leaves a sound database with whole scenarios only", async () => {
+    const crashDb = path.join(dir, "crash.sqlite");
+    await copyDb(file, crashDb);
+    const tsx = path.join(root, "node_modules", ".bin", "tsx");
+    for (let round = 0; round < 5; round++) {
+      const child = spawn(tsx, ["--tsconfig", path.join(root, "tsconfig.json"), path.join(root, "tests/support/crash-writer.ts"), crashDb], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
+      await new Promise<void>((resolve, reject) => {
+        child.stdout.on("data", (d: Buffer) => d.toString().includes("ready") && resolve());
+        child.once("exit", (code) => reject(new Error(`writer exited early (${code})`)));
+      });
+      await new Promise((r) => setTimeout(r, 50 + Math.floor(Math.random() * 250)));
+      child.kill("SIGKILL");
+      await new Promise((r) => child.once("exit", r));
+      expect(integrityOk(crashDb), `round ${round}`).toEqual({ ok: true, detail: "ok" });
+      const db = new SQLite(crashDb, { readonly: true });
+      const orphans = db
+        .prepare(
+          `select count(*) as n from scenarios s where s.name like 'crash-%' and not exists (select 1 from audit_log a where a.entity = 'scenario' and a.entity_id = cast(s.id as text) and a.field = 'crash-test')`,
+        )
+        .get() as { n: number };
+      const ghosts = db
+        .prepare(`select count(*) as n from audit_log a where a.field = 'crash-test' and not exists (select 1 from scenarios s where cast(s.id as text) = a.entity_id)`)
+        .get() as { n: number };
+      const written = db.prepare(`select count(*) as n from scenarios where name like 'crash-%'`).get() as { n: number };
+      db.close();
+      expect(orphans.n, `round ${round}`).toBe(0);
+      expect(ghosts.n, `round ${round}`).toBe(0);
+      expect(written.n).toBeGreaterThan(0);
+    }
+  }, 120_000);
+});
+
+describe("a full disk", () => {
+  it("a write that does not fit fails clearly, rolls back, and leaves the database intact", async () => {
+    const small = path.join(dir, "small.sqlite");
+    await copyDb(file, small);
+    const before = count(small, "scenarios");
+    // A size limit just above the current size stands in for a tiny filesystem.
+    const raw = new SQLite(small);
+    const current = raw.pragma("page_count", { simple: true }) as number;
+    raw.close();
+    const limited = new SQLite(small);
+    limited.pragma(`max_page_count = ${current + 2}`);
+    const study = limited.prepare("select id, owner_id from studies").get() as { id: number; owner_id: number };
+    const edition = limited.prepare("select id from rate_book_editions").get() as { id: number };
+    const big = "x".repeat(200_000);
+    const write = limited.transaction(() => {
+      limited.prepare("insert into audit_log (at, action, entity) values ('now', 'before-full', 'x')").run();
+      limited.prepare("insert into scenarios (study_id, name, inputs_json, results_json, rate_edition_id, created_by) values (?, 'too big', ?, ?, ?, ?)").run(study.id, big, big, edition.id, study.owner_id);
+    });
+    let code = "";
+    try {
+      write();
+    } catch (err) {
+      code = (err as { code?: string }).code ?? "";
+    }
+    limited.close();
+    expect(code).toBe("SQLITE_FULL");
+    expect(integrityOk(small).ok).toBe(true);
+    expect(count(small, "scenarios")).toBe(before);
+    const check = new SQLite(small, { readonly: true });
+    expect((check.prepare("select count(*) as n from audit_log where action = 'before-full'").get() as { n: number }).n).toBe(0);
+    check.close();
+  });
+  it("the API answers a full disk with a clear 507, never a stack trace", async () => {
+    const { errorResponse } = await import("@/lib/server/api");
+    const res = errorResponse(Object.assign(new Error("database or disk is full"), { code: "SQLITE_FULL" }));
+    expect(res.status).toBe(507);
+    expect((await res.json()).error.message).toMatch(/storage is full, so nothing was saved/);
+  });
+});
+
+describe("migrations keep every row", () => {
+  const names = Object.keys(migrations);
+  for (let k = 1; k < names.length; k++) {
+    it(`from ${names[k - 1]} to the latest`, async () => {
+      const f = path.join(dir, `m-${k}.sqlite`);
+      const db = createKysely(f);
+      const migrator = new Migrator({ db, provider: { getMigrations: async () => migrations } });
+      const step = await migrator.migrateTo(names[k - 1]!);
+      expect(step.error).toBeUndefined();
+      // Rows in every table that exists at this version.
+      await db.insertInto("institutions").values({ name: "Invented Institute" }).execute();
+      await db.insertInto("users").values({ institution_id: 1, email: "a@demo.test", name: "A", role: "investigator", password_hash: "scrypt$1$1$1$a$b", updated_at: "now" }).execute();
+      await db.insertInto("studies").values({ institution_id: 1, code: "KEEP-1", title: "Kept", sponsor: "S", sponsor_cap: "1000.00", start_date: "2027-01-01", owner_id: 1, updated_at: "now" }).execute();
+      await db.insertInto("study_members").values({ study_id: 1, user_id: 1, study_role: "investigator" }).execute();
+      await db.insertInto("audit_log").values({ at: "now", user_id: 1, action: "create", entity: "study" }).execute();
+      const tables = ["institutions", "users", "studies", "study_members", "audit_log"];
+      const before = Object.fromEntries(await Promise.all(tables.map(async (t) => [t, JSON.stringify(await db.selectFrom(t as "users").selectAll().execute())])));
+      await migrateToLatest(db);
+      for (const t of tables) expect(JSON.stringify(await db.selectFrom(t as "users").selectAll().execute()), t).toBe(before[t]);
+      await db.destroy();
+    });
+  }
+  it("a database with the full demo data migrates again as a no-op", async () => {
+    const f = path.join(dir, "demo.sqlite");
+    const db = createKysely(f);
+    await migrateToLatest(db);
+    await seedDemo(db);
+    const n = await db.selectFrom("scenarios").select((e) => e.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+    const again = await migrateToLatest(db);
+    expect(again.results).toEqual([]);
+    expect((await db.selectFrom("scenarios").select((e) => e.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n).toBe(n.n);
+    await db.destroy();
+  });
+});
