@@ -84,7 +84,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
       <section className="card" aria-labelledby="sensitivity">
         <h2 id="sensitivity">Sensitivity</h2>
         <p className="text-sm text-ink-soft">Each assumption moved over a plausible range; sorted by how much it moves the total.</p>
-        <div className="mt-2 h-48" aria-hidden="true">
+        <div className="mt-2 h-48" role="img" aria-label="Bar chart of how much each assumption moves the total cost; the table below has the numbers.">
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={bars} layout="vertical" margin={{ left: 20, right: 20 }}>
               <CartesianGrid stroke="#e5e0d3" />
