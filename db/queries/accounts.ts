@@ -62,6 +62,8 @@ export async function changeRole(actor: Actor, userId: number, role: AccountRole
     await trx.updateTable("users").set({ role, updated_at: new Date().toISOString() }).where("id", "=", userId).execute();
     await writeAudit(trx, [{ userId: actor.id, action: "update", entity: "user", entityId: userId, field: "role", oldValue: user.role, newValue: role }]);
   });
+  // A new role means a new sign-in: cookies issued under the old role stop working.
+  await deleteSessionsOfUser(userId);
 }
 
 export async function setAccountActive(actor: Actor, userId: number, active: boolean): Promise<void> {

@@ -99,11 +99,13 @@ describe("sign-in over the API", () => {
     await setAccountActive(admin, await userId("finance@demo.test"), true);
   });
 
-  it("a role change applies to the next request of an open session", async () => {
+  it("a role change ends the open sessions: a cookie from before is refused, a new sign-in has the new role", async () => {
     const cookie = await signInAs(sessionRoute, "finance@demo.test");
     const admin = { id: await userId("admin@demo.test"), role: "admin" as const };
     await changeRole(admin, await userId("finance@demo.test"), "grants-officer");
-    const who = await (await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).json();
+    expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(401);
+    const fresh = await signInAs(sessionRoute, "finance@demo.test");
+    const who = await (await sessionRoute.GET(request("GET", "/api/v1/session", { cookie: fresh }))).json();
     expect(who.user.role).toBe("grants-officer");
     await changeRole(admin, await userId("finance@demo.test"), "finance");
     const audit = await getDb().selectFrom("audit_log").selectAll().where("field", "=", "role").execute();

@@ -1,0 +1,131 @@
+/**
+ * Random and hostile JSON against the power API, the scenario routes and the rate-book PATCH
+ * (fast-check): every answer is a 2xx or a 4xx JSON error, never a 5xx or a NaN, and a 4xx changes nothing.
+ */
+import fc from "fast-check";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import * as powerRoute from "@/app/api/v1/power/route";
+import * as scenariosRoute from "@/app/api/v1/studies/[studyId]/scenarios/route";
+import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
+import * as editionsRoute from "@/app/api/v1/rate-book/editions/route";
+import * as editionRoute from "@/app/api/v1/rate-book/editions/[editionId]/route";
+import { DEMO_SCENARIOS } from "@/scripts/demo-data";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+import { params, request, signInAs } from "../support/http";
+
+let dir = "";
+const c: Record<string, string> = {};
+let studyId = 0;
+let scenarioId = 0;
+let draftId = 0;
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+  for (const who of ["pi", "grants"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
+  studyId = (await getDb().selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
+  scenarioId = (await getDb().selectFrom("scenarios").select("id").where("state", "=", "draft").executeTakeFirstOrThrow()).id;
+  const res = await editionsRoute.POST(request("POST", "/x", { cookie: c.grants, body: { label: "Fuzz draft", effectiveDate: "2029-01-01" } }));
+  draftId = (await res.json()).id;
+});
+afterAll(() => dropDatabase(dir));
+
+const hostile = fc.oneof(
+  fc.constantFrom(null, true, false, 0, -1, 1e308, -1e308, Number.MAX_SAFE_INTEGER, 1e-320, "", " ", "NaN", "Infinity", "-0", "0x10", "1e999", "__proto__", "constructor", "<script>", "=1+1", "\u0000", "😀".repeat(50)),
+  fc.double(),
+  fc.integer(),
+  fc.string({ maxLength: 40 }),
+  fc.jsonValue({ maxDepth: 2 }),
+);
+
+const noNaN = (text: string) => !/\bNaN\b|Infinity/.test(text.replace(/"[^"]*"/g, '""'));
+
+async function check(res: Response, allow2xx = true): Promise<{ status: number; body: unknown }> {
+  expect(res.status).toBeLessThan(500);
+  expect(res.headers.get("content-type")).toMatch(/application\/json/);
+  const text = await res.text();
+  expect(noNaN(text), text.slice(0, 200)).toBe(true);
+  const body = JSON.parse(text);
+  if (res.status >= 400) expect(body.error && typeof body.error.message === "string" && typeof body.error.code === "string").toBe(true);
+  else expect(allow2xx).toBe(true);
+  return { status: res.status, body };
+}
+
+const snapshot = async () =>
+  JSON.stringify(
+    await Promise.all([
+      getDb().selectFrom("scenarios").selectAll().orderBy("id").execute(),
+      getDb().selectFrom("rate_book_editions").selectAll().orderBy("id").execute(),
+      getDb().selectFrom("rate_book_fringe").selectAll().orderBy("id").execute(),
+      getDb().selectFrom("rate_book_procedures").selectAll().orderBy("id").execute(),
+    ]),
+  );
+
+describe("fuzzing", () => {
+  it("POST /api/v1/power: random designs and values", async () => {
+    const designs = fc.constantFrom("two-means", "one-mean", "two-proportions", "cluster-two-means", "cluster-two-proportions", "time-to-event", "bogus", 7);
+    const keys = ["alpha", "sides", "power", "n1", "n2", "effectSize", "meanDifference", "sd", "p1", "p2", "hazardRatio", "clustersPerArm", "clusterSize", "icc", "cv", "allocationRatio", "attrition", "screenFailure", "method", "direction", "controlMedian", "accrualMonths", "followUpMonths", "pilotSd"];
+    const plausible = fc.oneof(fc.double({ min: 0.0001, max: 0.9999, noNaN: true }), fc.integer({ min: 1, max: 500 }), hostile);
+    await fc.assert(
+      fc.asyncProperty(designs, fc.dictionary(fc.constantFrom(...keys), plausible, { maxKeys: 8 }), async (design, rest) => {
+        const res = await powerRoute.POST(request("POST", "/api/v1/power", { cookie: c.pi, body: { design, ...rest } }));
+        const { status, body } = await check(res);
+        if (status === 200) {
+          const r = body as { n1: number; power: number; nTotal: number };
+          expect(Number.isFinite(r.n1) && Number.isFinite(r.power) && Number.isFinite(r.nTotal)).toBe(true);
+          expect(r.power).toBeGreaterThanOrEqual(0);
+          expect(r.power).toBeLessThanOrEqual(1);
+        }
+      }),
+      { numRuns: 400 },
+    );
+  }, 120_000);
+
+  it("POST /api/v1/power: arbitrary JSON bodies", async () => {
+    await fc.assert(
+      fc.asyncProperty(fc.jsonValue({ maxDepth: 3 }), async (body) => {
+        await check(await powerRoute.POST(request("POST", "/api/v1/power", { cookie: c.pi, body: JSON.stringify(body) })));
+      }),
+      { numRuns: 200 },
+    );
+  }, 60_000);
+
+  it("scenario create and PATCH: mutated inputs", async () => {
+    const base = DEMO_SCENARIOS[0]!.inputs;
+    const paths: [string, string][] = [
+      ["design", "alpha"], ["design", "power"], ["design", "meanDifference"], ["design", "sd"], ["design", "design"], ["design", "allocationRatio"],
+      ["recruitment", "sites"], ["recruitment", "attrition"], ["recruitment", "screenFailure"], ["recruitment", "ratePerSiteMonth"], ["recruitment", "startupMonths"], ["recruitment", "maxEnrolmentMonths"],
+    ];
+    await fc.assert(
+      fc.asyncProperty(fc.array(fc.tuple(fc.constantFrom(...paths), hostile), { minLength: 1, maxLength: 3 }), fc.boolean(), async (mutations, viaPatch) => {
+        const inputs = structuredClone(base) as unknown as Record<string, Record<string, unknown>>;
+        for (const [[section, key], value] of mutations) inputs[section]![key] = value;
+        const before = await snapshot();
+        let res: Response;
+        if (viaPatch) {
+          const { scenario } = await (await scenarioRoute.GET(request("GET", "/x", { cookie: c.pi }), params({ scenarioId: String(scenarioId) }))).json();
+          res = await scenarioRoute.PATCH(request("PATCH", "/x", { cookie: c.pi, body: { version: scenario.version, inputs } }), params({ scenarioId: String(scenarioId) }));
+        } else {
+          res = await scenariosRoute.POST(request("POST", "/x", { cookie: c.pi, body: { name: "Fuzzed", inputs } }), params({ studyId: String(studyId) }));
+        }
+        const { status } = await check(res);
+        if (status >= 400) expect(await snapshot()).toBe(before);
+      }),
+      { numRuns: 60 },
+    );
+  }, 180_000);
+
+  it("PATCH a draft rate-book edition: hostile patches", async () => {
+    const settings = fc.dictionary(fc.constantFrom("faRate", "faBase", "salaryCap", "mtdcSubawardThreshold", "monitoringVisitsPerYear", "escalationCosts", "nonsense"), hostile, { maxKeys: 3 });
+    await fc.assert(
+      fc.asyncProperty(settings, fc.option(fc.array(fc.record({ id: fc.oneof(fc.integer(), hostile), version: fc.oneof(fc.integer(), hostile), rate: hostile }), { maxLength: 2 })), fc.boolean(), async (s, fringe, withVersion) => {
+        const { edition } = await (await editionRoute.GET(request("GET", "/x", { cookie: c.grants }), params({ editionId: String(draftId) }))).json();
+        const before = await snapshot();
+        const body = { ...(withVersion ? { version: edition.version } : {}), settings: s, ...(fringe ? { fringe } : {}) };
+        const { status } = await check(await editionRoute.PATCH(request("PATCH", "/x", { cookie: c.grants, body }), params({ editionId: String(draftId) })));
+        if (status >= 400) expect(await snapshot()).toBe(before);
+      }),
+      { numRuns: 150 },
+    );
+  }, 120_000);
+});
