@@ -14,7 +14,18 @@ export default defineConfig({
       { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
       {
         resolve: { alias },
-        test: { name: "integration", include: ["tests/integration/**/*.test.ts"], environment: "node", testTimeout: 30_000, pool: "forks" },
+        test: {
+          name: "integration",
+          include: ["tests/integration/**/*.test.ts"],
+          environment: "node",
+          testTimeout: 30_000,
+          hookTimeout: 20_000,
+          // One file at a time: LibreOffice, the crash writer and the SMTP server are heavy on two cores, and a
+          // worker that lingers after its file (seen when files ran side by side) is not waited for.
+          pool: "forks",
+          fileParallelism: false,
+          teardownTimeout: 5_000,
+        },
       },
       {
         resolve: { alias },

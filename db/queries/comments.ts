@@ -1,7 +1,7 @@
 import "server-only";
 import { getDb } from "@/db";
 import { enforce, forbidden, HttpError, notFound } from "@/lib/auth/errors";
-import { decide, type Actor } from "@/lib/auth/permissions";
+import { decide, roleMay, type Actor } from "@/lib/auth/permissions";
 import { commentMail } from "@/lib/mail/templates";
 import { appUrl } from "@/lib/mail/transport";
 import { membershipOf } from "./studies";
@@ -23,6 +23,7 @@ export type CommentView = {
 };
 
 async function scenarioFor(actor: Actor, scenarioId: number, action: "scenario.view" | "scenario.comment") {
+  if (!roleMay(actor, action)) throw forbidden();
   const s = Number.isSafeInteger(scenarioId)
     ? await getDb()
         .selectFrom("scenarios as s")

@@ -1,7 +1,7 @@
 import "server-only";
 import { getDb } from "@/db";
-import { enforce, HttpError, notFound } from "@/lib/auth/errors";
-import { decide, type Actor, type Membership } from "@/lib/auth/permissions";
+import { enforce, forbidden, HttpError, notFound } from "@/lib/auth/errors";
+import { decide, roleMay, type Actor, type Membership } from "@/lib/auth/permissions";
 import type { ScenarioState } from "@/lib/auth/roles";
 import { computeScenario, ScenarioError, type ScenarioResults, type StudyContext } from "@/lib/planning/compute";
 import { generateJustification } from "@/lib/planning/justification";
@@ -79,6 +79,8 @@ function summaryOf(r: NonNullable<Row> | { id: number; study_id: number; name: s
 
 /** Loads a scenario the actor may see (404 otherwise, alike for missing and hidden). */
 async function access(actor: Actor, id: number, action: Parameters<typeof decide>[1] = "scenario.view") {
+  // A role that may never take the action is refused before anything is looked up (403, not 404).
+  if (!roleMay(actor, action)) throw forbidden();
   const row = Number.isSafeInteger(id) ? await loadRow(id) : undefined;
   if (!row) {
     enforce(actor.role === "admin" ? "forbidden" : "not-found", "That scenario");

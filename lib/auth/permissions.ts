@@ -79,7 +79,8 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
     case "study.invite":
     case "scenario.edit":
     case "scenario.submit": {
-      if (role !== "investigator" && role !== "co-investigator") return "forbidden";
+      // Only investigators own studies; a co-investigator account never edits, submits or invites.
+      if (role !== "investigator") return "forbidden";
       const seen = studyVisibility(actor, ctx.membership ?? null);
       if (seen !== "allow") return seen;
       return owner ? "allow" : "forbidden";

@@ -81,9 +81,9 @@ describe("crash safety", () => {
   it("a writer killed with SIGKILL at random moments leaves a sound database with whole scenarios only", async () => {
     const crashDb = path.join(dir, "crash.sqlite");
     await copyDb(file, crashDb);
-    const tsx = path.join(root, "node_modules", ".bin", "tsx");
     for (let round = 0; round < 5; round++) {
-      const child = spawn(tsx, ["--tsconfig", path.join(root, "tsconfig.json"), path.join(root, "tests/support/crash-writer.ts"), crashDb], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
+      // One process (node with tsx's loader, not the tsx wrapper), so SIGKILL hits the writer itself.
+      const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "tests/support/crash-writer.ts"), crashDb], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
       await new Promise<void>((resolve, reject) => {
         child.stdout.on("data", (d: Buffer) => d.toString().includes("ready") && resolve());
         child.once("exit", (code) => reject(new Error(`writer exited early (${code})`)));

@@ -1,0 +1,156 @@
+/**
+ * The authorization matrix: every route × every role × own and other study, with the expected answer
+ * derived from DESIGN.md's roles table (tests/fixtures/design-roles-table.md), and the database
+ * unchanged on every refusal.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import { createAccount } from "@/db/queries/accounts";
+import { createScenario } from "@/db/queries/scenarios";
+import { createStudy } from "@/db/queries/studies";
+import { DEMO_SCENARIOS } from "@/scripts/demo-data";
+import type { RouteModule } from "../support/http";
+import { params, request, signInAs } from "../support/http";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+import * as sessionRoute from "@/app/api/v1/session/route";
+
+const table = fs.readFileSync(path.join(__dirname, "../fixtures/design-roles-table.md"), "utf8");
+const rows = new Map(
+  table
+    .split("\n")
+    .filter((l) => l.startsWith("|") && !l.startsWith("|---") && !l.startsWith("| action"))
+    .map((l) => l.split("|").slice(1, -1).map((c) => c.trim()))
+    .map(([label, ...cells]) => [label!, cells]),
+);
+const COLUMN = { admin: 0, investigator: 1, "co-investigator": 2, "grants-officer": 3, finance: 4 } as const;
+type Role = keyof typeof COLUMN;
+type Row = "see a study and its scenarios" | "create, edit, clone, delete a draft scenario" | "comment on a scenario" | "submit a scenario for review" | "return or clear a scenario" | "edit and publish rate-book editions, import a rate sheet" | "read the rate book" | "download a workbook" | "create a study, invite members";
+
+/** One cell: 403 where it is empty; 404 where the role may act but not on this record; else allowed. */
+function cellOutcome(role: Role, member: boolean, row: Row, state?: string): "allow" | 403 | 404 {
+  const cell = rows.get(row)![COLUMN[role]] ?? "";
+  if (cell === "") return 403;
+  const studyBound = row !== "read the rate book" && row !== "edit and publish rate-book editions, import a rate sheet";
+  if (studyBound && (role === "investigator" || role === "co-investigator") && !member) return 404;
+  if (/in-review and cleared/.test(cell) && state && !["in-review", "cleared"].includes(state) && row !== "create a study, invite members") return 404;
+  return "allow";
+}
+
+/**
+ * A role whose cell is empty is refused (403) whatever the record; otherwise a record the role may not
+ * see answers 404, as the "see" row says; then the action's own cell decides.
+ */
+function expected(role: Role, member: boolean, row: Row, state?: string): "allow" | 403 | 404 {
+  if ((rows.get(row)![COLUMN[role]] ?? "") === "") return 403;
+  const studyBound = row !== "read the rate book" && row !== "edit and publish rate-book editions, import a rate sheet";
+  if (studyBound && row !== "see a study and its scenarios") {
+    const seen = cellOutcome(role, member, "see a study and its scenarios", state);
+    if (seen !== "allow") return seen;
+  }
+  return cellOutcome(role, member, row, state);
+}
+
+type Actor = { key: string; role: Role; memberOfA: boolean };
+const ACTORS: Actor[] = [
+  { key: "admin", role: "admin", memberOfA: false },
+  { key: "pi", role: "investigator", memberOfA: true },
+  { key: "coi", role: "co-investigator", memberOfA: true },
+  { key: "grants", role: "grants-officer", memberOfA: false },
+  { key: "finance", role: "finance", memberOfA: false },
+  { key: "other", role: "investigator", memberOfA: false },
+];
+
+let dir = "";
+const cookies: Record<string, string> = {};
+const ids: Record<string, number> = {};
+
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+  const db = getDb();
+  const uid = async (email: string) => (await db.selectFrom("users").select("id").where("email", "=", email).executeTakeFirstOrThrow()).id;
+  await createAccount({ id: await uid("admin@demo.test"), role: "admin" }, { email: "other@demo.test", name: "Dr Invented Other", role: "investigator", password: "demo-pass-2026" });
+  for (const a of ACTORS) cookies[a.key] = await signInAs(sessionRoute, `${a.key}@demo.test`);
+  ids.studyA = (await db.selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
+  ids.studyB = await createStudy({ id: await uid("other@demo.test"), role: "investigator" }, { code: "OTHER-1", title: "Another invented study", sponsor: "Invented Fund", startDate: "2028-01-01" });
+  const scen = await db.selectFrom("scenarios").select(["id", "state"]).orderBy("id").execute();
+  ids.draftA = scen.find((s) => s.state === "draft")!.id;
+  ids.reviewA = scen.find((s) => s.state === "in-review")!.id;
+  ids.draftB = await createScenario({ id: await uid("other@demo.test"), role: "investigator" }, ids.studyB, { name: "B draft", inputs: DEMO_SCENARIOS[0]!.inputs });
+  ids.edition = (await db.selectFrom("rate_book_editions").select("id").executeTakeFirstOrThrow()).id;
+});
+afterAll(() => dropDatabase(dir));
+
+const snapshot = async () =>
+  JSON.stringify(
+    await Promise.all(
+      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "outbox", "users"].map(async (t) =>
+        (await getDb().selectFrom(t as "users").selectAll().execute()).map((r) => JSON.stringify(r)).sort(),
+      ),
+    ),
+  );
+
+type Case = {
+  name: string;
+  mod: () => Promise<RouteModule>;
+  method: "GET" | "POST" | "PATCH" | "DELETE";
+  params: () => Record<string, string>;
+  body?: () => unknown;
+  row: Row;
+  study: "A" | "B" | null;
+  state?: string;
+  /** Cases that change data run their allowed roles after every refusal was checked. */
+  mutates?: boolean;
+};
+
+const sc = (k: string) => () => ({ scenarioId: String(ids[k]) });
+const st = (k: string) => () => ({ studyId: String(ids[k]) });
+const CASES: Case[] = [
+  { name: "GET study A", mod: () => import("@/app/api/v1/studies/[studyId]/route"), method: "GET", params: st("studyA"), row: "see a study and its scenarios", study: "A" },
+  { name: "GET study B", mod: () => import("@/app/api/v1/studies/[studyId]/route"), method: "GET", params: st("studyB"), row: "see a study and its scenarios", study: "B" },
+  { name: "GET study A scenarios", mod: () => import("@/app/api/v1/studies/[studyId]/scenarios/route"), method: "GET", params: st("studyA"), row: "see a study and its scenarios", study: "A" },
+  { name: "GET draft of A", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/route"), method: "GET", params: sc("draftA"), row: "see a study and its scenarios", study: "A", state: "draft" },
+  { name: "GET in-review of A", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/route"), method: "GET", params: sc("reviewA"), row: "see a study and its scenarios", study: "A", state: "in-review" },
+  { name: "GET draft of B", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/route"), method: "GET", params: sc("draftB"), row: "see a study and its scenarios", study: "B", state: "draft" },
+  { name: "GET curve of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/curve/route"), method: "GET", params: sc("draftA"), row: "see a study and its scenarios", study: "A", state: "draft" },
+  { name: "GET comments of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/comments/route"), method: "GET", params: sc("draftA"), row: "see a study and its scenarios", study: "A", state: "draft" },
+  { name: "POST comment on A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/comments/route"), method: "POST", params: sc("draftA"), body: () => ({ body: "matrix" }), row: "comment on a scenario", study: "A", state: "draft", mutates: true },
+  { name: "POST comment on B draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/comments/route"), method: "POST", params: sc("draftB"), body: () => ({ body: "matrix" }), row: "comment on a scenario", study: "B", state: "draft", mutates: true },
+  { name: "GET workbook of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/workbook/route"), method: "GET", params: sc("draftA"), row: "download a workbook", study: "A", state: "draft" },
+  { name: "GET workbook of A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/workbook/route"), method: "GET", params: sc("reviewA"), row: "download a workbook", study: "A", state: "in-review" },
+  { name: "POST scenario to A", mod: () => import("@/app/api/v1/studies/[studyId]/scenarios/route"), method: "POST", params: st("studyA"), body: () => ({ name: "Matrix", inputs: DEMO_SCENARIOS[0]!.inputs }), row: "create, edit, clone, delete a draft scenario", study: "A", mutates: true },
+  { name: "PATCH A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/route"), method: "PATCH", params: sc("draftA"), body: () => ({ version: 1, name: "Renamed by matrix" }), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft", mutates: true },
+  { name: "POST clone of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/clone/route"), method: "POST", params: sc("draftA"), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft", mutates: true },
+  { name: "POST clone of B draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/clone/route"), method: "POST", params: sc("draftB"), row: "create, edit, clone, delete a draft scenario", study: "B", state: "draft", mutates: true },
+  { name: "POST submit A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("draftA"), body: () => ({ action: "submit" }), row: "submit a scenario for review", study: "A", state: "draft", mutates: true },
+  { name: "POST clear A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("reviewA"), body: () => ({ action: "clear" }), row: "return or clear a scenario", study: "A", state: "in-review", mutates: true },
+  { name: "POST invitation to A", mod: () => import("@/app/api/v1/studies/[studyId]/invitations/route"), method: "POST", params: st("studyA"), body: () => ({ email: "matrix@demo.test" }), row: "create a study, invite members", study: "A", mutates: true },
+  { name: "GET rate-book editions", mod: () => import("@/app/api/v1/rate-book/editions/route"), method: "GET", params: () => ({}), row: "read the rate book", study: null },
+  { name: "POST rate-book draft", mod: () => import("@/app/api/v1/rate-book/editions/route"), method: "POST", params: () => ({}), body: () => ({ label: "Matrix draft", effectiveDate: "2030-01-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null, mutates: true },
+  { name: "PATCH published edition", mod: () => import("@/app/api/v1/rate-book/editions/[editionId]/route"), method: "PATCH", params: () => ({ editionId: String(ids.edition) }), body: () => ({ version: 1, settings: { faRate: "0.9" } }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
+];
+
+describe("authorization matrix from DESIGN.md's roles table", () => {
+  for (const cs of CASES) {
+    it(cs.name, async () => {
+      const mod = await cs.mod();
+      const handler = mod[cs.method]!;
+      const outcome = (a: Actor) => expected(a.role, cs.study === "A" ? a.memberOfA : cs.study === "B" ? a.key === "other" : true, cs.row, cs.state);
+      // Refusals first: each must leave the database as it was.
+      for (const a of ACTORS.filter((x) => outcome(x) !== "allow")) {
+        const before = await snapshot();
+        const res = await handler(request(cs.method, "/api/v1/matrix", { cookie: cookies[a.key], body: cs.body?.() }), params(cs.params()));
+        expect(res.status, `${a.key}`).toBe(outcome(a));
+        expect(await snapshot(), `${a.key} changed the database`).toBe(before);
+      }
+      // Then the roles the table allows: never refused on permission grounds (a state conflict may follow a change).
+      const allowed = ACTORS.filter((x) => outcome(x) === "allow");
+      for (const a of cs.mutates ? allowed.slice(0, 1) : allowed) {
+        const res = await handler(request(cs.method, "/api/v1/matrix", { cookie: cookies[a.key], body: cs.body?.() }), params(cs.params()));
+        expect([403, 404], `${a.key} answered ${res.status}`).not.toContain(res.status);
+        expect(res.status, `${a.key}`).toBeLessThan(500);
+      }
+    });
+  }
+});
