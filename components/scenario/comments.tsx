@@ -2,19 +2,10 @@
 
 import { createContext, Fragment, useContext, useState, type ReactNode } from "react";
 import useSWR, { useSWRConfig } from "swr";
+import type { CommentView } from "@/db/queries/comments";
 import { ASSUMPTION_FIELDS } from "@/lib/planning/assumption-fields";
 
-export type CommentView = {
-  id: number;
-  parentId: number | null;
-  field: string | null;
-  author: { id: number; name: string };
-  body: string;
-  resolved: boolean;
-  removed: boolean;
-  createdAt: string;
-  mine: boolean;
-};
+export type { CommentView };
 
 const fetcher = async (url: string): Promise<CommentView[]> => {
   const res = await fetch(url);

@@ -53,6 +53,14 @@ function standardized(v: Parsed<"two-means" | "one-mean" | "cluster-two-means">)
   return { d, sdUsed, pilot };
 }
 
+/** The SD behind a standardized effect, and the pilot it came from, for the result. */
+function sdFields(d: number, sdUsed: number | undefined, pilot: ReturnType<typeof standardized>["pilot"]): Partial<PowerResult> {
+  return {
+    ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
+    ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+  };
+}
+
 function finish(
   v: ParsedPowerInput,
   core: Omit<PowerResult, "alpha" | "sides" | "warnings" | "funnel" | "nTotal" | "context"> & { context?: PowerResult["context"] },
@@ -102,8 +110,7 @@ function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
       effectSize: d,
       method: METHOD.twoMeans,
       context: effectContext("d", d),
-      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
-      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+      ...sdFields(d, sdUsed, pilot),
     },
     standardWarnings({ power, perGroup: [n1, n2], standardizedEffect: d }),
   );
@@ -139,8 +146,7 @@ function solveOneMean(v: Parsed<"one-mean">): PowerResult {
       effectSize: d,
       method: METHOD.oneMean,
       context: effectContext("d", d),
-      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
-      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+      ...sdFields(d, sdUsed, pilot),
     },
     standardWarnings({ power, perGroup: [n], standardizedEffect: d }),
   );
@@ -230,8 +236,7 @@ function solveClusterMeans(v: Parsed<"cluster-two-means">): PowerResult {
       method: METHOD.clusterMeans,
       context: effectContext("d", d),
       ...fields,
-      ...(sdUsed !== undefined ? { sdUsed, meanDifference: d * sdUsed } : {}),
-      ...(pilot ? { pilot: { sd: pilot.sd, n: pilot.n, confidence: pilot.confidence, upperLimit: pilot.upperLimit, inflation: pilot.inflation } } : {}),
+      ...sdFields(d, sdUsed, pilot),
     },
     standardWarnings({ power, perGroup: [fields.n1, fields.n2], clustersPerArm: [k1, k2], standardizedEffect: d }),
   );
