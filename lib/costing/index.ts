@@ -4,5 +4,5 @@ export { computeLedger, CostingError, type Ledger, type LedgerLine, type CapChec
 export { computeTimeline, sitesNeeded, budgetPeriods, allocate, TimelineError, type Period, type TimelineResult } from "./timeline";
 export { faBaseByLine, faBaseOfAmounts } from "./fa";
 export { approximateTotals, buildCostStructure, priceStructure, type CostStructure } from "./ledger";
-export { costAtEvaluable, largestAffordable, armsFor, type CostPlan, type CostAtN } from "./inverse";
+export { costAtEvaluable, largestAffordable, largestFitting, armsFor, type CostPlan, type CostAtN } from "./inverse";
 export { cents, escalationFactor, toCents, D } from "./money";

@@ -47,12 +47,18 @@ export function largestAffordable(budget: string, plan: CostPlan, rates: RateBoo
     const c = safeCost(n, plan, rates);
     return c && new D(c[measure]).lessThanOrEqualTo(limit) ? c : null;
   };
-  let lo = opts.min ?? 2;
+  return largestFitting(fits, opts.min ?? 2, opts.max ?? 1_000_000)?.value ?? null;
+}
+
+/**
+ * The largest n in [min, max] for which fits(n) returns a value, for a fit that holds up to some n and
+ * then no more (cost never falls as n rises): gallop up to a bound that does not fit, then bisect.
+ */
+export function largestFitting<T>(fits: (n: number) => T | null, min: number, max: number): { n: number; value: T } | null {
+  let lo = min;
   let best = fits(lo);
   if (!best) return null;
   let hi = lo * 2;
-  const max = opts.max ?? 1_000_000;
-  // Gallop up to a bound that does not fit, then bisect.
   while (hi <= max) {
     const c = fits(hi);
     if (!c) break;
@@ -69,7 +75,7 @@ export function largestAffordable(budget: string, plan: CostPlan, rates: RateBoo
       lo = mid;
     } else hi = mid;
   }
-  return best;
+  return { n: lo, value: best };
 }
 
 function safeCost(n: number, plan: CostPlan, rates: RateBook): CostAtN | null {

@@ -3,7 +3,7 @@
  * engine prices it with a rate-book edition, and the planner says what the sponsor's cap buys.
  */
 import Decimal from "decimal.js";
-import { buildCostStructure, computeLedger, priceStructure, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
+import { computeLedger, largestFitting, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
 import { buildFunnel } from "@/lib/power/funnel";
 import { solveParsed, powerInputSchema, quantityNames, type PowerResult } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
@@ -163,39 +163,19 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
 /** The largest sample the budget buys, with its sites, MDES and power at the target effect. */
 export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyContext, budget: string): CapBuys {
   const limit = new Decimal(budget);
-  const exactTotal = (n: number) => {
+  const fits = (n: number) => {
     try {
       const at = studyAt(i, study, n);
       if (!at) return null;
-      const ledger = priceStructure(buildCostStructure(at.cost, rates), at.cost, rates);
-      return { at, ledger };
+      const ledger = computeLedger(at.cost, rates);
+      return new Decimal(ledger.totals.total).lessThanOrEqualTo(limit) ? { at, ledger } : null;
     } catch {
       return null;
     }
   };
-  const fits = (n: number) => {
-    const r = exactTotal(n);
-    return r && new Decimal(r.ledger.totals.total).lessThanOrEqualTo(limit) ? r : null;
-  };
-  let lo = 2;
-  let best = fits(lo);
-  if (!best) return null;
-  let hi = 4;
-  while (hi <= 5_000_000) {
-    const r = fits(hi);
-    if (!r) break;
-    best = r;
-    lo = hi;
-    hi *= 2;
-  }
-  while (hi - lo > 1) {
-    const mid = Math.floor((lo + hi) / 2);
-    const r = fits(mid);
-    if (r) {
-      best = r;
-      lo = mid;
-    } else hi = mid;
-  }
+  const found = largestFitting(fits, 2, 5_000_000);
+  if (!found) return null;
+  const { n: lo, value: best } = found;
   const effect = effectOf(solveParsed(powerInput(i, "effect", lo)));
   return {
     n: lo,
