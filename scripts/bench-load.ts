@@ -1,0 +1,144 @@
+/**
+ * `npm run bench:load`: the production build on a loopback port, a fresh database with the demo data,
+ * and autocannon driving four signed-in routes at 1, 10 and 50 connections for a bounded time each.
+ * Then "long work does not block": workbook builds and 512-point curves run flat out while the power
+ * API and the scenario page are measured again, against the same targets.
+ *
+ * Targets (issue 8, on the 2-core machine): zero errors and zero 5xx at every level; power API
+ * p99 ≤ 50 ms at 50 connections; scenario page p99 ≤ 300 ms at 10; curve route p99 ≤ 100 ms at 10.
+ * Prints one row per run and a PASS/FAIL line per target; exits 1 on a miss.
+ *
+ * LOAD_SECONDS sets the length of each run (default 5); the whole bench takes about two minutes
+ * after the build.
+ */
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import autocannon from "autocannon";
+import Database from "better-sqlite3";
+import { migrate } from "./migrate";
+import { seed } from "./seed";
+import { buildIsStale, buildProduction, freeLoopbackPort, startProductionServer } from "./serve";
+
+const SECONDS = Number(process.env.LOAD_SECONDS ?? "5");
+
+type Target = { name: string; method: "GET" | "POST"; path: string; body?: string };
+type Row = { label: string; connections: number; rps: number; p50: number; p99: number; errors: number; non2xx: number; fivexx: number };
+
+const POWER_BODY = JSON.stringify({ design: "two-means", effectSize: 0.35, power: 0.8, alpha: 0.05 });
+
+async function run(baseUrl: string, cookie: string, t: Target, connections: number, label = t.name): Promise<Row> {
+  const result = await autocannon({
+    url: baseUrl + t.path,
+    method: t.method,
+    connections,
+    duration: SECONDS,
+    headers: { cookie, ...(t.body ? { "content-type": "application/json" } : {}) },
+    body: t.body,
+  });
+  return {
+    label,
+    connections,
+    rps: result.requests.average,
+    p50: result.latency.p50,
+    p99: result.latency.p99,
+    errors: result.errors + result.timeouts,
+    non2xx: result.non2xx,
+    fivexx: result["5xx"],
+  };
+}
+
+function print(rows: Row[]): void {
+  const head = ["run", "conns", "req/s", "p50 ms", "p99 ms", "errors", "non-2xx", "5xx"];
+  const body = rows.map((r) => [r.label, String(r.connections), r.rps.toFixed(0), r.p50.toFixed(1), r.p99.toFixed(1), String(r.errors), String(r.non2xx), String(r.fivexx)]);
+  const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
+  const line = (cells: string[]) => cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join("  ");
+  console.log(line(head));
+  for (const b of body) console.log(line(b));
+}
+
+async function main(): Promise<void> {
+  if (buildIsStale()) {
+    console.log("building the production bundle (sources are newer than the last build)…");
+    buildProduction();
+  }
+  const tmp = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-load-"));
+  const databasePath = path.join(tmp, "load.sqlite");
+  process.env.DEMO = "1";
+  await migrate(databasePath);
+  await seed(databasePath);
+  const ids = new Database(databasePath, { readonly: true });
+  const { scenarioId, studyId } = ids.prepare("select id as scenarioId, study_id as studyId from scenarios order by id limit 1").get() as { scenarioId: number; studyId: number };
+  ids.close();
+
+  const port = await freeLoopbackPort();
+  // Mail is not part of what is measured; the outbox sender stays off.
+  const server = await startProductionServer({
+    port,
+    env: { DATABASE_PATH: databasePath, SESSION_SECRET: "load-secret-0123456789-0123456789-0123456789", MAIL_AUTOSEND: "0", APP_URL: `http://127.0.0.1:${port}` },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+  const rows: Row[] = [];
+  const checks: { name: string; ok: boolean; detail: string }[] = [];
+  try {
+    const signIn = await fetch(`${server.baseUrl}/api/v1/session`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ email: "pi@demo.test", password: "demo-pass-2026" }),
+    });
+    if (signIn.status !== 200) throw new Error(`sign-in answered ${signIn.status}`);
+    const cookie = signIn.headers.get("set-cookie")!.split(";")[0]!;
+
+    const targets: Record<"power" | "page" | "curve" | "workbook" | "bigCurve", Target> = {
+      power: { name: "power API", method: "POST", path: "/api/v1/power", body: POWER_BODY },
+      page: { name: "scenario page", method: "GET", path: `/studies/${studyId}/scenarios/${scenarioId}` },
+      curve: { name: "curve route", method: "GET", path: `/api/v1/scenarios/${scenarioId}/curve` },
+      workbook: { name: "workbook route", method: "GET", path: `/api/v1/scenarios/${scenarioId}/workbook` },
+      bigCurve: { name: "curve route, 512 points", method: "GET", path: `/api/v1/scenarios/${scenarioId}/curve?points=512` },
+    };
+    // Warm-up: the first request to each route loads its code.
+    for (const t of Object.values(targets)) {
+      const res = await fetch(server.baseUrl + t.path, { method: t.method, headers: { cookie, "content-type": "application/json" }, body: t.body });
+      if (res.status !== 200) throw new Error(`${t.name} answered ${res.status} on warm-up`);
+      await res.arrayBuffer();
+    }
+
+    console.log(`\n${SECONDS} s per run, production build on ${server.baseUrl}, signed in as the investigator\n`);
+    for (const key of ["power", "page", "curve", "workbook"] as const) {
+      for (const c of [1, 10, 50]) rows.push(await run(server.baseUrl, cookie, targets[key], c));
+    }
+
+    // Long work beside short: workbooks and large curves flat out while the short routes are measured.
+    const [powerMixed, pageMixed, , ,] = await Promise.all([
+      run(server.baseUrl, cookie, targets.power, 50, "power API, beside long work"),
+      run(server.baseUrl, cookie, targets.page, 10, "scenario page, beside long work"),
+      run(server.baseUrl, cookie, targets.workbook, 2, "workbook route (long work)"),
+      run(server.baseUrl, cookie, targets.bigCurve, 2, "curve 512 points (long work)"),
+    ]).then((r) => {
+      rows.push(...r);
+      return r;
+    });
+    print(rows);
+
+    const find = (label: string, c: number) => rows.find((r) => r.label === label && r.connections === c)!;
+    const bad = rows.filter((r) => r.errors > 0 || r.non2xx > 0 || r.fivexx > 0);
+    checks.push({ name: "zero errors, non-2xx and 5xx in every run", ok: bad.length === 0, detail: bad.map((r) => `${r.label} @${r.connections}`).join(", ") || "none" });
+    const p99 = (name: string, row: Row, limit: number) => checks.push({ name, ok: row.p99 <= limit, detail: `p99 ${row.p99.toFixed(1)} ms (target ≤ ${limit})` });
+    p99("power API p99 at 50 connections", find("power API", 50), 50);
+    p99("scenario page p99 at 10 connections", find("scenario page", 10), 300);
+    p99("curve route p99 at 10 connections", find("curve route", 10), 100);
+    p99("power API p99 at 50 connections beside workbooks and 512-point curves", powerMixed!, 50);
+    p99("scenario page p99 at 10 connections beside workbooks and 512-point curves", pageMixed!, 300);
+  } finally {
+    await server.stop();
+    fs.rmSync(tmp, { recursive: true, force: true });
+  }
+  console.log("");
+  for (const c of checks) console.log(`${c.ok ? "PASS" : "FAIL"}  ${c.name}: ${c.detail}`);
+  if (checks.some((c) => !c.ok)) process.exit(1);
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});
