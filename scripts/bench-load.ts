@@ -6,7 +6,8 @@
  *
  * Targets (issue 8, on the 2-core machine): zero errors and zero 5xx at every level; power API
  * p99 ≤ 50 ms at 50 connections; scenario page p99 ≤ 300 ms at 10; curve route p99 ≤ 100 ms at 10.
- * Prints one row per run and a PASS/FAIL line per target; exits 1 on a miss.
+ * Prints one row per run and a PASS/FAIL line per target; exits 1 on a miss. The first rows, the
+ * smallest signed-in request, show the framework's own floor on the machine at hand.
  *
  * LOAD_SECONDS sets the length of each run (default 5); the whole bench takes about two minutes
  * after the build.
@@ -89,7 +90,9 @@ async function main(): Promise<void> {
     if (signIn.status !== 200) throw new Error(`sign-in answered ${signIn.status}`);
     const cookie = signIn.headers.get("set-cookie")!.split(";")[0]!;
 
-    const targets: Record<"power" | "page" | "curve" | "workbook" | "bigCurve", Target> = {
+    const targets: Record<"floor" | "power" | "page" | "curve" | "workbook" | "bigCurve", Target> = {
+      // The smallest signed-in request: the framework's routing plus the session check, for scale.
+      floor: { name: "session route (floor)", method: "GET", path: "/api/v1/session" },
       power: { name: "power API", method: "POST", path: "/api/v1/power", body: POWER_BODY },
       page: { name: "scenario page", method: "GET", path: `/studies/${studyId}/scenarios/${scenarioId}` },
       curve: { name: "curve route", method: "GET", path: `/api/v1/scenarios/${scenarioId}/curve` },
@@ -104,7 +107,7 @@ async function main(): Promise<void> {
     }
 
     console.log(`\n${SECONDS} s per run, production build on ${server.baseUrl}, signed in as the investigator\n`);
-    for (const key of ["power", "page", "curve", "workbook"] as const) {
+    for (const key of ["floor", "power", "page", "curve", "workbook"] as const) {
       for (const c of [1, 10, 50]) rows.push(await run(server.baseUrl, cookie, targets[key], c));
     }
 
