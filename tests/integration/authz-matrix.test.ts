@@ -3,8 +3,6 @@
  * derived from DESIGN.md's roles table (tests/fixtures/design-roles-table.md), and the database
  * unchanged on every refusal.
  */
-import fs from "node:fs";
-import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { createAccount } from "@/db/queries/accounts";
@@ -15,52 +13,7 @@ import type { RouteModule } from "../support/http";
 import { params, request, signInAs } from "../support/http";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import * as sessionRoute from "@/app/api/v1/session/route";
-
-const table = fs.readFileSync(path.join(__dirname, "../fixtures/design-roles-table.md"), "utf8");
-const rows = new Map(
-  table
-    .split("\n")
-    .filter((l) => l.startsWith("|") && !l.startsWith("|---") && !l.startsWith("| action"))
-    .map((l) => l.split("|").slice(1, -1).map((c) => c.trim()))
-    .map(([label, ...cells]) => [label!, cells]),
-);
-const COLUMN = { admin: 0, investigator: 1, "co-investigator": 2, "grants-officer": 3, finance: 4 } as const;
-type Role = keyof typeof COLUMN;
-type Row = "see a study and its scenarios" | "create, edit, clone, delete a draft scenario" | "comment on a scenario" | "submit a scenario for review" | "return or clear a scenario" | "edit and publish rate-book editions, import a rate sheet" | "read the rate book" | "download a workbook" | "create a study, invite members";
-
-/** One cell: 403 where it is empty; 404 where the role may act but not on this record; else allowed. */
-function cellOutcome(role: Role, member: boolean, row: Row, state?: string): "allow" | 403 | 404 {
-  const cell = rows.get(row)![COLUMN[role]] ?? "";
-  if (cell === "") return 403;
-  const studyBound = row !== "read the rate book" && row !== "edit and publish rate-book editions, import a rate sheet";
-  if (studyBound && (role === "investigator" || role === "co-investigator") && !member) return 404;
-  if (/in-review and cleared/.test(cell) && state && !["in-review", "cleared"].includes(state) && row !== "create a study, invite members") return 404;
-  return "allow";
-}
-
-/**
- * A role whose cell is empty is refused (403) whatever the record; otherwise a record the role may not
- * see answers 404, as the "see" row says; then the action's own cell decides.
- */
-function expected(role: Role, member: boolean, row: Row, state?: string): "allow" | 403 | 404 {
-  if ((rows.get(row)![COLUMN[role]] ?? "") === "") return 403;
-  const studyBound = row !== "read the rate book" && row !== "edit and publish rate-book editions, import a rate sheet";
-  if (studyBound && row !== "see a study and its scenarios") {
-    const seen = cellOutcome(role, member, "see a study and its scenarios", state);
-    if (seen !== "allow") return seen;
-  }
-  return cellOutcome(role, member, row, state);
-}
-
-type Actor = { key: string; role: Role; memberOfA: boolean };
-const ACTORS: Actor[] = [
-  { key: "admin", role: "admin", memberOfA: false },
-  { key: "pi", role: "investigator", memberOfA: true },
-  { key: "coi", role: "co-investigator", memberOfA: true },
-  { key: "grants", role: "grants-officer", memberOfA: false },
-  { key: "finance", role: "finance", memberOfA: false },
-  { key: "other", role: "investigator", memberOfA: false },
-];
+import { ACTORS, expected, type Actor, type Row } from "../support/roles-table";
 
 let dir = "";
 const cookies: Record<string, string> = {};
