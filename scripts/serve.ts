@@ -49,13 +49,21 @@ export async function startProductionServer(opts: {
   waitMs?: number;
   /** Flags for the server's Node (a profiler, say). */
   nodeArgs?: string[];
+  /** Also append everything the server prints to this file (the browser tests read the error log). */
+  logFile?: string;
 }): Promise<RunningServer> {
   const host = opts.host ?? "127.0.0.1";
   const child = spawn(process.execPath, [...(opts.nodeArgs ?? []), nextBin, "start", "-p", String(opts.port), "-H", host], {
     cwd: root,
-    stdio: opts.stdio ?? ["ignore", "inherit", "inherit"],
+    stdio: opts.logFile ? ["ignore", "pipe", "pipe"] : (opts.stdio ?? ["ignore", "inherit", "inherit"]),
     env: { ...process.env, ...opts.env, NODE_ENV: "production" },
   });
+  if (opts.logFile) {
+    const log = fs.createWriteStream(opts.logFile, { flags: "a" });
+    child.stdout!.on("data", (d: Buffer) => (process.stdout.write(d), log.write(d)));
+    child.stderr!.on("data", (d: Buffer) => (process.stderr.write(d), log.write(d)));
+    child.once("exit", () => log.end());
+  }
   const baseUrl = `http://${host}:${opts.port}`;
   const stop = async () => {
     if (child.exitCode != null || child.signalCode != null) return;

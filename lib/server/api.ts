@@ -6,6 +6,7 @@ import { HttpError } from "@/lib/auth/errors";
 import { SESSION_COOKIE } from "@/lib/auth/session-options";
 import { errorBody, validationError } from "@/lib/http/errors";
 import { isCrossSite, isStateChanging } from "@/lib/http/same-origin";
+import { logServerError } from "./error-log";
 import { readCookie, unsealSession } from "./session";
 
 export function json(data: unknown, init: ResponseInit = {}): Response {
@@ -34,7 +35,7 @@ export function errorResponse(err: unknown): Response {
     return jsonError(507, "storage-full", "The server's storage is full, so nothing was saved. Tell your administrator.");
   }
   const id = crypto.randomUUID();
-  console.error(`[api ${id}]`, err);
+  logServerError({ reference: id, where: "api" }, err);
   return jsonError(500, "internal", `Something went wrong on our side (reference ${id}). Nothing was changed by the failed request.`);
 }
 

@@ -15,6 +15,7 @@ declare module "vitest" {
   export interface ProvidedContext {
     baseUrl: string;
     databasePath: string;
+    serverLog: string;
   }
 }
 
@@ -36,8 +37,10 @@ export async function setup(project: TestProject): Promise<void> {
   await seed(databasePath);
   mail = await startMailServer({ port: 0, dir: path.join(tmp, "mailbox") });
   const port = await freeLoopbackPort();
+  const serverLog = path.join(tmp, "server.log");
   server = await startProductionServer({
     port,
+    logFile: serverLog,
     env: {
       DATABASE_PATH: databasePath,
       SESSION_SECRET: "e2e-secret-0123456789-0123456789-0123456789",
@@ -50,6 +53,7 @@ export async function setup(project: TestProject): Promise<void> {
   const baseUrl = server.baseUrl;
   project.provide("baseUrl", baseUrl);
   project.provide("databasePath", databasePath);
+  project.provide("serverLog", serverLog);
 }
 
 export async function teardown(): Promise<void> {

@@ -5,7 +5,7 @@ import os from "node:os";
 import path from "node:path";
 import SQLite from "better-sqlite3";
 import { Migrator } from "kysely";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { backupDatabase, integrityOk, restoreDatabase } from "@/db/backup";
 import { createKysely } from "@/db/connection";
 import { migrateToLatest } from "@/db/migrate";
@@ -147,6 +147,21 @@ describe("a full disk", () => {
     const res = errorResponse(Object.assign(new Error("database or disk is full"), { code: "SQLITE_FULL" }));
     expect(res.status).toBe(507);
     expect((await res.json()).error.message).toMatch(/storage is full, so nothing was saved/);
+  });
+  it("an unexpected API error answers 500 with a reference and no detail; the log has the same reference and the detail", async () => {
+    const { errorResponse } = await import("@/lib/server/api");
+    const lines: string[] = [];
+    const spy = vi.spyOn(console, "error").mockImplementation((...a: unknown[]) => void lines.push(a.map(String).join(" ")));
+    try {
+      const res = errorResponse(new TypeError("cannot read properties of undefined (reading 'secret-detail')"));
+      expect(res.status).toBe(500);
+      const { error } = await res.json();
+      expect(error.message).not.toContain("secret-detail");
+      const reference = error.message.match(/reference ([0-9a-f-]{36})/)![1];
+      expect(lines.find((l) => l.startsWith(`[error ${reference}] api`))).toContain("secret-detail");
+    } finally {
+      spy.mockRestore();
+    }
   });
 });
 
