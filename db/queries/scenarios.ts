@@ -7,7 +7,7 @@ import { computeScenario, ScenarioError, type ScenarioResults, type StudyContext
 import { generateJustification } from "@/lib/planning/justification";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { TimelineError, CostingError } from "@/lib/costing";
-import { UnreachableError } from "@/lib/power";
+import { PowerInputError, UnreachableError } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
 import { enqueueMail, kickMailSender } from "./outbox";
 import { reviewedMail, submittedMail } from "@/lib/mail/templates";
@@ -102,7 +102,7 @@ function compute(inputs: ScenarioInputs, rates: Parameters<typeof computeScenari
   try {
     return computeScenario(inputs, rates, study);
   } catch (err) {
-    if (err instanceof ScenarioError || err instanceof UnreachableError || err instanceof TimelineError || err instanceof CostingError) {
+    if (err instanceof ScenarioError || err instanceof UnreachableError || err instanceof PowerInputError || err instanceof TimelineError || err instanceof CostingError) {
       throw new HttpError(422, "cannot-compute", err.message);
     }
     throw err;

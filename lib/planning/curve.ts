@@ -26,12 +26,23 @@ export type ReachCurve = { points: CurvePoint[]; effectName: string; minBudget: 
 
 type Parsed = { power: ParsedPowerInput; effect: ParsedPowerInput };
 
-function pointAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed): CurvePoint | null {
+/** The study at n priced, without its MDES: all the search for the largest affordable n needs. */
+function priceAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed) {
   try {
     const at = studyAt(i, study, n, parsed.power);
     if (!at) return null;
     const structure = buildCostStructure(at.cost, rates);
-    const t = approximateTotals(structure, rates);
+    return { at, structure, totals: approximateTotals(structure, rates) };
+  } catch {
+    return null;
+  }
+}
+
+function pointAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed): CurvePoint | null {
+  const priced = priceAt(i, rates, study, n, parsed);
+  if (!priced) return null;
+  const { at, structure, totals: t } = priced;
+  try {
     const mdes = effectOf(solveParsed(withN(parsed.effect, n)));
     return {
       budget: t.total,
@@ -61,19 +72,20 @@ export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyConte
   const names = powerInput(i, "n");
   const effectName = names.design === "time-to-event" ? "hazardRatio" : names.design.endsWith("proportions") ? "p2" : "effectSize";
   if (!first) return { points: [], effectName, minBudget: null, maxBudget };
-  // The largest n within the largest budget: gallop, then bisect on the approximate cost.
+  // The largest n within the largest budget: gallop, then bisect on the approximate cost (no MDES needed).
+  const budgetAt = (n: number) => priceAt(i, rates, study, n, parsed)?.totals.total ?? null;
   let lo = nMin;
   let hi = nMin * 2;
-  let hiPoint = at(hi);
-  while (hiPoint && hiPoint.budget <= maxBudget && hi < 2_000_000) {
+  let hiBudget = budgetAt(hi);
+  while (hiBudget !== null && hiBudget <= maxBudget && hi < 2_000_000) {
     lo = hi;
     hi *= 2;
-    hiPoint = at(hi);
+    hiBudget = budgetAt(hi);
   }
   while (hi - lo > 1) {
     const mid = Math.floor((lo + hi) / 2);
-    const p = at(mid);
-    if (p && p.budget <= maxBudget) lo = mid;
+    const b = budgetAt(mid);
+    if (b !== null && b <= maxBudget) lo = mid;
     else hi = mid;
   }
   const nMax = Math.max(nMin, lo);

@@ -74,7 +74,16 @@ export function studentQuantileUncached(p: number, df: number): number {
 }
 
 /** P(T' ≤ t) for the noncentral t with ν degrees of freedom and noncentrality δ. */
+/**
+ * Past this noncentrality the Poisson-mixture sum needs about 10·√λ terms, and once λ = δ²/2 passes
+ * 2^53 its term index stops advancing: a request with a huge effect hung the server (found by
+ * fuzzing). Out there the probability is 0 or 1 to double precision unless t is as large as δ, and the
+ * normal approximation (Abramowitz & Stegun 26.7.10) answers at once.
+ */
+const LARGE_DELTA = 1000;
+
 export function noncentralTCdf(t: number, df: number, delta: number): number {
+  if (Math.abs(delta) > LARGE_DELTA) return normalCdf((t * (1 - 1 / (4 * df)) - delta) / Math.sqrt(1 + (t * t) / (2 * df)));
   if (t < 0) return 1 - noncentralTCdfNonNegative(-t, df, -delta);
   return noncentralTCdfNonNegative(t, df, delta);
 }

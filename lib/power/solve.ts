@@ -50,6 +50,10 @@ function standardized(v: Parsed<"two-means" | "one-mean" | "cluster-two-means">)
   const pilot = v.pilotSd ? { ...v.pilotSd, ...pilotSdUpperLimit(v.pilotSd.sd, v.pilotSd.n, v.pilotSd.confidence) } : undefined;
   const sdUsed = pilot ? pilot.upperLimit : v.sd;
   const d = v.effectSize ?? (v.meanDifference !== undefined && sdUsed ? Math.abs(v.meanDifference) / sdUsed : undefined);
+  // The same bound as a given effectSize: a difference of more than 10 SD is a typo, not a plan.
+  if (d !== undefined && d > 10) {
+    throw new PowerInputError([{ path: "meanDifference", message: `meanDifference is ${d.toPrecision(3)} SD (meanDifference / sd); above 10 SD is not a plausible planning value.` }]);
+  }
   return { d, sdUsed, pilot };
 }
 

@@ -34,6 +34,12 @@ describe("POST /api/v1/power", () => {
     expect(error.code).toBe("invalid");
     expect(error.fields.alpha[0]).toMatch(/alpha/);
   });
+  it("400 naming meanDifference for a difference of more than 10 SD, at once (it used to hang the server)", async () => {
+    const res = await powerRoute.POST(request("POST", "/api/v1/power", { cookie, body: { design: "two-means", meanDifference: 839164317, sd: 2.2, power: 0.9 } }));
+    expect(res.status).toBe(400);
+    const { error } = await res.json();
+    expect(error.fields.meanDifference[0]).toMatch(/above 10 SD/);
+  });
   it("400 when two quantities or none are left out", async () => {
     const two = await (await post({ design: "two-means", power: 0.8 })).json();
     expect(Object.keys(two.error.fields).sort()).toEqual(["effectSize", "n1"]);

@@ -119,3 +119,21 @@ describe("noncentral t against R's pt(ncp =)", () => {
     expect(noncentralTCdf(1, 5, 2)).toBeCloseTo(0.1581356436, 8);
   });
 });
+
+describe("noncentral t at very large noncentrality", () => {
+  // Found by fuzzing: with δ ≈ 3.8e8 the mixture's term index (near δ²/2 > 2^53) stopped advancing and
+  // the call never returned. Past |δ| = 1000 the normal approximation (Abramowitz & Stegun 26.7.10) answers.
+  it("answers at once, 0 or 1 where t is far from δ, and agrees with the mixture sum across the switch", () => {
+    expect(noncentralTCdf(1.96, 50, 3.8e8)).toBe(0);
+    expect(noncentralTCdf(-1.96, 50, -3.8e8)).toBe(1);
+    expect(noncentralTCdf(2, 3, 5000)).toBeLessThan(1e-12);
+    // Either side of the switch with t as large as δ, where the answer is neither 0 nor 1: the approximation
+    // is off by about 0.006 at df 50 and less at larger df. Past the switch a power calculation only meets
+    // t far below δ (δ > 1000 with d ≤ 10 needs n > 10,000, so t is a normal critical value), where both give 0.
+    for (const [df, tol] of [[50, 0.01], [500, 0.002]] as const) {
+      expect(Math.abs(noncentralTCdf(1000, df, 999.9) - noncentralTCdf(1000, df, 1000.1)), `df ${df}`).toBeLessThan(tol);
+      expect(noncentralTCdf(3, df, 999.9)).toBe(0);
+      expect(noncentralTCdf(3, df, 1000.1)).toBe(0);
+    }
+  });
+});

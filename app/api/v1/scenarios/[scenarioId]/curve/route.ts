@@ -2,7 +2,7 @@ import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { validationError } from "@/lib/http/errors";
 import { curveQuerySchema, previewSchema } from "@/lib/planning/api-schemas";
-import { reachCurve } from "@/lib/planning/curve";
+import { reachCurveCached } from "@/lib/server/curve-cache";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";
@@ -11,7 +11,7 @@ type P = { scenarioId: string };
 
 async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs): Promise<CurveResponse> {
   const ctx = await scenarioContext(user, id);
-  const curve = reachCurve(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
+  const curve = reachCurveCached(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
   return { ...curve, cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null, targetEffect: ctx.results.targetEffect, markers: await scenarioMarkers(user, ctx.studyId) };
 }
 

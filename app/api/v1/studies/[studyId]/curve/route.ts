@@ -1,7 +1,7 @@
 import { scenarioMarkers, studyContextFor } from "@/db/queries/scenarios";
 import { previewSchema } from "@/lib/planning/api-schemas";
 import { computeScenario } from "@/lib/planning/compute";
-import { reachCurve } from "@/lib/planning/curve";
+import { reachCurveCached } from "@/lib/server/curve-cache";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import { HttpError } from "@/lib/auth/errors";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";
@@ -20,7 +20,7 @@ export const POST = withUser<{ studyId: string }>(async ({ req, user, params }) 
   } catch (err) {
     throw new HttpError(422, "cannot-compute", (err as Error).message);
   }
-  const curve = reachCurve(inputs, rates, study, { points: points ?? 64, referenceTotal: total });
+  const curve = reachCurveCached(inputs, rates, study, { points: points ?? 64, referenceTotal: total });
   const body: CurveResponse = { ...curve, cap: study.sponsorCap ? Number(study.sponsorCap) : null, targetEffect: target, markers: await scenarioMarkers(user, studyId) };
   return json({ curve: body });
 });
