@@ -3,7 +3,7 @@ import fs from "node:fs";
 import { createRequire } from "node:module";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, signIn } from "./browser";
+import { launchBrowser, pageAs as signedInPage } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const axeSource = fs.readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
@@ -27,13 +27,8 @@ async function audit(page: Page): Promise<Violation[]> {
 
 const describeViolations = (vs: Violation[]) => vs.map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join(", ")}`).join("\n");
 
-async function pageAs(email: string | null): Promise<Page> {
-  // Playwright's evaluate is not subject to the page's CSP; bypassCSP keeps axe's own helpers working too.
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, bypassCSP: true });
-  const page = await context.newPage();
-  if (email) await signIn(page, baseUrl, email);
-  return page;
-}
+// Playwright's evaluate is not subject to the page's CSP; bypassCSP keeps axe's own helpers working too.
+const pageAs = (email: string | null) => signedInPage(browser, baseUrl, email, { bypassCSP: true });
 
 describe("accessibility (axe-core, serious and critical)", () => {
   it("sign-in page", async () => {

@@ -4,7 +4,7 @@
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, signIn } from "./browser";
+import { launchBrowser, pageAs as signedInPage } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -15,12 +15,7 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function pageAs(email: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  const page = await context.newPage();
-  await signIn(page, baseUrl, email);
-  return page;
-}
+const pageAs = (email: string) => signedInPage(browser, baseUrl, email);
 
 type Stop = { key: string; ring: boolean; visible: boolean };
 

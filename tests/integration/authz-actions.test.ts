@@ -121,6 +121,8 @@ type Case = {
   row: Row;
   study: "A" | "B" | null;
   state?: string;
+  /** The least a form must say for the action to be known (the review form's choice); empty otherwise. */
+  bare?: Record<string, string>;
 };
 
 const inputs = DEMO_SCENARIOS[0]!.inputs;
@@ -143,8 +145,8 @@ const CASES: Case[] = [
   { name: "recompute the A draft", call: (f) => scenarios.recomputeAction(null, f), form: onScenario("draftA", "A", async () => ({ version: await versionOf("scenarios", ids.draftA!) })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
   { name: "save the A draft's justification", call: (f) => scenarios.saveJustificationAction(null, f), form: onScenario("draftA", "A", async () => ({ version: await versionOf("scenarios", ids.draftA!), justification: "Written by the matrix." })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
   { name: "delete an A draft", call: (f) => scenarios.deleteAction(null, f), form: onScenario("spareDraftA", "A"), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
-  { name: "submit the A draft", call: (f) => scenarios.reviewAction(null, f), form: onScenario("draftA", "A", async () => ({ action: "submit" })), row: "submit a scenario for review", study: "A", state: "draft" },
-  { name: "clear the A scenario in review", call: (f) => scenarios.reviewAction(null, f), form: onScenario("reviewA", "A", async () => ({ action: "clear" })), row: "return or clear a scenario", study: "A", state: "in-review" },
+  { name: "submit the A draft", call: (f) => scenarios.reviewAction(null, f), form: onScenario("draftA", "A", async () => ({ action: "submit" })), row: "submit a scenario for review", study: "A", state: "draft", bare: { action: "submit" } },
+  { name: "clear the A scenario in review", call: (f) => scenarios.reviewAction(null, f), form: onScenario("reviewA", "A", async () => ({ action: "clear" })), row: "return or clear a scenario", study: "A", state: "in-review", bare: { action: "clear" } },
   { name: "start a rate-book draft", call: (f) => rateBook.createDraftAction(null, f), form: async () => ({ label: "Matrix second draft", effectiveDate: "2032-01-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "change a draft's F&A rate", call: (f) => rateBook.updateSettingAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), key: "faRate", value: "0.55" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "add a fringe category", call: (f) => rateBook.addFringeAction(null, f), form: async () => ({ editionId: ids.draftEdition, category: "matrix-staff", rate: "0.2" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
@@ -165,6 +167,8 @@ describe("authorization matrix over server actions, from DESIGN.md's roles table
         const got = await outcomeOf(async () => cs.call(formOf(await cs.form())));
         expect(got.outcome, `${a.key}: ${got.detail}`).toBe(want(a));
         expect(await snapshot(), `${a.key} changed the database`).toBe(before);
+        // A role that may never take the action is refused whatever it sends, an empty form included.
+        if (want(a) === 403) expect((await outcomeOf(() => cs.call(formOf(cs.bare ?? {})))).outcome, `${a.key}, empty form`).toBe(403);
       }
       // Then one role the table allows: it is not refused on permission grounds, and the change is made.
       const allowed = ACTORS.find((x) => want(x) === "allow");

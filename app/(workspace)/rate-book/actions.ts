@@ -6,7 +6,8 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { applyEditionPatch, cancelImport, commitImport, createDraft } from "@/db/queries/rate-book";
-import { HttpError } from "@/lib/auth/errors";
+import { forbidden, HttpError } from "@/lib/auth/errors";
+import { roleMay } from "@/lib/auth/permissions";
 import { fringeCategoryField, moneyField, procedureCategoryField, procedureCodeField, procedureNameField, rateField, SETTING_BY_KEY, SETTING_KEYS, settingSchema } from "@/lib/rate-book/fields";
 import type { EditionPatch } from "@/lib/rate-book/patch";
 import { newDraftSchema } from "@/lib/rate-book/patch";
@@ -20,6 +21,8 @@ const version = z.coerce.number().int().positive();
 async function patchFrom<S extends z.ZodType>(formData: FormData, schema: S, toPatch: (v: z.infer<S>) => { editionId: number; patch: EditionPatch }): Promise<Reply> {
   const user = await requireUser();
   const submission = parseWithZod(formData, { schema });
+  // A role that may never edit the rate book is refused whatever it sent, as the API does.
+  if (!roleMay(user, "ratebook.edit")) return submission.reply({ formErrors: [forbidden().message] });
   if (submission.status !== "success") return submission.reply();
   const { editionId, patch } = toPatch(submission.value);
   try {
@@ -88,6 +91,7 @@ export async function publishAction(_prev: unknown, formData: FormData) {
 export async function createDraftAction(_prev: unknown, formData: FormData) {
   const user = await requireUser();
   const submission = parseWithZod(formData, { schema: newDraftSchema });
+  if (!roleMay(user, "ratebook.edit")) return submission.reply({ formErrors: [forbidden().message] });
   if (submission.status !== "success") return submission.reply();
   let editionId: number;
   try {
@@ -101,6 +105,7 @@ export async function createDraftAction(_prev: unknown, formData: FormData) {
 
 export async function finishImportAction(formData: FormData): Promise<void> {
   const user = await requireUser();
+  if (!roleMay(user, "ratebook.edit")) throw forbidden();
   const importId = id.parse(formData.get("importId"));
   const commit = formData.get("decision") === "commit";
   const editionId = commit ? await commitImport(user, importId) : await cancelImport(user, importId);

@@ -3,13 +3,15 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { redirect } from "next/navigation";
 import { createStudy } from "@/db/queries/studies";
-import { HttpError } from "@/lib/auth/errors";
+import { forbidden, HttpError } from "@/lib/auth/errors";
+import { roleMay } from "@/lib/auth/permissions";
 import { studyCreateSchema } from "@/lib/studies/schema";
 import { requireUser } from "@/lib/server/current-user";
 
 export async function createStudyAction(_prev: unknown, formData: FormData) {
   const user = await requireUser();
   const submission = parseWithZod(formData, { schema: studyCreateSchema });
+  if (!roleMay(user, "study.create")) return submission.reply({ formErrors: [forbidden().message] });
   if (submission.status !== "success") return submission.reply();
   let id: number;
   try {

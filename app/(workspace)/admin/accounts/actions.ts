@@ -3,7 +3,8 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { revalidatePath } from "next/cache";
 import { changeRole, createAccount, setAccountActive } from "@/db/queries/accounts";
-import { HttpError } from "@/lib/auth/errors";
+import { forbidden, HttpError } from "@/lib/auth/errors";
+import { roleMay } from "@/lib/auth/permissions";
 import { changeRoleSchema, createAccountSchema, setActiveSchema } from "@/lib/auth/schemas";
 import { requireUser } from "@/lib/server/current-user";
 
@@ -20,6 +21,8 @@ async function run(
 ): Promise<Reply> {
   const user = await requireUser();
   const submission = parseWithZod(formData, { schema });
+  // A role that may never manage accounts is refused whatever it sent, as the API does.
+  if (!roleMay(user, "accounts.manage")) return submission.reply({ formErrors: [forbidden().message] });
   if (submission.status !== "success") return submission.reply();
   try {
     await change(user, submission.value);

@@ -5,7 +5,8 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { cloneScenario, createScenario, deleteScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
-import { HttpError } from "@/lib/auth/errors";
+import { forbidden, HttpError } from "@/lib/auth/errors";
+import { roleMay, type Action } from "@/lib/auth/permissions";
 import { scenarioFormSchema } from "@/lib/planning/schema";
 import { requireUser } from "@/lib/server/current-user";
 
@@ -15,6 +16,8 @@ const saveSchema = scenarioFormSchema.extend({ studyId: z.coerce.number().int().
 export async function saveScenarioAction(_prev: unknown, formData: FormData) {
   const user = await requireUser();
   const submission = parseWithZod(formData, { schema: saveSchema });
+  // A role that may never edit scenarios is refused whatever it sent, as the API does.
+  if (!roleMay(user, "scenario.edit")) return submission.reply({ formErrors: [forbidden().message] });
   if (submission.status !== "success") return submission.reply();
   const v = submission.value;
   let id: number;
@@ -33,9 +36,16 @@ export async function saveScenarioAction(_prev: unknown, formData: FormData) {
 
 const idSchema = z.object({ studyId: z.coerce.number().int().positive(), scenarioId: z.coerce.number().int().positive() });
 
-async function run(formData: FormData, fn: (user: Awaited<ReturnType<typeof requireUser>>, v: z.infer<typeof idSchema>) => Promise<string | void>) {
+/**
+ * One scenario button's action: the role first (refused whatever was sent, as the API does), then the
+ * ids, then the change; refusals and bad ids come back as the button's message, never as an error page.
+ */
+async function run(formData: FormData, may: Action | Action[], fn: (user: Awaited<ReturnType<typeof requireUser>>, v: z.infer<typeof idSchema>) => Promise<string | void>): Promise<{ error: string | null }> {
   const user = await requireUser();
-  const v = idSchema.parse({ studyId: formData.get("studyId"), scenarioId: formData.get("scenarioId") });
+  if (![may].flat().some((a) => roleMay(user, a))) return { error: forbidden().message };
+  const parsed = idSchema.safeParse({ studyId: formData.get("studyId"), scenarioId: formData.get("scenarioId") });
+  if (!parsed.success) return { error: "That scenario was not found." };
+  const v = parsed.data;
   let next: string | void;
   try {
     next = await fn(user, v);
@@ -50,31 +60,46 @@ async function run(formData: FormData, fn: (user: Awaited<ReturnType<typeof requ
 }
 
 export async function reviewAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
-  const action = z.enum(["submit", "return", "clear"]).parse(formData.get("action"));
+  const action = z.enum(["submit", "return", "clear"]).safeParse(formData.get("action"));
   const reason = String(formData.get("reason") ?? "");
-  return (await run(formData, async (user, v) => void (await reviewScenario(user, v.scenarioId, action, reason)))) ?? { error: null };
+  // Submitting and reviewing are different roles' actions; reviewScenario decides again on the record.
+  const may: Action | Action[] = !action.success ? ["scenario.submit", "scenario.review"] : action.data === "submit" ? "scenario.submit" : "scenario.review";
+  return run(formData, may, async (user, v) => {
+    if (!action.success) throw new HttpError(400, "invalid", "Choose submit, return or clear.");
+    await reviewScenario(user, v.scenarioId, action.data, reason);
+  });
 }
 
 export async function cloneAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
-  return (await run(formData, async (user, v) => `/studies/${v.studyId}/scenarios/${await cloneScenario(user, v.scenarioId)}`)) ?? { error: null };
+  return run(formData, "scenario.edit", async (user, v) => `/studies/${v.studyId}/scenarios/${await cloneScenario(user, v.scenarioId)}`);
 }
 
 export async function deleteAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
-  return (await run(formData, async (user, v) => {
+  return run(formData, "scenario.edit", async (user, v) => {
     await deleteScenario(user, v.scenarioId);
     return `/studies/${v.studyId}`;
-  })) ?? { error: null };
+  });
 }
 
+/** The version the page was read at; without it a change could overwrite someone else's. */
+const versionOf = (formData: FormData) => z.coerce.number().int().positive().safeParse(formData.get("version")).data;
+const noVersion = () => new HttpError(400, "invalid", "The page did not say which version it showed; reload it and try again.");
+
 export async function recomputeAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
-  const version = Number(formData.get("version"));
-  return (await run(formData, async (user, v) => void (await updateScenario(user, v.scenarioId, { version, recompute: true })))) ?? { error: null };
+  const version = versionOf(formData);
+  return run(formData, "scenario.edit", async (user, v) => {
+    if (version === undefined) throw noVersion();
+    await updateScenario(user, v.scenarioId, { version, recompute: true });
+  });
 }
 
 export async function saveJustificationAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
-  const version = Number(formData.get("version"));
+  const version = versionOf(formData);
   const text = String(formData.get("justification") ?? "").trim();
   if (text.length > 8000) return { error: "The justification is over 8,000 characters; nothing was saved." };
   const reset = formData.get("reset") === "1";
-  return (await run(formData, async (user, v) => void (await updateScenario(user, v.scenarioId, { version, justification: reset || !text ? null : text })))) ?? { error: null };
+  return run(formData, "scenario.edit", async (user, v) => {
+    if (version === undefined) throw noVersion();
+    await updateScenario(user, v.scenarioId, { version, justification: reset || !text ? null : text });
+  });
 }
