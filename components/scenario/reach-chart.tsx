@@ -61,7 +61,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
         aria-busy={isLoading}
       >
         <ResponsiveContainer width="100%" height="100%">
-          <ComposedChart data={points} margin={{ top: 10, right: 20, bottom: 20, left: 10 }}>
+          <ComposedChart data={points} margin={{ top: 22, right: 48, bottom: 20, left: 10 }}>
             <CartesianGrid stroke="#e5e0d3" />
             {view === "mdes" && standardized
               ? [

@@ -115,17 +115,27 @@ export function editionToRateBook(e: EditionDetail): RateBook {
 }
 
 /** The published edition in force: the latest effective date among published editions. */
-export async function latestPublishedEdition(actor: Actor): Promise<EditionDetail | null> {
-  const inst = await institutionOf(actor);
-  const r = await getDb()
+async function latestPublishedRow(inst: number) {
+  return getDb()
     .selectFrom("rate_book_editions")
-    .select("id")
+    .select(["id", "label", "effective_date"])
     .where("institution_id", "=", inst)
     .where("status", "=", "published")
     .orderBy("effective_date", "desc")
     .orderBy("id", "desc")
     .executeTakeFirst();
+}
+
+export async function latestPublishedEdition(actor: Actor): Promise<EditionDetail | null> {
+  const inst = await institutionOf(actor);
+  const r = await latestPublishedRow(inst);
   return r ? loadEdition(getDb(), r.id, inst) : null;
+}
+
+/** Which edition is in force, without its rates: all a scenario page needs to offer a recompute. */
+export async function latestPublishedLabel(actor: Actor): Promise<{ id: number; label: string; effectiveDate: string } | null> {
+  const r = await latestPublishedRow(await institutionOf(actor));
+  return r ? { id: r.id, label: r.label, effectiveDate: r.effective_date } : null;
 }
 
 /** A new draft, copied from an edition (by default the published one in force). */

@@ -12,7 +12,7 @@ import { writeAudit, type AuditEntry } from "./audit";
 import { enqueueMail, kickMailSender } from "./outbox";
 import { reviewedMail, submittedMail } from "@/lib/mail/templates";
 import { appUrl } from "@/lib/mail/transport";
-import { editionToRateBook, getEdition, latestPublishedEdition } from "./rate-book";
+import { editionToRateBook, getEdition, latestPublishedEdition, latestPublishedLabel } from "./rate-book";
 import { membershipOf } from "./studies";
 
 export type ScenarioSummary = {
@@ -123,11 +123,11 @@ export async function listScenarios(actor: Actor, studyId: number): Promise<Scen
   return rows.filter((r) => decide(actor, "scenario.view", { membership, scenarioState: r.state }) === "allow").map(summaryOf);
 }
 
-export async function getScenario(actor: Actor, id: number): Promise<ScenarioDetail> {
-  const { row, membership } = await access(actor, id);
+export async function getScenario(actor: Actor, id: number, action: Parameters<typeof decide>[1] = "scenario.view"): Promise<ScenarioDetail> {
+  const { row, membership } = await access(actor, id, action);
   const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
   const results = JSON.parse(row.results_json) as ScenarioResults;
-  const latest = await latestPublishedEdition(actor);
+  const latest = await latestPublishedLabel(actor);
   const study = studyContext(row);
   return {
     ...summaryOf(row),
@@ -331,10 +331,11 @@ export async function studyContextFor(actor: Actor, studyId: number): Promise<{ 
 export async function workbookData(actor: Actor, ids: number[], studyId?: number) {
   const list = [];
   for (const id of ids) {
-    await access(actor, id, "workbook.download");
-    const [detail, ctx] = await Promise.all([getScenario(actor, id), scenarioContext(actor, id)]);
+    const detail = await getScenario(actor, id, "workbook.download");
     if (studyId !== undefined && detail.studyId !== studyId) throw notFound("Those scenarios are not all in this study.");
-    list.push({ detail, rates: ctx.rates });
+    const edition = await getEdition(actor, detail.editionId).catch(() => null);
+    if (!edition) throw notFound("That scenario's rate-book edition is not available.");
+    list.push({ detail, rates: editionToRateBook(edition) });
   }
   const first = list[0]!.detail;
   const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
