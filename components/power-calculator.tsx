@@ -2,6 +2,7 @@
 
 import { useEffect, useMemo, useRef, useState } from "react";
 import type { PowerResult } from "@/lib/power/schema";
+import { TableHead } from "@/components/table-head";
 
 type Design = PowerResult["design"];
 type SolveFor = "n" | "power" | "effect";
@@ -316,20 +317,7 @@ export function PowerCalculator() {
               ) : null}
             </dl>
             <table className="table" aria-label="Recruitment funnel">
-              <thead>
-                <tr>
-                  <th scope="col">Arm</th>
-                  <th scope="col" className="num">
-                    Evaluable
-                  </th>
-                  <th scope="col" className="num">
-                    Enrolled
-                  </th>
-                  <th scope="col" className="num">
-                    Screened
-                  </th>
-                </tr>
-              </thead>
+              <TableHead columns={["Arm", { label: "Evaluable", num: true }, { label: "Enrolled", num: true }, { label: "Screened", num: true }]} />
               <tbody>
                 {r.funnel.arms.map((a, i) => (
                   <tr key={i}>

@@ -6,6 +6,7 @@ import type { CapBuys } from "@/lib/planning/compute";
 import type { Optimum } from "@/lib/planning/optimiser";
 import type { SensitivityRow } from "@/lib/planning/sensitivity";
 import { formatMoney } from "@/lib/format/money";
+import { TableHead } from "@/components/table-head";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -50,20 +51,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
               <table className="table mt-2 text-sm">
-                <thead>
-                  <tr>
-                    <th scope="col">{data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites"}</th>
-                    <th scope="col" className="num">
-                      n per arm
-                    </th>
-                    <th scope="col" className="num">
-                      Months
-                    </th>
-                    <th scope="col" className="num">
-                      Total
-                    </th>
-                  </tr>
-                </thead>
+                <TableHead columns={[data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites", { label: "n per arm", num: true }, { label: "Months", num: true }, { label: "Total", num: true }]} />
                 <tbody>
                   {data.cheapest.alternatives.map((a, k) => (
                     <tr key={k}>
@@ -96,14 +84,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
           </ResponsiveContainer>
         </div>
         <table className="table mt-2 text-sm" data-testid="sensitivity-table">
-          <thead>
-            <tr>
-              <th scope="col">Assumption</th>
-              <th scope="col">Low</th>
-              <th scope="col">Base</th>
-              <th scope="col">High</th>
-            </tr>
-          </thead>
+          <TableHead columns={["Assumption", "Low", "Base", "High"]} />
           <tbody>
             {data.sensitivity.map((r) => (
               <tr key={r.assumption}>

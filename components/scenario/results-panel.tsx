@@ -1,6 +1,7 @@
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
+import { TableHead } from "@/components/table-head";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
@@ -99,15 +100,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
         <div className="mt-2 overflow-x-auto">
           <table className="table text-sm">
-            <thead>
-              <tr>
-                <th scope="col">Line</th>
-                <th scope="col">Category</th>
-                <th scope="col" className="num">
-                  Total
-                </th>
-              </tr>
-            </thead>
+            <TableHead columns={["Line", "Category", { label: "Total", num: true }]} />
             <tbody>
               {l.lines.map((line) => (
                 <tr key={line.key}>

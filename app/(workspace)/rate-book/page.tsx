@@ -4,6 +4,7 @@ import { NewDraftForm } from "@/components/rate-book/new-draft-form";
 import { listEditions } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/server/current-user";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate book" };
 
@@ -35,14 +36,7 @@ export default async function RateBookPage() {
       </div>
       <div className="card overflow-x-auto p-0">
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Edition</th>
-              <th scope="col">Effective from</th>
-              <th scope="col">Status</th>
-              <th scope="col">Published</th>
-            </tr>
-          </thead>
+          <TableHead columns={["Edition", "Effective from", "Status", "Published"]} />
           <tbody>
             {editions.map((e) => (
               <tr key={e.id}>

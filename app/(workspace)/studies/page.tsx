@@ -5,6 +5,7 @@ import { listStudies } from "@/db/queries/studies";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Studies" };
 
@@ -32,18 +33,7 @@ export default async function StudiesPage() {
           <p className="p-5">No studies yet.</p>
         ) : (
           <table className="table">
-            <thead>
-              <tr>
-                <th scope="col">Code</th>
-                <th scope="col">Title</th>
-                <th scope="col">Sponsor</th>
-                <th scope="col" className="num">
-                  Sponsor cap
-                </th>
-                <th scope="col">Investigator</th>
-                <th scope="col">Your part</th>
-              </tr>
-            </thead>
+            <TableHead columns={["Code", "Title", "Sponsor", { label: "Sponsor cap", num: true }, "Investigator", "Your part"]} />
             <tbody>
               {studies.map((s) => (
                 <tr key={s.id}>

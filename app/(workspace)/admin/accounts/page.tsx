@@ -4,6 +4,7 @@ import { listAccounts } from "@/db/queries/accounts";
 import { can } from "@/lib/auth/permissions";
 import { ROLE_LABELS } from "@/lib/auth/roles";
 import { requireUser } from "@/lib/server/current-user";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Accounts" };
 
@@ -26,15 +27,7 @@ export default async function AccountsPage() {
       </div>
       <div className="card overflow-x-auto p-0">
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Name</th>
-              <th scope="col">E-mail</th>
-              <th scope="col">Role</th>
-              <th scope="col">Status</th>
-              <th scope="col">Change</th>
-            </tr>
-          </thead>
+          <TableHead columns={["Name", "E-mail", "Role", "Status", "Change"]} />
           <tbody>
             {accounts.map((a) => (
               <tr key={a.id}>

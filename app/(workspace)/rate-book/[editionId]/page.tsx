@@ -18,6 +18,7 @@ import {
   updateProcedureAction,
   updateSettingAction,
 } from "../actions";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate-book edition" };
 
@@ -57,15 +58,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
           Rates and settings
         </h2>
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Setting</th>
-              <th scope="col" className="num">
-                Value
-              </th>
-              {editable ? <th scope="col">Change</th> : null}
-            </tr>
-          </thead>
+          <TableHead columns={["Setting", { label: "Value", num: true }, editable && "Change"]} />
           <tbody>
             {SETTING_FIELDS.map((f) => (
               <tr key={f.key} data-testid={`setting-${f.key}`}>
@@ -98,15 +91,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
           Fringe rates by staff category
         </h2>
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Category</th>
-              <th scope="col" className="num">
-                Rate
-              </th>
-              {editable ? <th scope="col">Change</th> : null}
-            </tr>
-          </thead>
+          <TableHead columns={["Category", { label: "Rate", num: true }, editable && "Change"]} />
           <tbody>
             {e.fringe.map((f) => (
               <tr key={f.id}>
@@ -143,17 +128,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
           Procedure catalogue
         </h2>
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Code</th>
-              <th scope="col">Procedure</th>
-              <th scope="col">Category</th>
-              <th scope="col" className="num">
-                Unit cost
-              </th>
-              {editable ? <th scope="col">Change</th> : null}
-            </tr>
-          </thead>
+          <TableHead columns={["Code", "Procedure", "Category", { label: "Unit cost", num: true }, editable && "Change"]} />
           <tbody>
             {e.procedures.map((p) => (
               <tr key={p.id}>

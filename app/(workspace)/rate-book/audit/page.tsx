@@ -3,6 +3,7 @@ import Link from "next/link";
 import { listRateBookAudit } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/server/current-user";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate-book change history" };
 
@@ -26,21 +27,7 @@ export default async function AuditPage() {
       <p className="text-ink-soft">Every change to a rate-book edition: who, when, which field, the old and the new value.</p>
       <div className="card overflow-x-auto p-0">
         <table className="table" data-testid="audit">
-          <thead>
-            <tr>
-              <th scope="col">When (UTC)</th>
-              <th scope="col">Who</th>
-              <th scope="col">Edition</th>
-              <th scope="col">What</th>
-              <th scope="col">Field</th>
-              <th scope="col" className="num">
-                Old
-              </th>
-              <th scope="col" className="num">
-                New
-              </th>
-            </tr>
-          </thead>
+          <TableHead columns={["When (UTC)", "Who", "Edition", "What", "Field", { label: "Old", num: true }, { label: "New", num: true }]} />
           <tbody>
             {rows.map((r) => (
               <tr key={r.id}>

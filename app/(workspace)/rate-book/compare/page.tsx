@@ -6,6 +6,7 @@ import { formatRate, formatSetting } from "@/lib/format/rates";
 import { SETTING_FIELDS } from "@/lib/rate-book/fields";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Compare editions" };
 
@@ -53,17 +54,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
       <p className="text-sm text-ink-soft">Changed values are highlighted.</p>
       <div className="card overflow-x-auto p-0">
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Rate</th>
-              <th scope="col" className="num">
-                {a.label}
-              </th>
-              <th scope="col" className="num">
-                {b.label}
-              </th>
-            </tr>
-          </thead>
+          <TableHead columns={["Rate", { label: a.label, num: true }, { label: b.label, num: true }]} />
           <tbody>
             {SETTING_FIELDS.map((f) => {
               const changed = a.settings[f.key] !== b.settings[f.key];

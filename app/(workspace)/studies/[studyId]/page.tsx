@@ -8,6 +8,7 @@ import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Study" };
 
@@ -60,27 +61,7 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
         ) : (
           <form action={`/studies/${study.id}/compare`} method="get">
             <table className="table">
-              <thead>
-                <tr>
-                  <th scope="col">
-                    <span className="sr-only">Compare</span>
-                  </th>
-                  <th scope="col">Scenario</th>
-                  <th scope="col">State</th>
-                  <th scope="col" className="num">
-                    Evaluable
-                  </th>
-                  <th scope="col" className="num">
-                    Sites · months
-                  </th>
-                  <th scope="col" className="num">
-                    MDES
-                  </th>
-                  <th scope="col" className="num">
-                    Total
-                  </th>
-                </tr>
-              </thead>
+              <TableHead columns={[<span key="c" className="sr-only">Compare</span>, "Scenario", "State", { label: "Evaluable", num: true }, { label: "Sites · months", num: true }, { label: "MDES", num: true }, { label: "Total", num: true }]} />
               <tbody>
                 {scenarios.map((sc) => (
                   <tr key={sc.id}>

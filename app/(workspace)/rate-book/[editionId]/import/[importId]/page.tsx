@@ -4,6 +4,7 @@ import { getImport } from "@/db/queries/rate-book";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { finishImportAction } from "../../../actions";
+import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate-sheet preview" };
 
@@ -39,20 +40,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
       ) : null}
       <div className="card overflow-x-auto p-0">
         <table className="table">
-          <thead>
-            <tr>
-              <th scope="col">Row</th>
-              <th scope="col">Section</th>
-              <th scope="col">Key</th>
-              <th scope="col" className="num">
-                Now
-              </th>
-              <th scope="col" className="num">
-                From the sheet
-              </th>
-              <th scope="col">Effect</th>
-            </tr>
-          </thead>
+          <TableHead columns={["Row", "Section", "Key", { label: "Now", num: true }, { label: "From the sheet", num: true }, "Effect"]} />
           <tbody>
             {view.rows.map((r) => (
               <tr key={`${r.section}-${r.key}-${r.row}`}>
