@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import SQLite from "better-sqlite3";
-import { Kysely, SqliteDialect } from "kysely";
+import { CompiledQuery, Kysely, SqliteDialect, SqliteDriver, type DatabaseConnection, type Driver, type SqliteDialectConfig } from "kysely";
 import type { Database } from "./types";
 
 /** WAL and FULL sync want SQLite's recent fixes; refuse older libraries than the one we test on. */
@@ -40,6 +40,29 @@ export function openSqlite(file: string = defaultDatabasePath()): SQLite.Databas
   return sqlite;
 }
 
+/**
+ * Transactions take SQLite's write lock when they begin ("begin immediate"). The server runs one
+ * worker per core (scripts/start.mjs), each with its own connection: a deferred transaction that
+ * read first and then wrote would fail at once with SQLITE_BUSY if another worker had written in
+ * between, whereas an immediate one waits its turn under the busy timeout.
+ */
+class ImmediateSqliteDriver extends SqliteDriver {
+  override async beginTransaction(connection: DatabaseConnection): Promise<void> {
+    await connection.executeQuery(CompiledQuery.raw("begin immediate"));
+  }
+}
+
+class ImmediateSqliteDialect extends SqliteDialect {
+  readonly #config: SqliteDialectConfig;
+  constructor(config: SqliteDialectConfig) {
+    super(config);
+    this.#config = config;
+  }
+  override createDriver(): Driver {
+    return new ImmediateSqliteDriver(this.#config);
+  }
+}
+
 export function createKysely(file: string = defaultDatabasePath()): Kysely<Database> {
-  return new Kysely<Database>({ dialect: new SqliteDialect({ database: openSqlite(file) }) });
+  return new Kysely<Database>({ dialect: new ImmediateSqliteDialect({ database: openSqlite(file) }) });
 }

@@ -9,6 +9,7 @@ import path from "node:path";
 
 export const root = path.resolve(import.meta.dirname, "..");
 const nextBin = path.join(root, "node_modules", "next", "dist", "bin", "next");
+const startScript = path.join(root, "scripts", "start.mjs");
 
 function newestMtime(dir: string): number {
   let newest = 0;
@@ -40,23 +41,27 @@ export function buildProduction(): void {
 
 export type RunningServer = { baseUrl: string; child: ChildProcess; stop: () => Promise<void> };
 
-/** `next start` on the given host and port; resolves once the sign-in page answers. */
+/**
+ * `npm start`'s server (one `next start` worker per core, scripts/start.mjs) on the given host and
+ * port; resolves once the sign-in page answers. `workers` overrides WEB_WORKERS.
+ */
 export async function startProductionServer(opts: {
   port: number;
   host?: string;
   env: Record<string, string | undefined>;
   stdio?: StdioOptions;
   waitMs?: number;
-  /** Flags for the server's Node (a profiler, say). */
+  /** Flags for the server's Node (a profiler, say); the workers inherit them. */
   nodeArgs?: string[];
+  workers?: number;
   /** Also append everything the server prints to this file (the browser tests read the error log). */
   logFile?: string;
 }): Promise<RunningServer> {
   const host = opts.host ?? "127.0.0.1";
-  const child = spawn(process.execPath, [...(opts.nodeArgs ?? []), nextBin, "start", "-p", String(opts.port), "-H", host], {
+  const child = spawn(process.execPath, [...(opts.nodeArgs ?? []), startScript, "-p", String(opts.port), "-H", host], {
     cwd: root,
     stdio: opts.logFile ? ["ignore", "pipe", "pipe"] : (opts.stdio ?? ["ignore", "inherit", "inherit"]),
-    env: { ...process.env, ...opts.env, NODE_ENV: "production" },
+    env: { ...process.env, ...opts.env, ...(opts.workers ? { WEB_WORKERS: String(opts.workers) } : {}), NODE_ENV: "production" },
   });
   if (opts.logFile) {
     const log = fs.createWriteStream(opts.logFile, { flags: "a" });

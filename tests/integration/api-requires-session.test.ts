@@ -1,6 +1,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDb } from "@/db";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { request, type RouteModule } from "../support/http";
 
@@ -31,15 +32,36 @@ describe("every /api/v1 route without a session answers 401 JSON", () => {
       for (const m of METHODS) {
         const handler = mod[m];
         if (!handler) continue;
-        // Signing in is the one call that needs no session.
-        if (rel === "session" && m === "POST") continue;
+        // Signing in and the health check are the calls that need no session.
+        if ((rel === "session" && m === "POST") || rel === "health") continue;
         const res = await handler(request(m, urlPath, m === "GET" || m === "DELETE" ? {} : { body: {} }), fakeParams);
         expect(res.status, `${m} ${urlPath}`).toBe(401);
         expect(res.headers.get("content-type")).toMatch(/application\/json/);
         expect((await res.json()).error.code).toBe("unauthenticated");
         checked++;
       }
-      expect(checked).toBeGreaterThan(0);
+      if (rel !== "health") expect(checked).toBeGreaterThan(0);
     });
   }
+});
+
+describe("the health check", () => {
+  it("answers 200 without a session while the database answers, and 503 JSON when it does not", async () => {
+    const { GET } = await import("@/app/api/v1/health/route");
+    const ok = await GET();
+    expect(ok.status).toBe(200);
+    expect(await ok.json()).toEqual({ status: "ok" });
+    // A database path that cannot be opened (a folder) stands in for a lost disk.
+    const kept = process.env.DATABASE_PATH;
+    await closeDb();
+    process.env.DATABASE_PATH = dir;
+    try {
+      const down = await GET();
+      expect(down.status).toBe(503);
+      expect((await down.json()).error.code).toBe("unavailable");
+    } finally {
+      await closeDb();
+      process.env.DATABASE_PATH = kept;
+    }
+  });
 });

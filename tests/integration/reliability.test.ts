@@ -110,6 +110,29 @@ describe("crash safety", () => {
   }, 120_000);
 });
 
+describe("two server workers on one file", () => {
+  it("read-then-write transactions from two processes neither fail nor lose an update", async () => {
+    const shared = path.join(dir, "shared.sqlite");
+    await copyDb(file, shared);
+    const init = new SQLite(shared);
+    init.exec("create table contention (n integer not null); insert into contention values (0)");
+    init.close();
+    const rounds = 150;
+    const writer = () =>
+      new Promise<string>((resolve, reject) => {
+        const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "tests/support/contend-writer.ts"), shared, String(rounds)], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
+        let out = "";
+        child.stdout.on("data", (d: Buffer) => (out += d.toString()));
+        child.once("exit", (code) => (code === 0 ? resolve(out.trim()) : reject(new Error(`writer exited with ${code}`))));
+      });
+    // With a deferred "begin", the second writer's upgrade to a write lock fails with SQLITE_BUSY.
+    expect(await Promise.all([writer(), writer()])).toEqual(["errors=0", "errors=0"]);
+    const db = new SQLite(shared, { readonly: true });
+    expect(db.prepare("select n from contention").get()).toEqual({ n: 2 * rounds });
+    db.close();
+  }, 60_000);
+});
+
 describe("a full disk", () => {
   it("a write that does not fit fails clearly, rolls back, and leaves the database intact", async () => {
     const small = path.join(dir, "small.sqlite");
