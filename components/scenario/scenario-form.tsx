@@ -8,6 +8,7 @@ import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { FormErrors } from "../form/field";
+import { snapshotField } from "../form/field-snapshot";
 import { keptSubmit } from "../form/kept-submit";
 import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { PilotUpload } from "./pilot-upload";
@@ -23,6 +24,16 @@ const DESIGN_LABELS: Record<string, string> = {
   "time-to-event": "Time to event (log-rank)",
 };
 
+const SIDES = [
+  ["2", "Two-sided"],
+  ["1", "One-sided"],
+] as const;
+const EFFORT_RUNS = [
+  ["study", "whole study"],
+  ["enrolment", "during recruitment and visits"],
+] as const;
+const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
+
 /** The stored inputs as the form's strings. */
 function toFormValues(i: ScenarioInputs) {
   const s = (v: unknown) => (v === undefined || v === null ? "" : String(v));
@@ -35,7 +46,8 @@ function toFormValues(i: ScenarioInputs) {
   };
 }
 
-function Text({ meta, label, hint, wide }: { meta: FieldMetadata<unknown>; label: string; hint?: string; wide?: boolean }) {
+function Text({ meta: live, label, hint, wide }: { meta: FieldMetadata<unknown>; label: string; hint?: string; wide?: boolean }) {
+  const meta = snapshotField(live);
   const describedBy = [hint ? `${meta.id}-hint` : null, meta.errors?.length ? `${meta.id}-error` : null].filter(Boolean).join(" ") || undefined;
   return (
     <div className={`field ${wide ? "sm:col-span-2" : ""}`}>
@@ -54,6 +66,34 @@ function Text({ meta, label, hint, wide }: { meta: FieldMetadata<unknown>; label
           {meta.errors.join(" ")}
         </span>
       ) : null}
+    </div>
+  );
+}
+
+/** A labelled select; `options` are [value, label] pairs. */
+function Choice({ meta: live, label, options }: { meta: FieldMetadata<unknown>; label: string; options: readonly (readonly [string, string])[] }) {
+  const meta = snapshotField(live);
+  return (
+    <div className="field">
+      <label htmlFor={meta.id}>{label}</label>
+      <select {...getSelectProps(meta as FieldMetadata<string>)} key={meta.key} className="input">
+        {options.map(([v, l]) => (
+          <option key={v} value={v}>
+            {l}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
+function Rationale({ meta: live }: { meta: FieldMetadata<unknown> }) {
+  const meta = snapshotField(live);
+  return (
+    <div className="field sm:col-span-2">
+      <label htmlFor={meta.id}>Where the target effect comes from</label>
+      <textarea {...getTextareaProps(meta as FieldMetadata<string>)} key={meta.key} rows={2} className="input" />
+      {meta.errors ? <span className="error">{meta.errors.join(" ")}</span> : null}
     </div>
   );
 }
@@ -161,25 +201,10 @@ export function ScenarioForm({
         </div>
         <Section title="Design" id="sec-design">
           <div className="grid gap-4 sm:grid-cols-2">
-            <div className="field">
-              <label htmlFor={d.design.id}>Design</label>
-              <select {...getSelectProps(d.design)} key={d.design.key} className="input">
-                {Object.entries(DESIGN_LABELS).map(([v, l]) => (
-                  <option key={v} value={v}>
-                    {l}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <Choice meta={d.design} label="Design" options={Object.entries(DESIGN_LABELS)} />
             <Text meta={d.outcome} label="Primary outcome" />
             <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05" />
-            <div className="field">
-              <label htmlFor={d.sides.id}>Test</label>
-              <select {...getSelectProps(d.sides)} key={d.sides.key} className="input">
-                <option value="2">Two-sided</option>
-                <option value="1">One-sided</option>
-              </select>
-            </div>
+            <Choice meta={d.sides} label="Test" options={SIDES} />
             <Text meta={d.power} label="Target power" hint="e.g. 0.80 or 0.90" />
             {design !== "one-mean" ? <Text meta={d.allocationRatio} label="Allocation ratio (n2 / n1)" /> : null}
             {means ? (
@@ -210,11 +235,7 @@ export function ScenarioForm({
                 <Text meta={d.followUpMonths} label="Further follow-up (months)" />
               </>
             ) : null}
-            <div className="field sm:col-span-2">
-              <label htmlFor={d.targetRationale.id}>Where the target effect comes from</label>
-              <textarea {...getTextareaProps(d.targetRationale)} key={d.targetRationale.key} rows={2} className="input" />
-              {d.targetRationale.errors ? <span className="error">{d.targetRationale.errors.join(" ")}</span> : null}
-            </div>
+            <Rationale meta={d.targetRationale} />
             <Text meta={d.sdSource} label="Where the SD or control proportion comes from" wide />
           </div>
           <PilotUpload studyId={studyId} kind={proportions ? "proportion" : "sd"} />
@@ -260,25 +281,10 @@ export function ScenarioForm({
             return (
               <div key={p.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_6rem_1fr_auto]">
                 <Text meta={f.role} label="Role" />
-                <div className="field">
-                  <label htmlFor={f.fringeCategory.id}>Staff category</label>
-                  <select {...getSelectProps(f.fringeCategory)} key={f.fringeCategory.key} className="input">
-                    {fringeCategories.map((c) => (
-                      <option key={c} value={c}>
-                        {c}
-                      </option>
-                    ))}
-                  </select>
-                </div>
+                <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
                 <Text meta={f.effortPercent} label="Effort %" />
-                <div className="field">
-                  <label htmlFor={f.follows.id}>Effort runs</label>
-                  <select {...getSelectProps(f.follows)} key={f.follows.key} className="input">
-                    <option value="study">whole study</option>
-                    <option value="enrolment">during recruitment and visits</option>
-                  </select>
-                </div>
+                <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
                 <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger py-1">
                   Remove
                 </button>
@@ -299,19 +305,10 @@ export function ScenarioForm({
             return (
               <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_auto_auto]">
                 <Text meta={f.label} label="Item" />
-                <div className="field">
-                  <label htmlFor={f.category.id}>Category</label>
-                  <select {...getSelectProps(f.category)} key={f.category.key} className="input">
-                    {COST_CATEGORIES.map((c) => (
-                      <option key={c} value={c}>
-                        {c}
-                      </option>
-                    ))}
-                  </select>
-                </div>
+                <Choice meta={f.category} label="Category" options={COST_OPTIONS} />
                 <Text meta={f.perPeriod} label="Per budget period" />
                 <label className="flex items-center gap-1.5 pb-2 text-sm">
-                  <input {...getInputProps(f.escalate, { type: "checkbox" })} key={f.escalate.key} /> escalate
+                  <input {...getInputProps(snapshotField(f.escalate), { type: "checkbox" })} key={f.escalate.key} /> escalate
                 </label>
                 <button {...form.remove.getButtonProps({ name: i.other.name, index: idx })} className="btn btn-danger py-1">
                   Remove
