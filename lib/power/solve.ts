@@ -82,26 +82,38 @@ function finish(
   };
 }
 
+/**
+ * The branch every design shares. The sample size left out is solved for the given effect at the
+ * target power; else the effect left out is solved for the given size; else power is computed.
+ */
+function solveLeftOut<S, E>(
+  given: { size: S | undefined; effect: E | undefined; power: number | undefined },
+  solveFor: { size: (effect: E) => S; effect: (size: S) => E; power: (effect: E, size: S) => number },
+): { size: S; effect: E; power: number; solvedFor: PowerResult["solvedFor"] } {
+  if (given.size === undefined) {
+    const size = solveFor.size(given.effect!);
+    return { size, effect: given.effect!, power: solveFor.power(given.effect!, size), solvedFor: "n" };
+  }
+  if (given.effect === undefined) return { size: given.size, effect: solveFor.effect(given.size), power: given.power!, solvedFor: "effect" };
+  return { size: given.size, effect: given.effect, power: solveFor.power(given.effect, given.size), solvedFor: "power" };
+}
+
+/** Both arms from n1 (and n2, or the allocation ratio), when the caller gave n1. */
+const givenArms = (v: { n1?: number; n2?: number; allocationRatio: number }) =>
+  v.n1 === undefined ? undefined : { n1: v.n1, n2: v.n2 ?? secondArm(v.n1, v.allocationRatio) };
+
 function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio };
   const { d: given, sdUsed, pilot } = standardized(v);
-  let n1: number, n2: number, d: number, power: number, solvedFor: PowerResult["solvedFor"];
-  if (v.n1 === undefined) {
-    d = given!;
-    ({ n1, n2 } = twoMeansN(d, v.power!, s));
-    solvedFor = "n";
-  } else {
-    n1 = v.n1;
-    n2 = v.n2 ?? secondArm(n1, v.allocationRatio);
-    if (given === undefined) {
-      d = twoMeansEffect(v.power!, n1, n2, s);
-      solvedFor = "effect";
-    } else {
-      d = given;
-      solvedFor = "power";
-    }
-  }
-  power = solvedFor === "effect" ? v.power! : twoMeansPower(d, n1, n2, s);
+  const {
+    size: { n1, n2 },
+    effect: d,
+    power,
+    solvedFor,
+  } = solveLeftOut(
+    { size: givenArms(v), effect: given, power: v.power },
+    { size: (d) => twoMeansN(d, v.power!, s), effect: (a) => twoMeansEffect(v.power!, a.n1, a.n2, s), power: (d, a) => twoMeansPower(d, a.n1, a.n2, s) },
+  );
   return finish(
     v,
     {
@@ -123,21 +135,15 @@ function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
 function solveOneMean(v: Parsed<"one-mean">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides };
   const { d: given, sdUsed, pilot } = standardized(v);
-  let n: number, d: number, solvedFor: PowerResult["solvedFor"];
-  if (v.n1 === undefined) {
-    d = given!;
-    n = oneMeanN(d, v.power!, s);
-    solvedFor = "n";
-  } else if (given === undefined) {
-    n = v.n1;
-    d = oneMeanEffect(v.power!, n, s);
-    solvedFor = "effect";
-  } else {
-    n = v.n1;
-    d = given;
-    solvedFor = "power";
-  }
-  const power = solvedFor === "effect" ? v.power! : oneMeanPower(d, n, s);
+  const {
+    size: n,
+    effect: d,
+    power,
+    solvedFor,
+  } = solveLeftOut(
+    { size: v.n1, effect: given, power: v.power },
+    { size: (d) => oneMeanN(d, v.power!, s), effect: (n) => oneMeanEffect(v.power!, n, s), power: (d, n) => oneMeanPower(d, n, s) },
+  );
   return finish(
     v,
     {
@@ -158,23 +164,19 @@ function solveOneMean(v: Parsed<"one-mean">): PowerResult {
 
 function solveTwoProportions(v: Parsed<"two-proportions">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, method: v.method };
-  let n1: number, n2: number, p2: number, solvedFor: PowerResult["solvedFor"];
-  if (v.n1 === undefined) {
-    p2 = v.p2!;
-    ({ n1, n2 } = proportionsN(v.p1, p2, v.power!, s));
-    solvedFor = "n";
-  } else {
-    n1 = v.n1;
-    n2 = v.n2 ?? secondArm(n1, v.allocationRatio);
-    if (v.p2 === undefined) {
-      p2 = proportionsEffect(v.p1, v.direction, v.power!, n1, n2, s);
-      solvedFor = "effect";
-    } else {
-      p2 = v.p2;
-      solvedFor = "power";
-    }
-  }
-  const power = solvedFor === "effect" ? v.power! : proportionsPower(v.p1, p2, n1, n2, s);
+  const {
+    size: { n1, n2 },
+    effect: p2,
+    power,
+    solvedFor,
+  } = solveLeftOut(
+    { size: givenArms(v), effect: v.p2, power: v.power },
+    {
+      size: (p2) => proportionsN(v.p1, p2, v.power!, s),
+      effect: (a) => proportionsEffect(v.p1, v.direction, v.power!, a.n1, a.n2, s),
+      power: (p2, a) => proportionsPower(v.p1, p2, a.n1, a.n2, s),
+    },
+  );
   const h = cohenH(v.p1, p2);
   return finish(
     v,
@@ -208,26 +210,26 @@ function clusterFields(v: Parsed<"cluster-two-means" | "cluster-two-proportions"
   };
 }
 
+/** Both arms' clusters, when the caller gave the clusters per arm. */
+const givenClusters = (v: { clustersPerArm?: number; allocationRatio: number }) =>
+  v.clustersPerArm === undefined ? undefined : { k1: v.clustersPerArm, k2: secondArm(v.clustersPerArm, v.allocationRatio) };
+
 function solveClusterMeans(v: Parsed<"cluster-two-means">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, clusterSize: v.clusterSize, icc: v.icc, cv: v.cv };
   const { d: given, sdUsed, pilot } = standardized(v);
-  let k1: number, k2: number, d: number, solvedFor: PowerResult["solvedFor"];
-  if (v.clustersPerArm === undefined) {
-    d = given!;
-    ({ k1, k2 } = clusterMeansClusters(d, v.power!, s));
-    solvedFor = "n";
-  } else {
-    k1 = v.clustersPerArm;
-    k2 = secondArm(k1, v.allocationRatio);
-    if (given === undefined) {
-      d = clusterMeansEffect(v.power!, k1, k2, s);
-      solvedFor = "effect";
-    } else {
-      d = given;
-      solvedFor = "power";
-    }
-  }
-  const power = solvedFor === "effect" ? v.power! : clusterMeansPower(d, k1, k2, s);
+  const {
+    size: { k1, k2 },
+    effect: d,
+    power,
+    solvedFor,
+  } = solveLeftOut(
+    { size: givenClusters(v), effect: given, power: v.power },
+    {
+      size: (d) => clusterMeansClusters(d, v.power!, s),
+      effect: (c) => clusterMeansEffect(v.power!, c.k1, c.k2, s),
+      power: (d, c) => clusterMeansPower(d, c.k1, c.k2, s),
+    },
+  );
   const fields = clusterFields(v, k1, k2);
   return finish(
     v,
@@ -251,31 +253,25 @@ function solveClusterProportions(v: Parsed<"cluster-two-proportions">): PowerRes
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, method: "normal" as const, designEffect: de };
   const m = v.clusterSize;
   const powerAt = (p2: number, k1: number, k2: number) => proportionsPower(v.p1, p2, k1 * m, k2 * m, s);
-  let k1: number, k2: number, p2: number, solvedFor: PowerResult["solvedFor"];
-  if (v.clustersPerArm === undefined) {
-    p2 = v.p2!;
-    // Search clusters directly: participants are k·m̄ per arm.
+  // Search clusters directly: participants are k·m̄ per arm.
+  const clustersFor = (p2: number) => {
     const perArm = proportionsN(v.p1, p2, v.power!, s);
-    const start = Math.max(2, Math.ceil(perArm.n1 / m));
-    k1 = start;
+    let k1 = Math.max(2, Math.ceil(perArm.n1 / m));
     while (k1 > 2 && powerAt(p2, k1 - 1, secondArm(k1 - 1, v.allocationRatio)) >= v.power!) k1--;
     while (powerAt(p2, k1, secondArm(k1, v.allocationRatio)) < v.power!) {
       if (++k1 > MAX_N_PER_ARM) throw new UnreachableError("No number of clusters up to 10,000,000 per arm reaches the target power.");
     }
-    k2 = secondArm(k1, v.allocationRatio);
-    solvedFor = "n";
-  } else {
-    k1 = v.clustersPerArm;
-    k2 = secondArm(k1, v.allocationRatio);
-    if (v.p2 === undefined) {
-      p2 = proportionsEffect(v.p1, v.direction, v.power!, k1 * m, k2 * m, s);
-      solvedFor = "effect";
-    } else {
-      p2 = v.p2;
-      solvedFor = "power";
-    }
-  }
-  const power = solvedFor === "effect" ? v.power! : powerAt(p2, k1, k2);
+    return { k1, k2: secondArm(k1, v.allocationRatio) };
+  };
+  const {
+    size: { k1, k2 },
+    effect: p2,
+    power,
+    solvedFor,
+  } = solveLeftOut(
+    { size: givenClusters(v), effect: v.p2, power: v.power },
+    { size: clustersFor, effect: (c) => proportionsEffect(v.p1, v.direction, v.power!, c.k1 * m, c.k2 * m, s), power: (p2, c) => powerAt(p2, c.k1, c.k2) },
+  );
   const fields = clusterFields(v, k1, k2);
   const h = cohenH(v.p1, p2);
   return finish(
