@@ -105,12 +105,7 @@ const givenArms = (v: { n1?: number; n2?: number; allocationRatio: number }) =>
 function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio };
   const { d: given, sdUsed, pilot } = standardized(v);
-  const {
-    size: { n1, n2 },
-    effect: d,
-    power,
-    solvedFor,
-  } = solveLeftOut(
+  const { size: { n1, n2 }, effect: d, power, solvedFor } = solveLeftOut(
     { size: givenArms(v), effect: given, power: v.power },
     { size: (d) => twoMeansN(d, v.power!, s), effect: (a) => twoMeansEffect(v.power!, a.n1, a.n2, s), power: (d, a) => twoMeansPower(d, a.n1, a.n2, s) },
   );
@@ -135,12 +130,7 @@ function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
 function solveOneMean(v: Parsed<"one-mean">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides };
   const { d: given, sdUsed, pilot } = standardized(v);
-  const {
-    size: n,
-    effect: d,
-    power,
-    solvedFor,
-  } = solveLeftOut(
+  const { size: n, effect: d, power, solvedFor } = solveLeftOut(
     { size: v.n1, effect: given, power: v.power },
     { size: (d) => oneMeanN(d, v.power!, s), effect: (n) => oneMeanEffect(v.power!, n, s), power: (d, n) => oneMeanPower(d, n, s) },
   );
@@ -164,12 +154,7 @@ function solveOneMean(v: Parsed<"one-mean">): PowerResult {
 
 function solveTwoProportions(v: Parsed<"two-proportions">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, method: v.method };
-  const {
-    size: { n1, n2 },
-    effect: p2,
-    power,
-    solvedFor,
-  } = solveLeftOut(
+  const { size: { n1, n2 }, effect: p2, power, solvedFor } = solveLeftOut(
     { size: givenArms(v), effect: v.p2, power: v.power },
     {
       size: (p2) => proportionsN(v.p1, p2, v.power!, s),
@@ -217,12 +202,7 @@ const givenClusters = (v: { clustersPerArm?: number; allocationRatio: number }) 
 function solveClusterMeans(v: Parsed<"cluster-two-means">): PowerResult {
   const s = { alpha: v.alpha, sides: v.sides, allocationRatio: v.allocationRatio, clusterSize: v.clusterSize, icc: v.icc, cv: v.cv };
   const { d: given, sdUsed, pilot } = standardized(v);
-  const {
-    size: { k1, k2 },
-    effect: d,
-    power,
-    solvedFor,
-  } = solveLeftOut(
+  const { size: { k1, k2 }, effect: d, power, solvedFor } = solveLeftOut(
     { size: givenClusters(v), effect: given, power: v.power },
     {
       size: (d) => clusterMeansClusters(d, v.power!, s),
@@ -263,12 +243,7 @@ function solveClusterProportions(v: Parsed<"cluster-two-proportions">): PowerRes
     }
     return { k1, k2: secondArm(k1, v.allocationRatio) };
   };
-  const {
-    size: { k1, k2 },
-    effect: p2,
-    power,
-    solvedFor,
-  } = solveLeftOut(
+  const { size: { k1, k2 }, effect: p2, power, solvedFor } = solveLeftOut(
     { size: givenClusters(v), effect: v.p2, power: v.power },
     { size: clustersFor, effect: (c) => proportionsEffect(v.p1, v.direction, v.power!, c.k1 * m, c.k2 * m, s), power: (p2, c) => powerAt(p2, c.k1, c.k2) },
   );
