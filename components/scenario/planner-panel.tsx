@@ -26,7 +26,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
   if (isLoading || !data) return <p className="text-ink-soft">Working out what the budget buys…</p>;
   const bars = data.sensitivity.map((r) => ({ assumption: r.assumption, spread: Math.round(r.costSpread) }));
   return (
-    <div className="grid gap-4 lg:grid-cols-2">
+    <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
       <section className="card" aria-labelledby="cap-buys">
         <h2 id="cap-buys">What the cap buys</h2>
         {data.capBuys ? (
@@ -50,7 +50,8 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </p>
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
-              <table className="table mt-2 text-sm">
+              <div className="mt-2 relative overflow-x-auto">
+              <table className="table text-sm">
                 <TableHead columns={[data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites", { label: "n per arm", num: true }, { label: "Months", num: true }, { label: "Total", num: true }]} />
                 <tbody>
                   {data.cheapest.alternatives.map((a, k) => (
@@ -63,6 +64,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
                   ))}
                 </tbody>
               </table>
+              </div>
             </details>
           </>
         ) : (
@@ -83,7 +85,8 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </BarChart>
           </ResponsiveContainer>
         </div>
-        <table className="table mt-2 text-sm" data-testid="sensitivity-table">
+        <div className="mt-2 relative overflow-x-auto">
+        <table className="table text-sm" data-testid="sensitivity-table">
           <TableHead columns={["Assumption", "Low", "Base", "High"]} />
           <tbody>
             {data.sensitivity.map((r) => (
@@ -99,6 +102,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             ))}
           </tbody>
         </table>
+        </div>
       </section>
     </div>
   );

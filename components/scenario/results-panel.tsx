@@ -65,7 +65,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
             : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
         </p>
       ) : null}
-      <div className="overflow-x-auto">
+      <div className="relative overflow-x-auto">
         <table className="table" aria-label="Cost by budget period">
           <thead>
             <tr>
@@ -98,7 +98,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       </div>
       <details>
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
-        <div className="mt-2 overflow-x-auto">
+        <div className="mt-2 relative overflow-x-auto">
           <table className="table text-sm">
             <TableHead columns={["Line", "Category", { label: "Total", num: true }]} />
             <tbody>

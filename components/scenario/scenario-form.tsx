@@ -29,8 +29,8 @@ const SIDES = [
   ["1", "One-sided"],
 ] as const;
 const EFFORT_RUNS = [
-  ["study", "whole study"],
-  ["enrolment", "during recruitment and visits"],
+  ["study", "the whole study"],
+  ["enrolment", "recruitment and visits"],
 ] as const;
 const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
 
@@ -100,7 +100,8 @@ function Rationale({ meta: live }: { meta: FieldMetadata<unknown> }) {
 
 function Section({ title, children, id }: { title: string; children: ReactNode; id: string }) {
   return (
-    <fieldset className="card flex flex-col gap-4" aria-labelledby={id}>
+    // min-w-0: a fieldset otherwise grows to its content's width and spills out of the form's column.
+    <fieldset className="card flex min-w-0 flex-col gap-4" aria-labelledby={id}>
       <legend className="sr-only">{title}</legend>
       <h2 id={id}>{title}</h2>
       {children}
@@ -181,7 +182,7 @@ export function ScenarioForm({
 
   return (
     <ScenarioIdContext value={scenarioId ?? null}>
-    <div className="grid gap-6 xl:grid-cols-5">
+    <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
       <form
         {...getFormProps(form)}
         ref={formRef}
@@ -264,7 +265,7 @@ export function ScenarioForm({
                 <Text meta={f.name} label={`Visit ${idx + 1}`} />
                 <Text meta={f.month} label="Month" />
                 <Text meta={f.procedures} label="Procedures (codes)" hint="From the rate book, comma-separated" />
-                <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger py-1">
+                <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
               </div>
@@ -279,13 +280,13 @@ export function ScenarioForm({
           {personnel.map((p, idx) => {
             const f = p.getFieldset();
             return (
-              <div key={p.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_6rem_1fr_auto]">
+              <div key={p.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
                 <Text meta={f.effortPercent} label="Effort %" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
-                <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger py-1">
+                <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
               </div>
@@ -303,14 +304,14 @@ export function ScenarioForm({
           {other.map((o, idx) => {
             const f = o.getFieldset();
             return (
-              <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[2fr_1fr_1fr_auto_auto]">
+              <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.label} label="Item" />
                 <Choice meta={f.category} label="Category" options={COST_OPTIONS} />
                 <Text meta={f.perPeriod} label="Per budget period" />
                 <label className="flex items-center gap-1.5 pb-2 text-sm">
                   <input {...getInputProps(snapshotField(f.escalate), { type: "checkbox" })} key={f.escalate.key} /> escalate
                 </label>
-                <button {...form.remove.getButtonProps({ name: i.other.name, index: idx })} className="btn btn-danger py-1">
+                <button {...form.remove.getButtonProps({ name: i.other.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
               </div>

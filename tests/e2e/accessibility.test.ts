@@ -77,6 +77,27 @@ describe("accessibility (axe-core, serious and critical)", () => {
     }
   });
 
+  it("every main page fits a 390-pixel phone screen: only a table's own scroll area is wider", async () => {
+    const sideways = async (page: Page, path: string) => {
+      await page.goto(`${baseUrl}${path}`);
+      await page.waitForLoadState("networkidle");
+      return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    };
+    const signedOut = await signedInPage(browser, baseUrl, null, { width: 390 });
+    expect(await sideways(signedOut, "/sign-in"), "/sign-in").toBeLessThanOrEqual(0);
+    const pi = await signedInPage(browser, baseUrl, "pi@demo.test", { width: 390 });
+    const ids = await pi.evaluate(async () => ((await (await fetch("/api/v1/studies/1/scenarios")).json()).scenarios as { id: number }[]).map((s) => s.id));
+    const piPages = ["/studies", "/studies/1", "/studies/1/calculator", ...ids.map((id) => `/studies/1/scenarios/${id}`), `/studies/1/compare?ids=${ids.slice(0, 2).join("&ids=")}`];
+    for (const path of piPages) expect(await sideways(pi, path), path).toBeLessThanOrEqual(0);
+    // The co-investigator sees the read-only scenario layout.
+    const coi = await signedInPage(browser, baseUrl, "coi@demo.test", { width: 390 });
+    for (const id of ids) expect(await sideways(coi, `/studies/1/scenarios/${id}`), `co-investigator /studies/1/scenarios/${id}`).toBeLessThanOrEqual(0);
+    const grants = await signedInPage(browser, baseUrl, "grants@demo.test", { width: 390 });
+    for (const path of ["/rate-book", "/rate-book/1", "/rate-book/compare", "/rate-book/audit"]) expect(await sideways(grants, path), path).toBeLessThanOrEqual(0);
+    const admin = await signedInPage(browser, baseUrl, "admin@demo.test", { width: 390 });
+    for (const path of ["/admin/accounts", "/admin/outbox"]) expect(await sideways(admin, path), path).toBeLessThanOrEqual(0);
+  }, 90_000);
+
   it("the sign-in form works by keyboard alone", async () => {
     const page = await pageAs(null);
     await page.goto(`${baseUrl}/sign-in`);

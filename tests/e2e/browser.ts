@@ -36,9 +36,9 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
 }
 
-/** A fresh context at desktop size, signed in as `email` (or signed out with null). */
-export async function pageAs(browser: Browser, baseUrl: string, email: string | null, opts: { bypassCSP?: boolean } = {}): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, bypassCSP: opts.bypassCSP ?? false });
+/** A fresh context (desktop size unless told), signed in as `email` (or signed out with null). */
+export async function pageAs(browser: Browser, baseUrl: string, email: string | null, opts: { bypassCSP?: boolean; width?: number } = {}): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: opts.width ?? 1280, height: 900 }, bypassCSP: opts.bypassCSP ?? false });
   const page = await context.newPage();
   if (email) await signIn(page, baseUrl, email);
   return page;

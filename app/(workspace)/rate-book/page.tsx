@@ -34,7 +34,7 @@ export default async function RateBookPage() {
           ) : null}
         </div>
       </div>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table">
           <TableHead columns={["Edition", "Effective from", "Status", "Published"]} />
           <tbody>

@@ -28,7 +28,7 @@ export default async function StudiesPage() {
         <h1>Studies</h1>
         <p className="text-ink-soft">{scope}</p>
       </div>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         {studies.length === 0 ? (
           <p className="p-5">No studies yet.</p>
         ) : (

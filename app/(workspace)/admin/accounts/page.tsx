@@ -25,7 +25,7 @@ export default async function AccountsPage() {
         <h1>Accounts</h1>
         <p className="text-ink-soft">Who can sign in, and in which role. Changes take effect on the person&apos;s next request.</p>
       </div>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table">
           <TableHead columns={["Name", "E-mail", "Role", "Status", "Change"]} />
           <tbody>

@@ -53,7 +53,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
       ) : null}
       {e.status === "published" ? <p className="notice">This edition is published and read-only. To change rates, start a new draft from the rate book page.</p> : null}
 
-      <section className="card overflow-x-auto p-0" aria-labelledby="settings">
+      <section className="card relative overflow-x-auto p-0" aria-labelledby="settings">
         <h2 id="settings" className="px-5 pt-4">
           Rates and settings
         </h2>
@@ -86,7 +86,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         </table>
       </section>
 
-      <section className="card overflow-x-auto p-0" aria-labelledby="fringe">
+      <section className="card relative overflow-x-auto p-0" aria-labelledby="fringe">
         <h2 id="fringe" className="px-5 pt-4">
           Fringe rates by staff category
         </h2>
@@ -123,7 +123,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         ) : null}
       </section>
 
-      <section className="card overflow-x-auto p-0" aria-labelledby="procedures">
+      <section className="card relative overflow-x-auto p-0" aria-labelledby="procedures">
         <h2 id="procedures" className="px-5 pt-4">
           Procedure catalogue
         </h2>

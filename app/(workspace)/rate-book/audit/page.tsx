@@ -25,7 +25,7 @@ export default async function AuditPage() {
       </nav>
       <h1>Change history</h1>
       <p className="text-ink-soft">Every change to a rate-book edition: who, when, which field, the old and the new value.</p>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table" data-testid="audit">
           <TableHead columns={["When (UTC)", "Who", "Edition", "What", "Field", { label: "Old", num: true }, { label: "New", num: true }]} />
           <tbody>

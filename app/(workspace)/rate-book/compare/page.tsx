@@ -52,7 +52,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
         </button>
       </form>
       <p className="text-sm text-ink-soft">Changed values are highlighted.</p>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table">
           <TableHead columns={["Rate", { label: a.label, num: true }, { label: b.label, num: true }]} />
           <tbody>

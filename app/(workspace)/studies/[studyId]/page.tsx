@@ -47,7 +47,7 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
           </div>
         </dl>
       </header>
-      <section className="card overflow-x-auto p-0" aria-labelledby="scenarios-heading">
+      <section className="card relative overflow-x-auto p-0" aria-labelledby="scenarios-heading">
         <div className="flex flex-wrap items-center justify-between gap-3 px-5 pt-4">
           <h2 id="scenarios-heading">Scenarios</h2>
           {mayCreate ? (

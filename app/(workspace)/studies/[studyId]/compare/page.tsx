@@ -93,7 +93,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
           Download the comparison workbook
         </a>
       </div>
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table" data-testid="comparison">
           <thead>
             <tr>

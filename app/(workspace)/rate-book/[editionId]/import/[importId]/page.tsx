@@ -38,7 +38,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
           </ul>
         </section>
       ) : null}
-      <div className="card overflow-x-auto p-0">
+      <div className="card relative overflow-x-auto p-0">
         <table className="table">
           <TableHead columns={["Row", "Section", "Key", { label: "Now", num: true }, { label: "From the sheet", num: true }, "Effect"]} />
           <tbody>

@@ -87,7 +87,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           fringeCategories={edition.fringe.map((f) => f.category)}
         />
       ) : (
-        <div className="grid gap-6 xl:grid-cols-5">
+        <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
           <section className="card xl:col-span-3" aria-labelledby="results-heading">
             <h2 id="results-heading" className="mb-3">
               Results
