@@ -3,13 +3,14 @@
  * others keep answering, and stopping the server stops every worker. Its own server and database,
  * so the shared one the other browser tests use is never disturbed.
  */
-import { execFileSync } from "node:child_process";
+import { execFileSync, spawn } from "node:child_process";
+import net from "node:net";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { migrate } from "@/scripts/migrate";
-import { freeLoopbackPort, startProductionServer, type RunningServer } from "@/scripts/serve";
+import { freeLoopbackPort, root, startProductionServer, type RunningServer } from "@/scripts/serve";
 
 let server: RunningServer;
 let tmp = "";
@@ -81,4 +82,25 @@ describe("server workers", () => {
     await server.stop();
     await until("the workers to exit", () => (workers.every((w) => !alive(w)) ? true : undefined), 15_000);
   }, 30_000);
+
+  it("a server that cannot start (its port is taken) stops with an error instead of restarting workers for ever", async () => {
+    const taken = net.createServer();
+    await new Promise<void>((r) => taken.listen(0, "127.0.0.1", r));
+    const port = (taken.address() as net.AddressInfo).port;
+    try {
+      const child = spawn(process.execPath, [path.join(root, "scripts/start.mjs"), "-p", String(port), "-H", "127.0.0.1"], {
+        cwd: root,
+        env: { ...process.env, NODE_ENV: "production", WEB_WORKERS: "2", DATABASE_PATH: path.join(tmp, "unused.sqlite"), SESSION_SECRET: "workers-secret-0123456789-0123456789-0123" },
+        stdio: ["ignore", "pipe", "pipe"],
+      });
+      let err = "";
+      child.stderr.on("data", (d: Buffer) => (err += d.toString()));
+      const code = await new Promise<number | null>((r) => child.once("exit", r));
+      expect(code).toBe(1);
+      expect(err).toContain("EADDRINUSE");
+      expect(err).toContain("workers keep dying at start-up; stopping");
+    } finally {
+      taken.close();
+    }
+  }, 60_000);
 });
