@@ -179,4 +179,14 @@ describe("delivery guarantees", () => {
     await deliverPending({ now: later(300) });
     expect(inbox("never@demo.test").length).toBe(0);
   });
+  it("two senders at once (as the server's workers run) deliver each message exactly once", async () => {
+    await deliverPending({ now: later(400) }); // what earlier tests queued
+    const to = (k: number) => `twice-${k}@demo.test`;
+    await getDb()
+      .transaction()
+      .execute((trx) => enqueueMail(trx, [0, 1, 2, 3, 4].map((k) => commentMail({ to: to(k), author: "A", scenario: "S", body: `message ${k}`, link: "http://localhost:3000/", reply: false }))));
+    const [a, b] = await Promise.all([deliverPending({ now: later(500) }), deliverPending({ now: later(500) })]);
+    expect(a.sent + b.sent).toBe(5);
+    for (const k of [0, 1, 2, 3, 4]) expect(inbox(to(k)).length, to(k)).toBe(1);
+  });
 });
