@@ -60,8 +60,23 @@ function pointAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: num
   }
 }
 
+type CurveOptions = { points?: number; maxBudget?: number; referenceTotal?: number };
+
 /** Up to `points` points from the cheapest viable study to `maxBudget` (default 1.5 × the cap or the scenario's own total). */
-export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: { points?: number; maxBudget?: number; referenceTotal?: number } = {}): ReachCurve {
+export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: CurveOptions = {}): ReachCurve {
+  const steps = reachCurveSteps(i, rates, study, opts);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * The same curve as a generator that pauses after each priced sample size, so that a server can
+ * hand the event loop to other requests between steps (lib/server/curve-cache.ts): a 512-point
+ * curve is tens of milliseconds of arithmetic.
+ */
+export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: CurveOptions = {}): Generator<void, ReachCurve, void> {
   const count = Math.max(8, Math.min(512, opts.points ?? 64));
   const cap = study.sponsorCap ? Number(study.sponsorCap) : null;
   const maxBudget = opts.maxBudget ?? 1.5 * Math.max(cap ?? 0, opts.referenceTotal ?? 0, 1);
@@ -78,11 +93,13 @@ export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyConte
   let hi = nMin * 2;
   let hiBudget = budgetAt(hi);
   while (hiBudget !== null && hiBudget <= maxBudget && hi < 2_000_000) {
+    yield;
     lo = hi;
     hi *= 2;
     hiBudget = budgetAt(hi);
   }
   while (hi - lo > 1) {
+    yield;
     const mid = Math.floor((lo + hi) / 2);
     const b = budgetAt(mid);
     if (b !== null && b <= maxBudget) lo = mid;
@@ -94,10 +111,12 @@ export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyConte
   const a = Math.sqrt(nMin);
   const b = Math.sqrt(nMax);
   for (let k = 0; k < count; k++) ns.add(Math.round((a + ((b - a) * k) / Math.max(1, count - 1)) ** 2));
-  const points = [...ns]
-    .sort((x, y) => x - y)
-    .map((n) => at(n))
-    .filter((p): p is CurvePoint => p !== null)
-    .sort((x, y) => x.budget - y.budget);
+  const points: CurvePoint[] = [];
+  for (const n of [...ns].sort((x, y) => x - y)) {
+    yield;
+    const p = at(n);
+    if (p) points.push(p);
+  }
+  points.sort((x, y) => x.budget - y.budget);
   return { points, effectName, minBudget: first.budget, maxBudget };
 }

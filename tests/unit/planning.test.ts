@@ -7,7 +7,8 @@ import Decimal from "decimal.js";
 import { describe, expect, it } from "vitest";
 import { computeLedger } from "@/lib/costing";
 import { computeScenario, costInputs, studyAt, whatCapBuys } from "@/lib/planning/compute";
-import { reachCurve } from "@/lib/planning/curve";
+import { reachCurve, reachCurveSteps } from "@/lib/planning/curve";
+import { reachCurveCached } from "@/lib/server/curve-cache";
 import { generateJustification } from "@/lib/planning/justification";
 import { cheapestDesign, raudenbushOptimalClusterSize } from "@/lib/planning/optimiser";
 import { sensitivity } from "@/lib/planning/sensitivity";
@@ -51,6 +52,36 @@ describe("the reach curve", () => {
   });
   it("its approximate budgets agree with the exact ledger to within a dollar", () => {
     for (const p of curve.points.filter((_, k) => k % 8 === 0)) expect(Math.abs(p.budget - exactTotal(p.n).toNumber())).toBeLessThan(1);
+  });
+});
+
+describe("the reach curve on a server", () => {
+  it("in steps it is the same curve, paused once per priced sample size", () => {
+    const steps = reachCurveSteps(six, rates, study, { points: 64 });
+    let pauses = 0;
+    let step = steps.next();
+    while (!step.done) {
+      pauses++;
+      step = steps.next();
+    }
+    expect(step.value).toEqual(reachCurve(six, rates, study, { points: 64 }));
+    expect(pauses).toBeGreaterThan(64);
+  });
+  it("a new curve lets other work run while it is computed, and the same curve asked twice meanwhile is computed once", async () => {
+    const assumptions = { ...six, design: { ...six.design, sd: 2.345 } };
+    let ticks = 0;
+    let ticking = true;
+    const tick = () => {
+      ticks++;
+      if (ticking) setImmediate(tick);
+    };
+    setImmediate(tick);
+    const [a, b] = await Promise.all([reachCurveCached(assumptions, rates, study, { points: 512 }), reachCurveCached(assumptions, rates, study, { points: 512 })]);
+    ticking = false;
+    expect(a).toBe(b);
+    expect(a).toEqual(reachCurve(assumptions, rates, study, { points: 512 }));
+    expect(ticks).toBeGreaterThan(2);
+    expect(await reachCurveCached(assumptions, rates, study, { points: 512 })).toBe(a);
   });
 });
 

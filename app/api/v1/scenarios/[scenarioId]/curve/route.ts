@@ -11,7 +11,7 @@ type P = { scenarioId: string };
 
 async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs): Promise<CurveResponse> {
   const ctx = await scenarioContext(user, id);
-  const curve = reachCurveCached(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
+  const curve = await reachCurveCached(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
   return { ...curve, cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null, targetEffect: ctx.results.targetEffect, markers: await scenarioMarkers(user, ctx.studyId) };
 }
 

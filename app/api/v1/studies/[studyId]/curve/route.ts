@@ -20,7 +20,7 @@ export const POST = withUser<{ studyId: string }>(async ({ req, user, params }) 
   } catch (err) {
     throw new HttpError(422, "cannot-compute", (err as Error).message);
   }
-  const curve = reachCurveCached(inputs, rates, study, { points: points ?? 64, referenceTotal: total });
+  const curve = await reachCurveCached(inputs, rates, study, { points: points ?? 64, referenceTotal: total });
   const body: CurveResponse = { ...curve, cap: study.sponsorCap ? Number(study.sponsorCap) : null, targetEffect: target, markers: await scenarioMarkers(user, studyId) };
   return json({ curve: body });
 });
