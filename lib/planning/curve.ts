@@ -73,7 +73,7 @@ export function reachCurve(i: ScenarioInputs, rates: RateBook, study: StudyConte
 
 /**
  * The same curve as a generator that pauses after each priced sample size, so that a server can
- * hand the event loop to other requests between steps (lib/server/curve-cache.ts): a 512-point
+ * hand the event loop to other requests between steps (lib/server/planning-cache.ts): a 512-point
  * curve is tens of milliseconds of arithmetic.
  */
 export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: CurveOptions = {}): Generator<void, ReachCurve, void> {

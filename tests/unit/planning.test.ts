@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { computeLedger } from "@/lib/costing";
 import { computeScenario, costInputs, studyAt, whatCapBuys } from "@/lib/planning/compute";
 import { reachCurve, reachCurveSteps } from "@/lib/planning/curve";
-import { reachCurveCached } from "@/lib/server/curve-cache";
+import { plannerCached, reachCurveCached } from "@/lib/server/planning-cache";
 import { generateJustification } from "@/lib/planning/justification";
 import { cheapestDesign, raudenbushOptimalClusterSize } from "@/lib/planning/optimiser";
 import { sensitivity } from "@/lib/planning/sensitivity";
@@ -82,6 +82,15 @@ describe("the reach curve on a server", () => {
     expect(a).toEqual(reachCurve(assumptions, rates, study, { points: 512 }));
     expect(ticks).toBeGreaterThan(2);
     expect(await reachCurveCached(assumptions, rates, study, { points: 512 })).toBe(a);
+  });
+});
+
+describe("the planner's answers on a server", () => {
+  it("are the optimiser's and the sensitivity table's, computed once for the same arguments", () => {
+    const first = plannerCached(six, rates, study);
+    expect(first).toEqual({ cheapest: cheapestDesign(six, rates, study), sensitivity: sensitivity(six, rates, study) });
+    expect(plannerCached(six, rates, study)).toBe(first);
+    expect(plannerCached({ ...six, design: { ...six.design, sd: 2.5 } }, rates, study)).not.toBe(first);
   });
 });
 

@@ -2,7 +2,7 @@ import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { validationError } from "@/lib/http/errors";
 import { curveQuerySchema, previewSchema } from "@/lib/planning/api-schemas";
-import { reachCurveCached } from "@/lib/server/curve-cache";
+import { reachCurveCached } from "@/lib/server/planning-cache";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";

@@ -1,7 +1,7 @@
 import { scenarioMarkers, studyContextFor } from "@/db/queries/scenarios";
 import { previewSchema } from "@/lib/planning/api-schemas";
 import { computeScenario } from "@/lib/planning/compute";
-import { reachCurveCached } from "@/lib/server/curve-cache";
+import { reachCurveCached } from "@/lib/server/planning-cache";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import { HttpError } from "@/lib/auth/errors";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";
