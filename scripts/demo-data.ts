@@ -60,9 +60,9 @@ const base: ScenarioInputs = {
     { name: "Month 6", month: 6, procedures: ["NURSE-VISIT", "PROM-SET", "GAIT", "ACTIVITY-7D"] },
   ],
   personnel: [
-    { role: "Principal investigator", fringeCategory: "faculty", baseSalary: "195000", effortPercent: 20, follows: "study" },
-    { role: "Trial statistician", fringeCategory: "faculty", baseSalary: "140000", effortPercent: 10, follows: "study" },
-    { role: "Research coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent: 100, follows: "enrolment" },
+    { role: "Principal investigator", fringeCategory: "faculty", baseSalary: "195000", effortPercent: [20], follows: "study" },
+    { role: "Trial statistician", fringeCategory: "faculty", baseSalary: "140000", effortPercent: [10], follows: "study" },
+    { role: "Research coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent: [100], follows: "enrolment" },
   ],
   other: [
     { label: "Study supplies", category: "supplies", perPeriod: "4000", escalate: true },

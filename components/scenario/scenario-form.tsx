@@ -41,7 +41,7 @@ function toFormValues(i: ScenarioInputs) {
     design: Object.fromEntries(Object.entries(i.design).map(([k, v]) => [k, s(v)])),
     recruitment: Object.fromEntries(Object.entries(i.recruitment).map(([k, v]) => [k, s(v)])),
     visits: i.visits.map((v) => ({ name: v.name, month: s(v.month), procedures: v.procedures.join(", ") })),
-    personnel: i.personnel.map((p) => ({ ...p, effortPercent: s(p.effortPercent) })),
+    personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
   };
 }
@@ -284,7 +284,7 @@ export function ScenarioForm({
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
-                <Text meta={f.effortPercent} label="Effort %" />
+                <Text meta={f.effortPercent} label="Effort % by budget period" hint="One value, or one a period: 20, 20, 10 (the last repeats)" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
                 <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove

@@ -74,7 +74,7 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     },
     visits: i.visits.map((v) => ({ name: v.name, month: v.month, procedures: v.procedures.map((code) => ({ code })) })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
-    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: [p.effortPercent / 100], follows: p.follows })),
+    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
     other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
     caps: { total: study.sponsorCap },
   };

@@ -61,11 +61,30 @@ export const visitSchema = z.object({
     .transform((v) => (Array.isArray(v) ? v : v.split(/[\s,;]+/)).map((c) => c.trim().toUpperCase()).filter(Boolean)),
 });
 
+const EFFORT_HELP = "Effort: a percent, or one per budget period like 20, 20, 10.";
+
+/**
+ * Percent effort: one value for every budget period, or one per period ("20, 20, 10", the last
+ * repeating). Typed as text in the form, a number or a list over the API; stored as a list. Checked
+ * here as a whole so that the message belongs to the field, not to one item of it.
+ */
+const effortByPeriod = z.union([z.number(), z.string().max(200, "Effort: at most 200 characters."), z.array(z.number()).max(20)], { error: EFFORT_HELP }).transform((v, ctx) => {
+  const parts = Array.isArray(v) ? v : typeof v === "number" ? [v] : v.split(/[\s,;]+/).filter(Boolean).map((p) => (p.endsWith("%") ? p.slice(0, -1) : p));
+  const values = parts.map(Number);
+  const fail = (message: string) => (ctx.addIssue({ code: "custom", message }), z.NEVER);
+  if (values.length === 0) return fail("Effort: enter a percent.");
+  if (values.length > 20) return fail("Effort: at most 20 budget periods.");
+  if (values.some((x) => !Number.isFinite(x))) return fail(EFFORT_HELP);
+  if (values.some((x) => x <= 0)) return fail("Effort above 0% in every period.");
+  if (values.some((x) => x > 100)) return fail("Effort at most 100% in every period.");
+  return values;
+});
+
 export const personnelSchema = z.object({
   role: text("Role", 80).min(2, "Name the role."),
   fringeCategory: text("Staff category", 32).min(2, "Choose a staff category."),
   baseSalary: money("Base salary"),
-  effortPercent: n("Effort").gt(0, "Effort above 0%.").max(100, "Effort at most 100%."),
+  effortPercent: effortByPeriod,
   follows: z.enum(["study", "enrolment"]).default("study"),
 });
 

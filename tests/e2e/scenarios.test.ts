@@ -41,6 +41,20 @@ describe("the investigator's scenario workspace", () => {
     await page.getByText("Saved, with its results.").waitFor();
   });
 
+  it("sets a person's effort by budget period; a bad list names the field and keeps the text", async () => {
+    const effort = page.getByLabel("Effort % by budget period").first();
+    await effort.fill("20, 0");
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Effort above 0% in every period.").first().waitFor();
+    expect(await effort.inputValue()).toBe("20, 0");
+    await effort.fill("20, 15, 10");
+    const version = await page.getByText(/· version \d+/).textContent();
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.waitForFunction((v) => ![...document.querySelectorAll("p")].some((p) => p.textContent === v), version);
+    await page.getByText("Saved, with its results.").waitFor();
+    expect(await page.getByLabel("Effort % by budget period").first().inputValue()).toBe("20, 15, 10");
+  });
+
   it("compares two scenarios with the differences marked", async () => {
     await page.getByRole("link", { name: "WALK-KNEE" }).first().click();
     await page.getByLabel("Compare Six sites, 90% power").check();

@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { backupDatabase, integrityOk, restoreDatabase } from "@/db/backup";
 import { createKysely } from "@/db/connection";
 import { migrateToLatest } from "@/db/migrate";
+import { scenarioInputsSchema } from "@/lib/planning/schema";
 import { migrations } from "@/migrations";
 import { seedDemo } from "@/scripts/seed";
 import { dropDatabase, useFreshDatabase } from "../support/db";
@@ -210,6 +211,28 @@ describe("migrations keep every row", () => {
       await db.destroy();
     });
   }
+  it("personnel effort stored as one number becomes a one-period list; down again restores the number", async () => {
+    const f = path.join(dir, "effort.sqlite");
+    const db = createKysely(f);
+    const migrator = new Migrator({ db, provider: { getMigrations: async () => migrations } });
+    expect((await migrator.migrateTo("2026-12-01-0004-collaboration")).error).toBeUndefined();
+    await seedDemo(db);
+    const seeded = await db.selectFrom("scenarios").select(["id", "inputs_json", "results_json", "version"]).orderBy("id").execute();
+    // As the earlier schema stored them: one number per person.
+    for (const r of seeded) {
+      const inputs = JSON.parse(r.inputs_json);
+      for (const p of inputs.personnel) p.effortPercent = p.effortPercent[0];
+      await db.updateTable("scenarios").set({ inputs_json: JSON.stringify(inputs) }).where("id", "=", r.id).execute();
+    }
+    const older = await db.selectFrom("scenarios").select(["id", "inputs_json"]).orderBy("id").execute();
+    await migrateToLatest(db);
+    const after = await db.selectFrom("scenarios").select(["id", "inputs_json", "results_json", "version"]).orderBy("id").execute();
+    expect(after).toEqual(seeded);
+    for (const r of after) expect(scenarioInputsSchema.safeParse(JSON.parse(r.inputs_json)).success).toBe(true);
+    expect((await migrator.migrateTo("2026-12-01-0004-collaboration")).error).toBeUndefined();
+    expect(await db.selectFrom("scenarios").select(["id", "inputs_json"]).orderBy("id").execute()).toEqual(older);
+    await db.destroy();
+  });
   it("a database with the full demo data migrates again as a no-op", async () => {
     const f = path.join(dir, "demo.sqlite");
     const db = createKysely(f);

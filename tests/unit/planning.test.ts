@@ -11,6 +11,7 @@ import { reachCurve, reachCurveSteps } from "@/lib/planning/curve";
 import { plannerCached, reachCurveCached } from "@/lib/server/planning-cache";
 import { generateJustification } from "@/lib/planning/justification";
 import { cheapestDesign, raudenbushOptimalClusterSize } from "@/lib/planning/optimiser";
+import { personnelSchema } from "@/lib/planning/schema";
 import { sensitivity } from "@/lib/planning/sensitivity";
 import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
 
@@ -129,6 +130,42 @@ describe("sensitivity", () => {
     for (let k = 1; k < rows.length; k++) expect(rows[k]!.costSpread).toBeLessThanOrEqual(rows[k - 1]!.costSpread);
     const sd = rows.find((r) => r.assumption === "Outcome SD")!;
     expect(sd.high.n!).toBeGreaterThan(sd.base.n);
+  });
+});
+
+describe("personnel effort by budget period", () => {
+  const person = (effortPercent: unknown) => personnelSchema.safeParse({ role: "Coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent });
+  const message = (effortPercent: unknown) => {
+    const r = person(effortPercent);
+    return r.success ? null : r.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
+  };
+  it("takes one value, a list typed in the form, or a list over the API", () => {
+    expect(person(20).data?.effortPercent).toEqual([20]);
+    expect(person("20").data?.effortPercent).toEqual([20]);
+    expect(person("20, 15,10").data?.effortPercent).toEqual([20, 15, 10]);
+    expect(person("25% 20%").data?.effortPercent).toEqual([25, 20]);
+    expect(person([50, 40]).data?.effortPercent).toEqual([50, 40]);
+  });
+  it("refuses bad values with a message on the field itself", () => {
+    expect(message("")).toEqual(["effortPercent: Effort: enter a percent."]);
+    expect(message("20, lots")).toEqual(["effortPercent: Effort: a percent, or one per budget period like 20, 20, 10."]);
+    expect(message("20, 0")).toEqual(["effortPercent: Effort above 0% in every period."]);
+    expect(message([20, 120])).toEqual(["effortPercent: Effort at most 100% in every period."]);
+    expect(message(Array(21).fill("5").join(","))).toEqual(["effortPercent: Effort: at most 20 budget periods."]);
+    expect(message({ not: "effort" })).toEqual(["effortPercent: Effort: a percent, or one per budget period like 20, 20, 10."]);
+  });
+  it("costs each period at its own effort, the last repeating (worked by hand: 20% then 10% halves salary from period 2)", () => {
+    const withEffort = (effortPercent: number[]) => ({ ...six, personnel: [{ role: "Principal investigator", fringeCategory: "faculty", baseSalary: "100000", effortPercent, follows: "study" as const }], other: [] });
+    const salaryLine = (effortPercent: number[]) => computeScenario(withEffort(effortPercent), rates, study).ledger.lines.find((l) => l.key === "salary:0")!;
+    const flat = salaryLine([20]);
+    const stepped = salaryLine([20, 10]);
+    expect(flat.amounts.length).toBeGreaterThan(2);
+    expect(stepped.amounts[0]).toBe(flat.amounts[0]);
+    for (let p = 1; p < flat.amounts.length; p++) {
+      const half = new Decimal(flat.amounts[p]!).div(2);
+      expect(Math.abs(new Decimal(stepped.amounts[p]!).minus(half).toNumber()), `period ${p + 1}`).toBeLessThanOrEqual(0.01);
+    }
+    expect(salaryLine([20, 10, 10, 10, 10, 10])).toEqual(stepped);
   });
 });
 
