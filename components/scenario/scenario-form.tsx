@@ -284,7 +284,7 @@ export function ScenarioForm({
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
-                <Text meta={f.effortPercent} label="Effort % by budget period" hint="One value, or one a period: 20, 20, 10 (the last repeats)" />
+                <Text meta={f.effortPercent} label="Effort % by budget period" hint="20, or 20, 15, 10 (the last repeats)" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
                 <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
