@@ -66,10 +66,8 @@ cluster.on("exit", (worker, code, signal) => {
   console.error(`[start] worker ${worker.process.pid} exited (${signal ?? `code ${code}`}) after ${Math.round(lived / 1000)} s`);
   if (quickDeaths >= 5) {
     console.error("[start] workers keep dying at start-up; stopping. See the messages above.");
-    stopping = true;
-    for (const w of Object.values(cluster.workers ?? {})) w?.process.kill("SIGTERM");
     process.exitCode = 1;
-    if (Object.keys(cluster.workers ?? {}).length === 0) process.exit(1);
+    stop();
     return;
   }
   fork();
@@ -79,7 +77,7 @@ function stop() {
   if (stopping) return;
   stopping = true;
   const workers = Object.values(cluster.workers ?? {});
-  if (workers.length === 0) process.exit(0);
+  if (workers.length === 0) process.exit(process.exitCode ?? 0);
   for (const w of workers) w?.process.kill("SIGTERM");
   // Next closes its server on SIGTERM; do not wait for ever on a stuck one.
   setTimeout(() => {
