@@ -37,6 +37,7 @@ export default defineConfig({
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",
           globalSetup: ["tests/e2e/global-setup.ts"],
+          setupFiles: ["tests/e2e/page-errors.setup.ts"],
           testTimeout: 60_000,
           hookTimeout: 60_000,
           fileParallelism: false,

@@ -1,12 +1,26 @@
 import fs from "node:fs";
 import path from "node:path";
-import { chromium, type Browser, type Page } from "playwright-core";
+import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 
 export const SCREENSHOT_DIR = path.resolve(import.meta.dirname, "../../test-results/screenshots");
 
+/**
+ * Uncaught script errors of every page this test file opened. `page-errors.setup.ts` fails the test in
+ * which one happened: a flow that throws in the browser is broken even when its figures look right.
+ */
+export const pageErrors: string[] = [];
+
+function watch(context: BrowserContext): BrowserContext {
+  context.on("weberror", (e) => {
+    const page = e.page();
+    pageErrors.push(`${e.error().message}${page ? ` (on ${page.url()})` : ""}`);
+  });
+  return context;
+}
+
 /** Debian's Chromium through playwright-core; the flags keep it off this machine's closed network. */
 export async function launchBrowser(): Promise<Browser> {
-  return chromium.launch({
+  const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
     headless: true,
     args: [
@@ -19,6 +33,17 @@ export async function launchBrowser(): Promise<Browser> {
       "--disable-sync",
     ],
   });
+  // Every context and page a test opens is watched, however it was opened.
+  const newContext = browser.newContext.bind(browser);
+  browser.newContext = async (...args) => watch(await newContext(...args));
+  browser.newPage = async (options) => {
+    const context = await browser.newContext(options);
+    const page = await context.newPage();
+    // As playwright's own newPage: closing the page closes its context.
+    page.on("close", () => void context.close().catch(() => {}));
+    return page;
+  };
+  return browser;
 }
 
 export async function screenshot(page: Page, name: string): Promise<string> {
