@@ -76,7 +76,7 @@ export function justificationFigures(i: ScenarioInputs, r: ScenarioResults, stud
   add("totalCost", "Total cost", formatMoney(r.ledger.totals.total));
   if (r.capBuys && study.sponsorCap) {
     add("sponsorCap", "Sponsor cap", formatMoney(study.sponsorCap, { cents: false }));
-    add("capBuys", "What the cap funds", `${r.capBuys.n2 === null ? count(r.capBuys.n1) : `${count(r.capBuys.n1)} and ${count(r.capBuys.n2)}`} evaluable, detecting ${num(r.capBuys.effect)}`);
+    add("capBuys", "What the cap funds", `${r.capBuys.n2 === null ? count(r.capBuys.n1) : `${count(r.capBuys.n1)} and ${count(r.capBuys.n2)}`} evaluable (detecting ${num(r.capBuys.effect)})`);
   }
   return out;
 }

@@ -6,7 +6,8 @@
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import path from "node:path";
+import { launchBrowser, screenshot, SCREENSHOT_DIR, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -19,6 +20,13 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
+
+/** The justification card alone (and the header's buttons), small enough to read in a screenshot. */
+async function shoot(p: Page, name: string, selector = "section[aria-labelledby='justification-heading']"): Promise<void> {
+  await screenshot(p, name);
+  const part = p.locator(selector);
+  await part.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-part.png`) });
+}
 
 const SCREEN_FAILURE_CHANGE = "Screen failure: written for 35%, now 20%";
 const versionText = () => page.getByText(/· version \d+/).textContent();
@@ -50,6 +58,7 @@ describe("the investigator's justification", () => {
     await box.fill(`Our team reviewed these assumptions with the study statistician. ${generated}`);
     await page.getByRole("button", { name: "Save the text" }).click();
     await page.getByText("Saved your text, with the figures it quotes.").waitFor();
+    await shoot(page, "justification-saved");
     expect(await box.inputValue()).toMatch(/^Our team reviewed/);
     expect(await page.getByTestId("justification-mismatch").count()).toBe(0);
     await page.getByText("Edited by the investigator; it quotes the scenario's current figures.").waitFor();
@@ -71,7 +80,7 @@ describe("the investigator's justification", () => {
     // The edited text itself is kept as written.
     expect(await page.getByLabel("Justification text").inputValue()).toContain("35% screen failure");
     await page.getByRole("heading", { name: "Sample-size justification" }).scrollIntoViewIfNeeded();
-    await screenshot(page, "justification-mismatch-1440");
+    await shoot(page, "justification-mismatch-1440");
   });
 
   it("submitting warns and asks first; cancelling leaves it a draft", async () => {
@@ -80,7 +89,7 @@ describe("the investigator's justification", () => {
     await confirm.waitFor();
     expect(await confirm.textContent()).toContain(SCREEN_FAILURE_CHANGE);
     await confirm.getByRole("button", { name: "Submit anyway" }).waitFor();
-    await screenshot(page, "justification-submit-warning");
+    await shoot(page, "justification-submit-warning", "main header");
     await confirm.getByRole("button", { name: "Cancel" }).click();
     await page.getByTestId("submit-review").waitFor();
     expect(await page.getByTestId("scenario-state").textContent()).toBe("Draft");
@@ -110,7 +119,7 @@ describe("the investigator's justification", () => {
 
     await page.getByRole("button", { name: "Regenerate from the scenario" }).click();
     await preview.waitFor();
-    await screenshot(page, "justification-regenerate-preview");
+    await shoot(page, "justification-regenerate-preview");
     await page.getByRole("button", { name: "Replace my text with this" }).click();
     await page.getByText("Replaced your text with the one generated from the scenario.").waitFor();
     await page.getByTestId("justification-mismatch").waitFor({ state: "detached" });
@@ -138,15 +147,31 @@ describe("the investigator's justification", () => {
     const overflow = await phone.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
     expect(overflow).toBeLessThanOrEqual(0);
     await phone.getByRole("heading", { name: "Sample-size justification" }).scrollIntoViewIfNeeded();
-    await screenshot(phone, "justification-mismatch-390");
+    await shoot(phone, "justification-mismatch-390");
     await phone.close();
   });
 
-  it("with the text matching again, submitting asks nothing extra", async () => {
-    await page.getByRole("button", { name: "Regenerate from the scenario" }).click();
-    await page.getByRole("button", { name: "Replace my text with this" }).click();
-    await page.getByText("Replaced your text with the one generated from the scenario.").waitFor();
+  it("submits anyway after the warning; the grants officer sees the warning and is asked again before clearing", async () => {
     await page.getByTestId("submit-review").click();
+    const confirm = page.getByTestId("submit-review-confirm");
+    expect(await confirm.textContent()).toContain("Screen failure: written for 20%, now 25%");
+    await confirm.getByRole("button", { name: "Submit anyway" }).click();
     await page.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    const url = page.url().replace(/\?.*$/, "");
+    const grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+    await signIn(grants, baseUrl, "grants@demo.test");
+    await grants.goto(url);
+    const warning = grants.getByTestId("justification-mismatch");
+    await warning.waitFor();
+    expect(await warning.textContent()).toContain("Screen failure: written for 20%, now 25%");
+    expect(await warning.textContent()).toContain("The investigator can bring it up to date.");
+    await grants.getByTestId("clear-review").click();
+    const ask = grants.getByTestId("clear-review-confirm");
+    await ask.waitFor();
+    expect(await ask.textContent()).toContain("Clear it anyway?");
+    await shoot(grants, "justification-clear-warning", "main header");
+    await ask.getByRole("button", { name: "Clear anyway" }).click();
+    await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    await grants.close();
   });
 });
