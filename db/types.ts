@@ -142,6 +142,8 @@ export interface ScenariosTable {
   results_json: string;
   rate_edition_id: number;
   justification: string | null;
+  /** The figures an edited justification was written against (JSON list of { key, label, value }); null for a generated text. */
+  justification_figures_json: ColumnType<string | null, string | null | undefined, string | null>;
   review_note: string | null;
   cloned_from: number | null;
   created_by: number;

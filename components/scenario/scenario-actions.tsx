@@ -1,7 +1,8 @@
 "use client";
 
-import { useActionState } from "react";
+import { useActionState, useState, useTransition } from "react";
 import { cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
+import { mismatchLines, type JustificationCheck } from "@/lib/planning/justification-figures";
 
 type Ids = { studyId: number; scenarioId: number; version: number };
 type State = { error: string | null } | undefined;
@@ -28,14 +29,73 @@ function ActionButton({ ids, action, label, extra, variant = "quiet", testId }: 
   );
 }
 
-export function ScenarioActions({ ids, can }: { ids: Ids; can: { submit: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean } }) {
+/**
+ * Submit or Clear. When the edited justification no longer matches the scenario's figures, the button
+ * first shows what differs and asks to go ahead; going ahead sends the confirmation the server asks for
+ * (it refuses without it, in case the figures changed after this page was drawn).
+ */
+function ReviewButton({ ids, verb, mismatch, testId }: { ids: Ids; verb: "submit" | "clear"; mismatch: string[] | null; testId: string }) {
+  const [state, dispatch, pending] = useActionState(reviewAction, undefined);
+  const [asking, setAsking] = useState(false);
+  const warn = mismatch !== null || state?.mismatch === true;
+  const label = verb === "submit" ? "Submit for review" : "Clear";
+  return (
+    <form action={dispatch} className="flex max-w-xl flex-col gap-1">
+      <input type="hidden" name="studyId" value={ids.studyId} />
+      <input type="hidden" name="scenarioId" value={ids.scenarioId} />
+      <input type="hidden" name="version" value={ids.version} />
+      <input type="hidden" name="action" value={verb} />
+      {asking ? (
+        <div className="alert flex flex-col gap-2" role="group" aria-labelledby={`${testId}-confirm-heading`} data-testid={`${testId}-confirm`}>
+          <input type="hidden" name="confirmMismatch" value="1" />
+          <p id={`${testId}-confirm-heading`} className="font-semibold">
+            The justification no longer matches the scenario&apos;s figures.
+          </p>
+          {mismatch ? (
+            <ul className="list-disc pl-5">
+              {mismatch.map((line) => (
+                <li key={line}>{line}</li>
+              ))}
+            </ul>
+          ) : null}
+          <p>
+            {verb === "submit" ? "Submit it anyway? The grants office will see this warning, and the review record will note that it was submitted with a justification that does not match." : "Clear it anyway? The review record will note that it was cleared with a justification that does not match."}
+          </p>
+          <div className="flex flex-wrap gap-2">
+            <button type="submit" className="btn" disabled={pending} data-testid={`${testId}-anyway`}>
+              {pending ? "Working…" : verb === "submit" ? "Submit anyway" : "Clear anyway"}
+            </button>
+            <button type="button" className="btn btn-quiet" onClick={() => setAsking(false)} disabled={pending}>
+              Cancel
+            </button>
+          </div>
+        </div>
+      ) : warn ? (
+        <button type="button" className="btn" onClick={() => setAsking(true)} data-testid={testId}>
+          {label}
+        </button>
+      ) : (
+        <button type="submit" className="btn" disabled={pending} data-testid={testId}>
+          {pending ? "Working…" : label}
+        </button>
+      )}
+      {state?.error && !asking ? (
+        <span className="text-sm text-signal" role="alert">
+          {state.error}
+        </span>
+      ) : null}
+    </form>
+  );
+}
+
+export function ScenarioActions({ ids, can, mismatch = null }: { ids: Ids; can: { submit: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean }; mismatch?: string[] | null }) {
   const [returnState, returnDispatch, returnPending] = useActionState(reviewAction, undefined);
   return (
     <div className="flex flex-wrap items-start gap-2">
-      {can.submit ? <ActionButton ids={ids} action={reviewAction} label="Submit for review" extra={{ action: "submit" }} variant="primary" testId="submit-review" /> : null}
+      {can.submit ? <ReviewButton ids={ids} verb="submit" mismatch={mismatch} testId="submit-review" /> : null}
       {can.review ? (
         <>
-          <ActionButton ids={ids} action={reviewAction} label="Clear" extra={{ action: "clear" }} variant="primary" testId="clear-review" />
+          <ReviewButton ids={ids} verb="clear" mismatch={mismatch} testId="clear-review" />
           <form action={returnDispatch} className="flex flex-wrap items-start gap-2">
             <input type="hidden" name="studyId" value={ids.studyId} />
             <input type="hidden" name="scenarioId" value={ids.scenarioId} />
@@ -62,37 +122,145 @@ export function ScenarioActions({ ids, can }: { ids: Ids; can: { submit: boolean
   );
 }
 
-export function JustificationEditor({ ids, text, edited, editable }: { ids: Ids; text: string; edited: boolean; editable: boolean }) {
-  const [state, dispatch, pending] = useActionState(saveJustificationAction, undefined);
+type SaveResult = Awaited<ReturnType<typeof saveJustificationAction>>;
+
+const DONE: Record<NonNullable<SaveResult["done"]>, string> = {
+  saved: "Saved your text, with the figures it quotes. If those figures change, this page will say so.",
+  regenerated: "Replaced your text with the one generated from the scenario. It now follows the figures.",
+  emptied: "The box was empty, so the text is generated from the scenario again and follows the figures.",
+};
+
+/**
+ * The sample-size justification: generated text follows the scenario; an edited text is saved with the
+ * figures it quotes, and says plainly when they have changed. "Regenerate" shows the new text first and
+ * replaces the edited one only when asked. The actions are called in a transition (not as a form action),
+ * so the box keeps what it shows and nothing is reset behind React's back.
+ */
+export function JustificationEditor({ ids, text, generated, edited, editable, check }: { ids: Ids; text: string; generated: string; edited: boolean; editable: boolean; check: JustificationCheck }) {
+  const [pending, startTransition] = useTransition();
+  const [result, setResult] = useState<SaveResult | null>(null);
+  const [draft, setDraft] = useState(text);
+  const [shown, setShown] = useState(text);
+  const [preview, setPreview] = useState(false);
+  const [kept, setKept] = useState(false);
+  // The saved text changed on the server (a save, a regeneration, a new version): show it.
+  if (text !== shown) {
+    setShown(text);
+    setDraft(text);
+  }
+  const lines = mismatchLines(check);
+
+  function send(intent: "save" | "regenerate") {
+    const form = new FormData();
+    form.set("studyId", String(ids.studyId));
+    form.set("scenarioId", String(ids.scenarioId));
+    form.set("version", String(ids.version));
+    form.set("intent", intent);
+    form.set("justification", draft);
+    setResult(null);
+    setKept(false);
+    startTransition(async () => {
+      const r = await saveJustificationAction(undefined, form);
+      setResult(r);
+      if (!r.error) setPreview(false);
+    });
+  }
+
   return (
-    <section className="card flex flex-col gap-3" aria-labelledby="justification-heading">
+    <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="justification-heading">
       <h2 id="justification-heading">Sample-size justification</h2>
-      <p className="text-sm text-ink-soft">{edited ? "Edited by the investigator." : "Generated from the scenario; edit it to suit the application."} A statistician should review it.</p>
+      <p className="text-sm text-ink-soft">
+        {!edited
+          ? "Generated from the scenario; it follows the figures until you edit and save it."
+          : check.status === "matches"
+            ? "Edited by the investigator; it quotes the scenario's current figures."
+            : "Edited by the investigator."}{" "}
+        A statistician should review it.
+      </p>
+      {lines ? (
+        <div className="alert flex flex-col gap-1" data-testid="justification-mismatch">
+          <p className="font-semibold">The text no longer matches the scenario&apos;s figures.</p>
+          {check.status === "changed" ? <p>It was written for figures that have since changed:</p> : null}
+          <ul className="list-disc pl-5">
+            {lines.map((line) => (
+              <li key={line}>{line}</li>
+            ))}
+          </ul>
+          <p>{editable ? "Edit the text and save it, or regenerate it from the scenario." : "The investigator can bring it up to date."}</p>
+        </div>
+      ) : null}
       {editable ? (
-        <form action={dispatch} className="flex flex-col gap-2">
-          <input type="hidden" name="studyId" value={ids.studyId} />
-          <input type="hidden" name="scenarioId" value={ids.scenarioId} />
-          <input type="hidden" name="version" value={ids.version} />
+        <div className="flex flex-col gap-2">
           <label htmlFor="justification" className="sr-only">
             Justification text
           </label>
-          <textarea id="justification" name="justification" defaultValue={text} rows={10} className="input text-sm leading-relaxed" />
-          <div className="flex gap-2">
-            <button type="submit" className="btn btn-quiet" disabled={pending}>
-              Save the text
+          <textarea
+            id="justification"
+            name="justification"
+            value={draft}
+            onChange={(e) => {
+              setDraft(e.target.value);
+              setResult(null);
+              setKept(false);
+            }}
+            rows={10}
+            className="input text-sm leading-relaxed"
+          />
+          <div className="flex flex-wrap gap-2">
+            <button type="button" className="btn btn-quiet" disabled={pending} onClick={() => send("save")}>
+              {pending && !preview ? "Saving…" : "Save the text"}
             </button>
-            {edited ? (
-              <button type="submit" name="reset" value="1" className="btn btn-quiet" disabled={pending}>
+            {edited && !preview ? (
+              <button
+                type="button"
+                className="btn btn-quiet"
+                disabled={pending}
+                onClick={() => {
+                  setPreview(true);
+                  setResult(null);
+                  setKept(false);
+                }}
+              >
                 Regenerate from the scenario
               </button>
             ) : null}
           </div>
-          {state?.error ? (
-            <span className="text-sm text-signal" role="alert">
-              {state.error}
-            </span>
+          {preview ? (
+            <div className="flex flex-col gap-2 rounded-md border border-rule bg-paper p-3" role="group" aria-labelledby="regenerate-heading" data-testid="regenerate-preview">
+              <h3 id="regenerate-heading" className="text-base">
+                The text the scenario generates now
+              </h3>
+              <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid="regenerated-text">
+                {generated}
+              </p>
+              <p className="text-sm text-ink-soft">Replacing it discards your edited text for good.</p>
+              <div className="flex flex-wrap gap-2">
+                <button type="button" className="btn" disabled={pending} onClick={() => send("regenerate")}>
+                  {pending ? "Replacing…" : "Replace my text with this"}
+                </button>
+                <button
+                  type="button"
+                  className="btn btn-quiet"
+                  disabled={pending}
+                  onClick={() => {
+                    setPreview(false);
+                    setKept(true);
+                  }}
+                >
+                  Keep mine
+                </button>
+              </div>
+            </div>
           ) : null}
-        </form>
+          {result?.error ? (
+            <p className="text-sm text-signal" role="alert">
+              {result.error}
+            </p>
+          ) : null}
+          <div role="status" className="text-sm">
+            {result?.done ? <p className="notice">{DONE[result.done]}</p> : kept ? <p className="notice">Kept your text; nothing was changed.</p> : null}
+          </div>
+        </div>
       ) : (
         <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid="justification">
           {text}

@@ -5,6 +5,7 @@ import { decide, roleMay, type Actor, type Membership } from "@/lib/auth/permiss
 import type { ScenarioState } from "@/lib/auth/roles";
 import { computeScenario, ScenarioError, type ScenarioResults, type StudyContext } from "@/lib/planning/compute";
 import { generateJustification } from "@/lib/planning/justification";
+import { checkJustification, describeChange, justificationFigures, parseFigures, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { TimelineError, CostingError } from "@/lib/costing";
 import { PowerInputError, UnreachableError } from "@/lib/power";
@@ -31,6 +32,10 @@ export type ScenarioDetail = ScenarioSummary & {
   results: ScenarioResults;
   justification: string;
   justificationEdited: boolean;
+  /** Whether an edited justification still quotes the scenario's figures (and which changed). */
+  justificationCheck: JustificationCheck;
+  /** The text the scenario generates now, for "regenerate" to show before it replaces an edited one. */
+  generatedJustification: string;
   reviewNote: string | null;
   clonedFrom: number | null;
   study: { id: number; code: string; title: string; sponsorCap: string | null; startDate: string };
@@ -129,12 +134,15 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
   const results = JSON.parse(row.results_json) as ScenarioResults;
   const latest = await latestPublishedLabel(actor);
   const study = studyContext(row);
+  const generated = generateJustification(inputs, results, study);
   return {
     ...summaryOf(row),
     inputs,
     results,
-    justification: row.justification ?? generateJustification(inputs, results, study),
+    justification: row.justification ?? generated,
     justificationEdited: row.justification !== null,
+    justificationCheck: checkJustification(row.justification !== null, parseFigures(row.justification_figures_json), justificationFigures(inputs, results, study)),
+    generatedJustification: generated,
     reviewNote: row.review_note,
     clonedFrom: row.cloned_from,
     study: { id: row.study_id, code: row.study_code, title: row.study_title, sponsorCap: row.sponsor_cap, startDate: row.start_date },
@@ -196,18 +204,28 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
   const inputs = patch.inputs ?? (JSON.parse(row.inputs_json) as ScenarioInputs);
   let editionId = row.rate_edition_id;
   let results_json = row.results_json;
+  let results: ScenarioResults | null = null;
   if (patch.inputs || patch.recompute) {
     // A recompute takes the published edition in force; an edit of assumptions keeps the pinned one.
     const edition = patch.recompute ? await latestPublishedEdition(actor) : await getEdition(actor, row.rate_edition_id);
     if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition.");
     editionId = edition.id;
-    results_json = JSON.stringify(compute(inputs, editionToRateBook(edition), studyContext(row)));
+    results = compute(inputs, editionToRateBook(edition), studyContext(row));
+    results_json = JSON.stringify(results);
   }
+  // An edited text is stored with the figures it was written against (those saved with it); a
+  // regenerated one (null) follows the inputs and needs none.
+  const figures =
+    patch.justification === undefined
+      ? undefined
+      : patch.justification === null
+        ? null
+        : JSON.stringify(justificationFigures(inputs, results ?? (JSON.parse(row.results_json) as ScenarioResults), studyContext(row)));
   const audit: AuditEntry[] = [];
   if (patch.name !== undefined && patch.name !== row.name) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "name", oldValue: row.name, newValue: patch.name });
   if (patch.inputs) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "inputs", oldValue: null, newValue: null });
   if (editionId !== row.rate_edition_id) audit.push({ userId: actor.id, action: "recompute", entity: "scenario", entityId: id, field: "rate_edition_id", oldValue: String(row.rate_edition_id), newValue: String(editionId) });
-  if (patch.justification !== undefined) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "justification", oldValue: null, newValue: null });
+  if (patch.justification !== undefined) audit.push({ userId: actor.id, action: patch.justification === null ? "regenerate" : "update", entity: "scenario", entityId: id, field: "justification", oldValue: null, newValue: null });
   await getDb()
     .transaction()
     .execute(async (trx) => {
@@ -215,7 +233,7 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
         .updateTable("scenarios")
         .set({
           ...(patch.name !== undefined ? { name: patch.name } : {}),
-          ...(patch.justification !== undefined ? { justification: patch.justification } : {}),
+          ...(patch.justification !== undefined ? { justification: patch.justification, justification_figures_json: figures } : {}),
           inputs_json: JSON.stringify(inputs),
           results_json,
           rate_edition_id: editionId,
@@ -248,13 +266,19 @@ export async function deleteScenario(actor: Actor, id: number): Promise<void> {
 export type ReviewAction = "submit" | "return" | "clear";
 
 /** The review workflow: draft or returned → in-review (investigator); in-review → returned with a reason, or cleared (grants office). */
-export async function reviewScenario(actor: Actor, id: number, action: ReviewAction, reason?: string): Promise<ScenarioDetail> {
+export async function reviewScenario(actor: Actor, id: number, action: ReviewAction, reason?: string, opts: { acceptJustificationMismatch?: boolean } = {}): Promise<ScenarioDetail> {
   const { row } = await access(actor, id, action === "submit" ? "scenario.submit" : "scenario.review");
   const from = row.state;
   const allowed: Record<ReviewAction, ScenarioState[]> = { submit: ["draft", "returned"], return: ["in-review"], clear: ["in-review"] };
   if (!allowed[action].includes(from)) throw new HttpError(409, "wrong-state", `A ${from} scenario cannot be ${action === "submit" ? "submitted" : action === "return" ? "returned" : "cleared"}.`);
   if (action === "return" && !reason?.trim()) throw new HttpError(400, "invalid", "Say why the scenario is returned.", { reason: ["Say why the scenario is returned."] });
   const to: ScenarioState = action === "submit" ? "in-review" : action === "return" ? "returned" : "cleared";
+  // Submitting or clearing a scenario whose edited justification no longer quotes its figures is a
+  // choice to make knowingly: refused until confirmed, then kept in the audit record with what differed.
+  const mismatch = action === "return" ? null : justificationMismatch(row);
+  if (mismatch && !opts.acceptJustificationMismatch) {
+    throw new HttpError(409, "justification-mismatch", `${mismatch} Confirm to ${action === "submit" ? "submit" : "clear"} it anyway, or bring the justification up to date first.`);
+  }
   const now = new Date().toISOString();
   await getDb()
     .transaction()
@@ -270,7 +294,10 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
         .where("id", "=", id)
         .where("state", "=", from)
         .execute();
-      await writeAudit(trx, [{ userId: actor.id, action, entity: "scenario", entityId: id, field: "state", oldValue: from, newValue: to }]);
+      await writeAudit(trx, [
+        { userId: actor.id, action, entity: "scenario", entityId: id, field: "state", oldValue: from, newValue: to },
+        ...(mismatch ? [{ userId: actor.id, action: `${action}-with-mismatch`, entity: "scenario", entityId: id, field: "justification", newValue: mismatch }] : []),
+      ]);
       // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing.
       const link = `${appUrl()}/studies/${row.study_id}/scenarios/${id}`;
       const me = await trx.selectFrom("users").select(["name", "institution_id"]).where("id", "=", actor.id).executeTakeFirstOrThrow();
@@ -293,6 +320,17 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
     });
   kickMailSender();
   return getScenario(actor, id);
+}
+
+/** What an edited justification no longer matches, in one sentence; null when it holds (or is generated). */
+function justificationMismatch(row: NonNullable<Row>): string | null {
+  if (row.justification === null) return null;
+  const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
+  const results = JSON.parse(row.results_json) as ScenarioResults;
+  const check = checkJustification(true, parseFigures(row.justification_figures_json), justificationFigures(inputs, results, studyContext(row)));
+  if (check.status === "changed") return `The justification no longer matches the scenario's figures (${check.changes.map(describeChange).join("; ")}).`;
+  if (check.status === "unrecorded") return "The justification was edited before its figures were recorded, so it cannot be checked against the scenario's figures.";
+  return null;
 }
 
 /** Scenarios of one study for the comparison (2 to 4), each one the actor may see. */
@@ -341,6 +379,6 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
   const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
   return {
     study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
-    scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, rates })),
+    scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, justificationCheck: detail.justificationCheck, rates })),
   };
 }

@@ -11,7 +11,12 @@ export const patchScenarioSchema = z
     recompute: z.boolean().optional(),
   })
   .strict();
-export const reviewSchema = z.object({ action: z.enum(["submit", "return", "clear"], { error: "action must be submit, return or clear." }), reason: z.string().trim().max(2000).optional() });
+export const reviewSchema = z.object({
+  action: z.enum(["submit", "return", "clear"], { error: "action must be submit, return or clear." }),
+  reason: z.string().trim().max(2000).optional(),
+  // Submitting or clearing a scenario whose edited justification no longer matches its figures needs this (409 otherwise).
+  confirmJustificationMismatch: z.boolean({ error: "confirmJustificationMismatch: true or false." }).optional(),
+});
 export const curveQuerySchema = z.object({
   points: z.coerce.number().int().min(8, "points: 8 to 512.").max(512, "points: 8 to 512.").default(64),
   x: z.enum(["total", "direct"]).default("total"),

@@ -46,7 +46,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
   parts[parts.length - 1] += ` ${numbers}; achieved power is ${f(p.power)}.`;
   const fn = p.funnel;
   parts.push(
-    `Allowing ${Math.round(fn.attrition * 100)}% attrition and ${Math.round(fn.screenFailure * 100)}% screen failure (each inflated by division and rounded up), ${fn.total.enrolled} participants will be enrolled from ${fn.total.screened} screened.`,
+    `Allowing ${f(fn.attrition * 100, 1)}% attrition and ${f(fn.screenFailure * 100, 1)}% screen failure (each inflated by division and rounded up), ${fn.total.enrolled} participants will be enrolled from ${fn.total.screened} screened.`,
   );
   parts.push(`Recruitment at ${r.sites} site${r.sites === 1 ? "" : "s"} enrolling ${f(i.recruitment.ratePerSiteMonth, 2)} participants per site per month takes about ${r.ledger.timeline.monthsToEnrol} months.`);
   parts.push(`At this size the minimum detectable ${r.effectName === "effectSize" ? "standardized effect" : r.effectName === "p2" ? "intervention proportion" : "hazard ratio"} is ${f(r.mdes)}, and the study costs ${formatMoney(r.ledger.totals.total)} in total.`);

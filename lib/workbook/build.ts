@@ -9,6 +9,7 @@ import ExcelJS from "exceljs";
 import type { LedgerLine, RateBook } from "@/lib/costing";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
+import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { col, safeText, sheetName } from "./text";
 
@@ -18,6 +19,8 @@ export type WorkbookScenario = {
   inputs: ScenarioInputs;
   results: ScenarioResults;
   justification: string;
+  /** Whether an edited justification still quotes the figures; absent or "generated" for a generated text. */
+  justificationCheck?: JustificationCheck;
   rates: RateBook;
 };
 
@@ -357,10 +360,25 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
 function justificationSheet(ctx: Ctx, s: WorkbookScenario): void {
   const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Justification`));
   title(ws, "Sample-size justification", JUSTIFICATION_CAUTION);
-  ws.columns = [{ width: 120 }];
+  ws.columns = [{ width: 120 }, { width: 60 }];
   ws.getCell("A4").value = safeText(s.justification);
   ws.getCell("A4").alignment = { wrapText: true, vertical: "top" };
   ws.getRow(4).height = 220;
+  // Beside the text, whether it still quotes the scenario's figures: an edited text that no longer
+  // does carries the warning, so the sheet never contradicts the summary silently.
+  const check = s.justificationCheck ?? { status: "generated", changes: [] };
+  const warning = justificationWarning(check);
+  ws.getCell("B3").value = "Against the figures";
+  ws.getCell("B3").font = { bold: true };
+  const status = ws.getCell("B4");
+  status.value = safeText(
+    warning ?? (check.status === "matches" ? "Edited text; it quotes the scenario's current figures." : "Generated from the scenario's current figures."),
+  );
+  status.alignment = { wrapText: true, vertical: "top" };
+  if (warning) {
+    status.font = { bold: true, color: { argb: "FFA6461F" } };
+    status.fill = { type: "pattern", pattern: "solid", fgColor: { argb: "FFF8E7DE" } };
+  }
   ws.getCell("A6").value = `Method: ${s.results.power.method}`;
   ws.getCell("A8").value = "Published sources behind the methods";
   ws.getCell("A8").font = { bold: true };

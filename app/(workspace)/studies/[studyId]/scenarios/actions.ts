@@ -59,15 +59,24 @@ async function run(formData: FormData, may: Action | Action[], fn: (user: Awaite
   return { error: null };
 }
 
-export async function reviewAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
+export async function reviewAction(_prev: unknown, formData: FormData): Promise<{ error: string | null; mismatch?: boolean }> {
   const action = z.enum(["submit", "return", "clear"]).safeParse(formData.get("action"));
   const reason = String(formData.get("reason") ?? "");
+  // Sent once the person has read the warning that the edited justification no longer matches its figures.
+  const acceptJustificationMismatch = formData.get("confirmMismatch") === "1";
   // Submitting and reviewing are different roles' actions; reviewScenario decides again on the record.
   const may: Action | Action[] = !action.success ? ["scenario.submit", "scenario.review"] : action.data === "submit" ? "scenario.submit" : "scenario.review";
-  return run(formData, may, async (user, v) => {
+  let mismatch = false;
+  const result = await run(formData, may, async (user, v) => {
     if (!action.success) throw new HttpError(400, "invalid", "Choose submit, return or clear.");
-    await reviewScenario(user, v.scenarioId, action.data, reason);
+    try {
+      await reviewScenario(user, v.scenarioId, action.data, reason, { acceptJustificationMismatch });
+    } catch (err) {
+      if (err instanceof HttpError && err.code === "justification-mismatch") mismatch = true;
+      throw err;
+    }
   });
+  return mismatch ? { ...result, mismatch } : result;
 }
 
 export async function cloneAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
@@ -93,13 +102,19 @@ export async function recomputeAction(_prev: unknown, formData: FormData): Promi
   });
 }
 
-export async function saveJustificationAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
+/**
+ * Saves the edited justification with the figures it quotes, or (intent "regenerate", or an emptied box)
+ * goes back to the generated text, which follows the inputs. Says which it did.
+ */
+export async function saveJustificationAction(_prev: unknown, formData: FormData): Promise<{ error: string | null; done?: "saved" | "regenerated" | "emptied" }> {
   const version = versionOf(formData);
   const text = String(formData.get("justification") ?? "").trim();
-  if (text.length > 8000) return { error: "The justification is over 8,000 characters; nothing was saved." };
-  const reset = formData.get("reset") === "1";
-  return run(formData, "scenario.edit", async (user, v) => {
+  const regenerate = formData.get("intent") === "regenerate";
+  if (!regenerate && text.length > 8000) return { error: "Justification text: at most 8,000 characters (this has " + text.length.toLocaleString("en-US") + "); nothing was saved." };
+  const result = await run(formData, "scenario.edit", async (user, v) => {
     if (version === undefined) throw noVersion();
-    await updateScenario(user, v.scenarioId, { version, justification: reset || !text ? null : text });
+    await updateScenario(user, v.scenarioId, { version, justification: regenerate || !text ? null : text });
   });
+  if (result.error) return result;
+  return { error: null, done: regenerate ? "regenerated" : text ? "saved" : "emptied" };
 }

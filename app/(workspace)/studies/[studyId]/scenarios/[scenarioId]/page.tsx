@@ -10,6 +10,7 @@ import { getEdition } from "@/db/queries/rate-book";
 import { getScenario } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
+import { mismatchLines } from "@/lib/planning/justification-figures";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { notFound } from "next/navigation";
@@ -53,6 +54,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           ) : null}
           <ScenarioActions
           ids={ids}
+          mismatch={mismatchLines(s.justificationCheck)}
           can={{
             submit: can(user, "scenario.submit", ctx) && (s.state === "draft" || s.state === "returned"),
             review: can(user, "scenario.review", ctx) && s.state === "in-review",
@@ -100,7 +102,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         </div>
       )}
       <PlannerPanel scenarioId={s.id} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
-      <JustificationEditor ids={ids} text={s.justification} edited={s.justificationEdited} editable={editable} />
+      <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
       <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
     </div>
   );

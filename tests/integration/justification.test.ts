@@ -1,0 +1,175 @@
+/**
+ * An edited justification on a real migrated database: it is stored with the figures it quotes, says
+ * which changed after an input changes, makes submitting and clearing ask first (and the audit record
+ * keep that it went ahead), goes back to following the inputs when regenerated, and the workbook
+ * carries the warning beside the text.
+ */
+import ExcelJS from "exceljs";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import * as reviewRoute from "@/app/api/v1/scenarios/[scenarioId]/review/route";
+import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
+import { getScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
+import { HttpError } from "@/lib/auth/errors";
+import type { Actor } from "@/lib/auth/permissions";
+import { parseFigures } from "@/lib/planning/justification-figures";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import { dropDatabase, useFreshDatabase } from "../support/db";
+import { params, request, signInAs } from "../support/http";
+
+let dir = "";
+let pi: Actor;
+let grants: Actor;
+let ids: Record<string, number> = {};
+const c: Record<string, string> = {};
+beforeAll(async () => {
+  ({ dir } = await useFreshDatabase());
+  const users = await getDb().selectFrom("users").select(["id", "email", "role"]).execute();
+  const actor = (email: string) => {
+    const u = users.find((x) => x.email === email)!;
+    return { id: u.id, role: u.role } as Actor;
+  };
+  pi = actor("pi@demo.test");
+  grants = actor("grants@demo.test");
+  ids = Object.fromEntries((await getDb().selectFrom("scenarios").select(["id", "name"]).execute()).map((s) => [s.name, s.id]));
+  for (const who of ["pi", "grants"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
+  // Seeding hashes the demo passwords: slow on a busy two-core machine.
+}, 90_000);
+afterAll(() => dropDatabase(dir));
+
+const SF = "Screen failure: written for 35%, now 20%";
+const withScreenFailure = (i: ScenarioInputs, screenFailure: number): ScenarioInputs => ({ ...i, recruitment: { ...i.recruitment, screenFailure } });
+const stored = async (id: number) => getDb().selectFrom("scenarios").select(["justification", "justification_figures_json", "state"]).where("id", "=", id).executeTakeFirstOrThrow();
+const refusal = async (p: Promise<unknown>) => {
+  try {
+    await p;
+  } catch (err) {
+    return err as HttpError;
+  }
+  throw new Error("expected a refusal");
+};
+const edit = async (id: number, patch: Omit<Parameters<typeof updateScenario>[2], "version">) => updateScenario(pi, id, { version: (await getScenario(pi, id)).version, ...patch });
+
+describe("the edited justification and its figures", () => {
+  it("a generated text follows the inputs and records no figures", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const s = await getScenario(pi, id);
+    expect(s.justificationCheck).toEqual({ status: "generated", changes: [] });
+    expect(s.generatedJustification).toBe(s.justification);
+    const after = await edit(id, { inputs: withScreenFailure(s.inputs, 0.3) });
+    expect(after.justificationCheck.status).toBe("generated");
+    expect(after.justification).toContain("30% screen failure");
+    expect((await stored(id)).justification_figures_json).toBeNull();
+    await edit(id, { inputs: withScreenFailure(s.inputs, 0.35) });
+  });
+
+  it("saving an edited text stores the figures it quotes; it matches until an input changes", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const s = await edit(id, { justification: "Our own words: 35% screen failure and the rest." });
+    expect(s.justificationEdited).toBe(true);
+    expect(s.justificationCheck).toEqual({ status: "matches", changes: [] });
+    const figures = parseFigures((await stored(id)).justification_figures_json)!;
+    expect(figures.find((f) => f.key === "screenFailure")).toEqual({ key: "screenFailure", label: "Screen failure", value: "35%" });
+    expect(figures.find((f) => f.key === "screened")!.value).toBe(String(s.results.power.funnel.total.screened));
+
+    const changed = await edit(id, { inputs: withScreenFailure(s.inputs, 0.2) });
+    expect(changed.justification).toBe("Our own words: 35% screen failure and the rest.");
+    expect(changed.justificationCheck.status).toBe("changed");
+    const keys = changed.justificationCheck.changes.map((x) => x.key);
+    expect(keys).toEqual(expect.arrayContaining(["screenFailure", "screened", "totalCost"]));
+    expect(keys).not.toContain("evaluable");
+    expect(changed.justificationCheck.changes.find((x) => x.key === "screened")).toMatchObject({ was: String(s.results.power.funnel.total.screened), now: String(changed.results.power.funnel.total.screened) });
+    // The generated text the page offers for "regenerate" already quotes the new figures.
+    expect(changed.generatedJustification).toContain("20% screen failure");
+  });
+
+  it("text and inputs saved together are checked against the new figures", async () => {
+    const id = ids["Six sites, 90% power"]!;
+    const s = await getScenario(pi, id);
+    const both = await edit(id, { inputs: withScreenFailure(s.inputs, 0.25), justification: "Written for 25% screen failure." });
+    expect(both.justificationCheck.status).toBe("matches");
+    expect(parseFigures((await stored(id)).justification_figures_json)!.find((f) => f.key === "screenFailure")!.value).toBe("25%");
+    await edit(id, { inputs: withScreenFailure(s.inputs, 0.35), justification: null });
+  });
+
+  it("the workbook carries the warning beside the stale text", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const res = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie: c.pi }), params({ scenarioId: String(id) }));
+    expect(res.status).toBe(200);
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
+    const ws = wb.getWorksheet("Justification")!;
+    expect(ws.getCell("A4").value).toBe("Our own words: 35% screen failure and the rest.");
+    expect(ws.getCell("B3").value).toBe("Against the figures");
+    const warning = String(ws.getCell("B4").value);
+    expect(warning).toMatch(/^This text no longer matches the scenario's figures\./);
+    expect(warning).toContain(SF);
+    expect(ws.getCell("B4").font?.bold).toBe(true);
+    // A generated text says so instead.
+    const other = ids["Six sites, 90% power"]!;
+    const res2 = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${other}/workbook`, { cookie: c.pi }), params({ scenarioId: String(other) }));
+    const wb2 = new ExcelJS.Workbook();
+    await wb2.xlsx.load((await res2.arrayBuffer()) as ArrayBuffer);
+    expect(wb2.getWorksheet("Justification")!.getCell("B4").value).toBe("Generated from the scenario's current figures.");
+  });
+
+  it("regenerating goes back to the generated text, which follows the inputs", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const s = await edit(id, { justification: null });
+    expect(s.justificationEdited).toBe(false);
+    expect(s.justificationCheck.status).toBe("generated");
+    expect(s.justification).toContain("20% screen failure");
+    expect((await stored(id)).justification_figures_json).toBeNull();
+  });
+
+  it("an edited text saved before figures were recorded cannot be checked, and says so", async () => {
+    const id = ids["Six sites, 90% power"]!;
+    await getDb().updateTable("scenarios").set({ justification: "Edited long ago.", justification_figures_json: null }).where("id", "=", id).execute();
+    expect((await getScenario(pi, id)).justificationCheck.status).toBe("unrecorded");
+    expect((await refusal(reviewScenario(pi, id, "submit"))).code).toBe("justification-mismatch");
+    await getDb().updateTable("scenarios").set({ justification: null }).where("id", "=", id).execute();
+  });
+});
+
+describe("submitting and clearing a scenario whose text no longer matches", () => {
+  it("submitting is refused until confirmed, saying what differs; then it goes ahead and the record keeps it", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const s = await edit(id, { justification: "Our own words again, for 20% screen failure." });
+    await edit(id, { inputs: withScreenFailure(s.inputs, 0.35) });
+    const err = await refusal(reviewScenario(pi, id, "submit"));
+    expect(err).toBeInstanceOf(HttpError);
+    expect(err.status).toBe(409);
+    expect(err.message).toContain("Screen failure: written for 20%, now 35%");
+    expect(err.message).toMatch(/Confirm to submit it anyway/);
+    expect((await stored(id)).state).toBe("draft");
+    // Over the API alike: 409 with the same words, then the confirmation.
+    const refused = await reviewRoute.POST(request("POST", `/api/v1/scenarios/${id}/review`, { cookie: c.pi, body: { action: "submit" } }), params({ scenarioId: String(id) }));
+    expect(refused.status).toBe(409);
+    expect((await refused.json()).error).toMatchObject({ code: "justification-mismatch" });
+    const ok = await reviewRoute.POST(request("POST", `/api/v1/scenarios/${id}/review`, { cookie: c.pi, body: { action: "submit", confirmJustificationMismatch: true } }), params({ scenarioId: String(id) }));
+    expect(ok.status).toBe(200);
+    expect((await stored(id)).state).toBe("in-review");
+    const audit = await getDb().selectFrom("audit_log").selectAll().where("entity", "=", "scenario").where("entity_id", "=", String(id)).where("action", "=", "submit-with-mismatch").execute();
+    expect(audit).toHaveLength(1);
+    expect(audit[0]!.new_value).toContain("Screen failure: written for 20%, now 35%");
+  });
+
+  it("clearing asks the grants officer the same; returning does not", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    expect((await refusal(reviewScenario(grants, id, "clear"))).code).toBe("justification-mismatch");
+    await reviewScenario(grants, id, "return", "Bring the justification up to date.");
+    expect((await stored(id)).state).toBe("returned");
+    await reviewScenario(pi, id, "submit", undefined, { acceptJustificationMismatch: true });
+    const cleared = await reviewScenario(grants, id, "clear", undefined, { acceptJustificationMismatch: true });
+    expect(cleared.state).toBe("cleared");
+    const actions = (await getDb().selectFrom("audit_log").select("action").where("entity", "=", "scenario").where("entity_id", "=", String(id)).where("field", "=", "justification").execute()).map((a) => a.action);
+    expect(actions).toEqual(expect.arrayContaining(["clear-with-mismatch", "submit-with-mismatch"]));
+  });
+
+  it("a scenario whose text matches is submitted without any confirmation", async () => {
+    const id = ids["Six sites, 90% power"]!;
+    await edit(id, { justification: "Matches its figures." });
+    expect((await reviewScenario(pi, id, "submit")).state).toBe("in-review");
+  });
+});
