@@ -56,7 +56,7 @@ export function InlineForm({
                 placeholder={f.hint}
               />
               {f.help ? (
-                <span id={`${id}-help`} className="text-xs text-ink-soft">
+                <span id={`${id}-help`} className={`text-xs text-ink-soft ${f.width ?? "w-32"}`}>
                   {f.help}
                 </span>
               ) : null}

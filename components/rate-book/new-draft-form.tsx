@@ -21,7 +21,7 @@ export function NewDraftForm({ sources, defaultSource }: { sources: DraftSource[
     shouldRevalidate: "onInput",
   });
   return (
-    <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4 lg:items-end" noValidate>
+    <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4 lg:items-start" noValidate>
       <div className="sm:col-span-2 lg:col-span-4">
         <FormErrors errors={form.errors} />
       </div>
@@ -37,7 +37,7 @@ export function NewDraftForm({ sources, defaultSource }: { sources: DraftSource[
       <Field id={fields.label.id} label="Label" hint="e.g. 2028 rates" errors={fields.label.errors}>
         <input {...getInputProps(fields.label, { type: "text" })} key={fields.label.key} className="input" aria-describedby={describedBy(fields.label.id, true, fields.label.errors)} />
       </Field>
-      <Field id={fields.effectiveDate.id} label="Effective from" hint="In force from this date until a later edition takes effect" errors={fields.effectiveDate.errors}>
+      <Field id={fields.effectiveDate.id} label="Effective from" hint="In force from this date" errors={fields.effectiveDate.errors}>
         <input
           {...getInputProps(fields.effectiveDate, { type: "date" })}
           key={fields.effectiveDate.key}
@@ -45,9 +45,12 @@ export function NewDraftForm({ sources, defaultSource }: { sources: DraftSource[
           aria-describedby={describedBy(fields.effectiveDate.id, true, fields.effectiveDate.errors)}
         />
       </Field>
-      <button type="submit" className="btn" disabled={pending}>
-        {pending ? "Starting…" : "Start the draft"}
-      </button>
+      {/* Level with the inputs beside it: the padding stands for a field's label. */}
+      <div className="lg:pt-[1.6rem]">
+        <button type="submit" className="btn w-full" disabled={pending}>
+          {pending ? "Starting…" : "Start the draft"}
+        </button>
+      </div>
     </form>
   );
 }

@@ -45,7 +45,7 @@ describe("the grants officer's rate-book journey", () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Rate book" }).click();
     const summary = page.getByTestId("in-force-summary");
     await summary.getByText(`effective since ${IN_FORCE.since}`).waitFor();
-    expect(await summary.getByRole("link").first().textContent()).toBe(IN_FORCE.label);
+    expect(await summary.locator("strong").first().textContent()).toBe(IN_FORCE.label);
     expect(await page.getByRole("cell", { name: "In force today" }).count()).toBeGreaterThan(0);
   });
 
@@ -81,7 +81,7 @@ describe("the grants officer's rate-book journey", () => {
     await page.getByRole("button", { name: "Apply to the draft" }).click();
     await page.getByText("The rate sheet was applied to this draft.").waitFor();
     await page.getByTestId("value-escalationSalaries").filter({ hasText: "3.5%" }).waitFor();
-    await page.getByRole("cell", { name: "Knee MRI" }).waitFor();
+    await page.getByRole("cell", { name: "Knee MRI", exact: true }).waitFor();
     expect(await page.getByRole("row").filter({ hasText: "postdoc" }).getByRole("cell").nth(1).textContent()).toBe("25%");
   });
 
@@ -108,7 +108,7 @@ describe("the grants officer's rate-book journey", () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Rate book" }).click();
     const listed = page.getByRole("row").filter({ has: page.getByRole("link", { name: "2030 rates", exact: true }) });
     await listed.getByText("Scheduled from 2030-01-01").waitFor();
-    await page.getByTestId("in-force-summary").getByRole("link", { name: "2030 rates" }).waitFor();
+    await page.getByTestId("in-force-summary").getByText("2030 rates", { exact: true }).waitFor();
     await screenshot(page, "rate-book-list-1440");
   });
 

@@ -46,10 +46,8 @@ export default async function RateBookPage() {
         <h2 id="in-force">In force today</h2>
         {inForce ? (
           <p>
-            <Link href={`/rate-book/${inForce.id}`} className="font-medium">
-              {inForce.label}
-            </Link>
-            , effective since <span className="num">{inForce.effectiveDate}</span>, is in force on <span className="num">{today}</span>.
+            {/* Plain text here: the table below links each edition once. */}
+            <strong>{inForce.label}</strong>, effective since <span className="num">{inForce.effectiveDate}</span>, is in force on <span className="num">{today}</span>.
           </p>
         ) : (
           <p className="alert">No published edition is in force today ({today}): every published edition takes effect later.</p>
@@ -60,7 +58,7 @@ export default async function RateBookPage() {
             {scheduled.map((e, i) => (
               <span key={e.id}>
                 {i ? "; " : ""}
-                <Link href={`/rate-book/${e.id}`}>{e.label}</Link> from <span className="num">{e.effectiveDate}</span>
+                <strong>{e.label}</strong> from <span className="num">{e.effectiveDate}</span>
               </span>
             ))}
             .
@@ -80,8 +78,8 @@ export default async function RateBookPage() {
                 <td>
                   <Link href={`/rate-book/${e.id}`}>{e.label}</Link>
                 </td>
-                <td className="num">{e.effectiveDate}</td>
-                <td>
+                <td className="num whitespace-nowrap">{e.effectiveDate}</td>
+                <td className="whitespace-nowrap">
                   <span className={e.standing.kind === "in-force" ? "badge" : "badge badge-muted"}>{standingNote(e.standing).replace(/^./, (c) => c.toUpperCase())}</span>
                 </td>
                 <td className="text-sm">{e.publishedAt ? `${e.publishedAt.slice(0, 10)} by ${e.publishedByName ?? "—"}` : "—"}</td>
