@@ -5,7 +5,8 @@ import type { ScenarioInputs } from "../lib/planning/schema";
 /** The demo institution's published rate book (invented rates; real ones come from the institution's agreements). */
 export const DEMO_RATES = {
   label: "2027 rates",
-  effective_date: "2027-01-01",
+  // Fiscal year 2027 begins on 1 July 2026 (a common academic fiscal year); in force from then.
+  effective_date: "2026-07-01",
   fa_rate: "0.565",
   fa_base: "mtdc" as const,
   mtdc_subaward_threshold: "50000.00",

@@ -5,7 +5,8 @@ import { getFormProps, useForm } from "@conform-to/react";
 import { useActionState } from "react";
 import { keptSubmit } from "../form/kept-submit";
 
-type Field = { name: string; label: string; defaultValue?: string | null; width?: string; hint?: string };
+/** `hint` is the placeholder; `help` is a visible line under the input that says what to type; `showLabel` shows the label above it. */
+type Field = { name: string; label: string; defaultValue?: string | null; width?: string; hint?: string; help?: string; showLabel?: boolean };
 
 /**
  * One row's edit form: hidden ids and versions, a few inputs, one button. The server validates with zod
@@ -35,14 +36,14 @@ export function InlineForm({
       {Object.entries(hidden).map(([k, v]) => (
         <input key={k} type="hidden" name={k} value={v} />
       ))}
-      <div className="flex flex-wrap items-end gap-2">
+      <div className={`flex flex-wrap gap-2 ${fields.some((f) => f.showLabel) ? "items-end" : "items-start"}`}>
         {fields.map((f) => {
           const meta = (inputs as Record<string, { errors?: string[] }>)[f.name];
           const id = `${formId}-${f.name}`;
           const errors = meta?.errors;
           return (
             <div key={f.name} className="flex flex-col gap-0.5">
-              <label htmlFor={id} className="sr-only">
+              <label htmlFor={id} className={f.showLabel ? "text-sm font-medium" : "sr-only"}>
                 {f.label}
               </label>
               <input
@@ -51,9 +52,14 @@ export function InlineForm({
                 defaultValue={f.defaultValue ?? ""}
                 className={`input num py-1 ${f.width ?? "w-32"}`}
                 aria-invalid={errors?.length ? true : undefined}
-                aria-describedby={errors?.length ? `${id}-error` : undefined}
+                aria-describedby={[f.help ? `${id}-help` : null, errors?.length ? `${id}-error` : null].filter(Boolean).join(" ") || undefined}
                 placeholder={f.hint}
               />
+              {f.help ? (
+                <span id={`${id}-help`} className={`text-xs text-ink-soft ${f.width ?? "w-32"}`}>
+                  {f.help}
+                </span>
+              ) : null}
               {errors?.length ? (
                 <span id={`${id}-error`} className="text-xs text-signal">
                   {errors.join(" ")}

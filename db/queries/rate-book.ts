@@ -6,6 +6,7 @@ import { enforce, HttpError, notFound } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import type { RateBook } from "@/lib/costing";
 import { SETTING_BY_KEY, SETTING_FIELDS, type SettingKey } from "@/lib/rate-book/fields";
+import { costingDate, editionInForce, isoDay, publishOutcome, standingOf, type PublishOutcome, type Standing } from "@/lib/rate-book/in-force";
 import type { EditionPatch } from "@/lib/rate-book/patch";
 import { parseRateSheet, safeFileName, type SheetRow } from "@/lib/rate-book/sheet";
 import { writeAudit, type AuditEntry } from "./audit";
@@ -20,6 +21,7 @@ export type EditionSummary = {
   publishedByName: string | null;
   basedOn: number | null;
 };
+export type EditionListItem = EditionSummary & { standing: Standing };
 export type FringeRow = { id: number; category: string; rate: string; version: number };
 export type ProcedureRow = { id: number; code: string; name: string; unitCost: string; category: string; version: number };
 export type EditionDetail = EditionSummary & { settings: Record<SettingKey, string | null>; fringe: FringeRow[]; procedures: ProcedureRow[] };
@@ -65,11 +67,13 @@ function mayRead(actor: Actor, status: "draft" | "published"): boolean {
   return status === "published" ? decide(actor, "ratebook.read") === "allow" : decide(actor, "ratebook.edit") === "allow";
 }
 
-export async function listEditions(actor: Actor): Promise<EditionSummary[]> {
+/** Every edition the actor may read, newest effective date first, each with where it stands today. */
+export async function listEditions(actor: Actor, today: string = isoDay()): Promise<EditionListItem[]> {
   enforce(decide(actor, "ratebook.read"));
   const inst = await institutionOf(actor);
   const rows = await editionQuery(getDb()).where("e.institution_id", "=", inst).orderBy("e.effective_date", "desc").orderBy("e.id", "desc").execute();
-  return rows.filter((r) => mayRead(actor, r.status)).map(toSummary);
+  const all = rows.map(toSummary);
+  return all.filter((e) => mayRead(actor, e.status)).map((e) => ({ ...e, standing: standingOf(all, e.id, today) }));
 }
 
 async function loadEdition(db: Kysely<Database> | Transaction<Database>, id: number, inst: number): Promise<EditionDetail | null> {
@@ -114,35 +118,60 @@ export function editionToRateBook(e: EditionDetail): RateBook {
   };
 }
 
-/** The published edition in force: the latest effective date among published editions. */
-async function latestPublishedRow(inst: number) {
-  return getDb()
-    .selectFrom("rate_book_editions")
-    .select(["id", "label", "effective_date"])
-    .where("institution_id", "=", inst)
-    .where("status", "=", "published")
-    .orderBy("effective_date", "desc")
-    .orderBy("id", "desc")
-    .executeTakeFirst();
+async function datedEditions(db: Kysely<Database> | Transaction<Database>, inst: number) {
+  const rows = await db.selectFrom("rate_book_editions").select(["id", "label", "effective_date", "status", "published_at"]).where("institution_id", "=", inst).execute();
+  return rows.map((r) => ({ id: r.id, label: r.label, effectiveDate: r.effective_date, status: r.status, publishedAt: r.published_at }));
 }
 
-export async function latestPublishedEdition(actor: Actor): Promise<EditionDetail | null> {
+/** The published edition in force on a date (DESIGN.md), with its rates; null when none is yet. */
+export async function editionInForceOn(actor: Actor, date: string): Promise<EditionDetail | null> {
   const inst = await institutionOf(actor);
-  const r = await latestPublishedRow(inst);
-  return r ? loadEdition(getDb(), r.id, inst) : null;
+  const e = editionInForce(await datedEditions(getDb(), inst), date);
+  return e ? loadEdition(getDb(), e.id, inst) : null;
 }
 
-/** Which edition is in force, without its rates: all a scenario page needs to offer a recompute. */
-export async function latestPublishedLabel(actor: Actor): Promise<{ id: number; label: string; effectiveDate: string } | null> {
-  const r = await latestPublishedRow(await institutionOf(actor));
-  return r ? { id: r.id, label: r.label, effectiveDate: r.effective_date } : null;
+/** Which edition is in force on a date, without its rates: all a scenario page needs to offer a recompute. */
+export async function editionInForceLabel(actor: Actor, date: string): Promise<{ id: number; label: string; effectiveDate: string } | null> {
+  const e = editionInForce(await datedEditions(getDb(), await institutionOf(actor)), date);
+  return e ? { id: e.id, label: e.label, effectiveDate: e.effectiveDate } : null;
 }
 
-/** A new draft, copied from an edition (by default the published one in force). */
+/**
+ * The edition a study's scenario is costed with: the one in force on the study's planned start, or today
+ * when the study starts earlier (`costingDate`). Refused with the reason when no edition is in force then.
+ */
+export async function editionForCosting(actor: Actor, studyStart: string, today: string = isoDay()): Promise<EditionDetail> {
+  const date = costingDate(studyStart, today);
+  const e = await editionInForceOn(actor, date);
+  if (e) return e;
+  const first = (await datedEditions(getDb(), await institutionOf(actor))).filter((x) => x.status === "published").sort((a, b) => a.effectiveDate.localeCompare(b.effectiveDate))[0];
+  throw new HttpError(
+    409,
+    "no-rate-book",
+    first
+      ? `No rate-book edition is in force on ${date} (the study's planned start, or today if that is later): the first published edition, “${first.label}”, takes effect on ${first.effectiveDate}. The grants office can publish an edition in force by ${date}.`
+      : "No rate-book edition is published yet; the grants office must publish one before scenarios can be costed.",
+  );
+}
+
+/** The edition in force today, with its rates (the rate-book page's "in force today"). */
+export async function latestPublishedEdition(actor: Actor): Promise<EditionDetail | null> {
+  return editionInForceOn(actor, isoDay());
+}
+
+/** A new draft, copied from the edition the grants officer picks (by default the one in force today, or else the latest published). */
 export async function createDraft(actor: Actor, input: { label: string; effectiveDate: string; basedOn?: number }): Promise<number> {
   enforce(decide(actor, "ratebook.edit"));
   const inst = await institutionOf(actor);
-  const source = input.basedOn !== undefined ? await loadEdition(getDb(), input.basedOn, inst) : await latestPublishedEdition(actor);
+  let source: EditionDetail | null;
+  if (input.basedOn !== undefined) {
+    source = await loadEdition(getDb(), input.basedOn, inst);
+    if (!source) throw new HttpError(404, "not-found", "The edition to start from was not found.", { basedOn: ["Choose an edition from the list."] });
+  } else {
+    const dated = await datedEditions(getDb(), inst);
+    const pick = editionInForce(dated, isoDay()) ?? editionInForce(dated, "9999-12-31");
+    source = pick ? await loadEdition(getDb(), pick.id, inst) : null;
+  }
   if (!source) throw new HttpError(409, "conflict", "There is no edition to start the draft from.");
   return getDb().transaction().execute(async (trx) => {
     const settings = Object.fromEntries(SETTING_FIELDS.map((f) => [f.column, source.settings[f.key]]));
@@ -290,6 +319,9 @@ export async function applyEditionPatch(actor: Actor, id: number, patch: Edition
       const publishFields = patch.publish ? { status: "published" as const, published_by: actor.id, published_at: now } : {};
       if (patch.publish) {
         if (e.fringe.length === 0 && !(patch.fringe ?? []).some((f) => !("id" in f))) throw conflict("An edition needs at least one fringe rate before it is published.");
+        // Checked inside the transaction, against what is published now: never publish an edition no one can use.
+        const outcome = publishOutcome(await datedEditions(trx, await institutionOf(actor, trx)), { id, label: patch.label ?? e.label, effectiveDate: patch.effectiveDate ?? e.effectiveDate }, isoDay());
+        if (outcome.kind === "never") throw new HttpError(409, "never-in-force", `Not published: ${outcome.reason}`, { effectiveDate: [outcome.reason] });
         audit.push({ userId: actor.id, action: "publish", entity, entityId: id, field: "status", oldValue: "draft", newValue: "published" });
       }
       if (Object.keys(editionChanges).length || audit.length) {
@@ -302,6 +334,21 @@ export async function applyEditionPatch(actor: Actor, id: number, patch: Edition
       await writeAudit(trx, audit);
       return (await loadEdition(trx, id, await institutionOf(actor, trx)))!;
     });
+}
+
+/** What publishing this draft would do today, for the confirmation (the publish itself checks again). */
+export async function previewPublish(actor: Actor, id: number): Promise<PublishOutcome> {
+  enforce(decide(actor, "ratebook.edit"));
+  const inst = await institutionOf(actor);
+  const e = await loadEdition(getDb(), id, inst);
+  if (!e) throw notFound("That rate-book edition was not found.");
+  return publishOutcome(await datedEditions(getDb(), inst), e, isoDay());
+}
+
+/** Where one edition stands today (in force, scheduled, past, replaced or draft). */
+export async function standingOfEdition(actor: Actor, id: number, today: string = isoDay()): Promise<Standing> {
+  enforce(decide(actor, "ratebook.read"));
+  return standingOf(await datedEditions(getDb(), await institutionOf(actor)), id, today);
 }
 
 // ——— Import ———

@@ -13,7 +13,8 @@ import { writeAudit, type AuditEntry } from "./audit";
 import { enqueueMail, kickMailSender } from "./outbox";
 import { reviewedMail, submittedMail } from "@/lib/mail/templates";
 import { appUrl } from "@/lib/mail/transport";
-import { editionToRateBook, getEdition, latestPublishedEdition, latestPublishedLabel } from "./rate-book";
+import { editionForCosting, editionInForceLabel, editionToRateBook, getEdition } from "./rate-book";
+import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { membershipOf } from "./studies";
 
 export type ScenarioSummary = {
@@ -132,7 +133,8 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
   const { row, membership } = await access(actor, id, action);
   const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
   const results = JSON.parse(row.results_json) as ScenarioResults;
-  const latest = await latestPublishedLabel(actor);
+  // The recompute offer: the edition in force on the costing date, when it is not the one the scenario keeps.
+  const latest = await editionInForceLabel(actor, costingDate(row.start_date, isoDay()));
   const study = studyContext(row);
   const generated = generateJustification(inputs, results, study);
   return {
@@ -157,8 +159,7 @@ export async function previewScenario(actor: Actor, studyId: number, inputs: Sce
   enforce(decide(actor, "study.view", { membership }), "That study");
   const study = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
   if (!study) throw notFound("That study was not found.");
-  const edition = await latestPublishedEdition(actor);
-  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet; the grants office must publish one first.");
+  const edition = await editionForCosting(actor, study.start_date);
   return compute(inputs, editionToRateBook(edition), { startDate: study.start_date, sponsorCap: study.sponsor_cap });
 }
 
@@ -166,8 +167,8 @@ export async function createScenario(actor: Actor, studyId: number, input: { nam
   const membership = await membershipOf(actor.id, studyId);
   const exists = await getDb().selectFrom("studies").select(["id", "start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
   enforce(exists ? decide(actor, "scenario.edit", { membership, scenarioState: "draft" }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
-  const edition = await latestPublishedEdition(actor);
-  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet; the grants office must publish one first.");
+  if (!exists) throw notFound("That study was not found.");
+  const edition = await editionForCosting(actor, exists.start_date);
   const results = compute(input.inputs, editionToRateBook(edition), { startDate: exists!.start_date, sponsorCap: exists!.sponsor_cap });
   return getDb()
     .transaction()
@@ -206,9 +207,8 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
   let results_json = row.results_json;
   let results: ScenarioResults | null = null;
   if (patch.inputs || patch.recompute) {
-    // A recompute takes the published edition in force; an edit of assumptions keeps the pinned one.
-    const edition = patch.recompute ? await latestPublishedEdition(actor) : await getEdition(actor, row.rate_edition_id);
-    if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition.");
+    // A recompute takes the edition in force on the costing date (the study's start, or today if later); an edit of assumptions keeps the pinned one.
+    const edition = patch.recompute ? await editionForCosting(actor, row.start_date) : await getEdition(actor, row.rate_edition_id);
     editionId = edition.id;
     results = compute(inputs, editionToRateBook(edition), studyContext(row));
     results_json = JSON.stringify(results);
@@ -360,8 +360,7 @@ export async function studyContextFor(actor: Actor, studyId: number): Promise<{ 
   const membership = await membershipOf(actor.id, studyId);
   const s = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
   enforce(s ? decide(actor, "study.view", { membership }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
-  const edition = await latestPublishedEdition(actor);
-  if (!edition) throw new HttpError(409, "no-rate-book", "No published rate-book edition yet.");
+  const edition = await editionForCosting(actor, s!.start_date);
   return { study: { startDate: s!.start_date, sponsorCap: s!.sponsor_cap }, rates: editionToRateBook(edition) };
 }
 

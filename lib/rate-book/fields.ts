@@ -3,6 +3,7 @@
  * the comparison and the audit log, so that a field is named and validated the same way everywhere.
  */
 import { z } from "zod";
+import { percentToShare } from "@/lib/format/percent-input";
 
 export type SettingKind = "rate" | "money" | "money-optional" | "count" | "base";
 
@@ -34,12 +35,12 @@ export const SETTING_KEYS = [
 export type SettingKey = (typeof SETTING_KEYS)[number];
 
 export const SETTING_FIELDS: SettingField[] = [
-  { key: "faRate", column: "fa_rate", label: "F&A rate", kind: "rate", hint: "From the negotiated rate agreement, e.g. 0.565" },
+  { key: "faRate", column: "fa_rate", label: "F&A rate", kind: "rate", hint: "From the negotiated rate agreement, e.g. 56.5%" },
   { key: "faBase", column: "fa_base", label: "F&A base", kind: "base", hint: "mtdc (modified total direct costs) or tdc (total direct costs)" },
   { key: "mtdcSubawardThreshold", column: "mtdc_subaward_threshold", label: "MTDC subaward threshold", kind: "money", hint: "Each subaward's first dollars in the base: 50000 (2024 revision) or 25000" },
   { key: "equipmentThreshold", column: "equipment_threshold", label: "Equipment threshold", kind: "money", hint: "Unit cost from which an item is equipment: 10000 (2024 revision) or 5000" },
-  { key: "escalationSalaries", column: "escalation_salaries", label: "Escalation, salaries", kind: "rate", hint: "Per year from period 2, e.g. 0.03" },
-  { key: "escalationCosts", column: "escalation_costs", label: "Escalation, other costs", kind: "rate", hint: "Per year from period 2, e.g. 0.03" },
+  { key: "escalationSalaries", column: "escalation_salaries", label: "Escalation, salaries", kind: "rate", hint: "Per year from period 2, e.g. 3%" },
+  { key: "escalationCosts", column: "escalation_costs", label: "Escalation, other costs", kind: "rate", hint: "Per year from period 2, e.g. 3%" },
   { key: "salaryCap", column: "salary_cap", label: "Salary cap", kind: "money-optional", hint: "Annual; empty for no cap. The sponsor's figure changes yearly." },
   { key: "siteStartupFee", column: "site_startup_fee", label: "Site start-up fee", kind: "money" },
   { key: "siteAnnualFee", column: "site_annual_fee", label: "Annual site fee", kind: "money" },
@@ -65,11 +66,26 @@ const decimalText = (label: string, max: number, places: number) =>
     .transform((v) => String(v).trim().replace(/[$,\s]/g, ""))
     .pipe(decimalCore(label, max, places));
 
+/**
+ * A rate as the page shows it (a percentage, "56.5%") or as a share ("0.565"); stored as the share.
+ * Without a % sign the number is a share, so "57.5" is refused rather than guessed at.
+ */
+const rateText = (label: string) =>
+  z
+    .union([z.string(), z.number()], { error: `${label}: enter a percentage like 56.5% or a share like 0.565.` })
+    .transform((v) => String(percentToShare(String(v).trim())).replace(/\s/g, ""))
+    .pipe(
+      z
+        .string()
+        .regex(/^\d{1,12}(\.\d{1,6})?$/, `${label}: enter a percentage like 56.5% (at most 4 decimals) or a share like 0.565, with no sign.`)
+        .refine((s) => Number(s) <= 1, `${label} must be at most 100%; type a percentage with its % sign, like 57.5%.`),
+    );
+
 /** Validates one setting's value, as typed or imported; returns the stored text. */
 export function settingSchema(field: SettingField): z.ZodType<string | null> {
   switch (field.kind) {
     case "rate":
-      return decimalText(field.label, 1, 6) as z.ZodType<string>;
+      return rateText(field.label) as z.ZodType<string>;
     case "money":
       return decimalText(field.label, 1e11, 2) as z.ZodType<string>;
     case "money-optional":
@@ -91,7 +107,7 @@ export const fringeCategoryField = z
   .string({ error: "Enter a staff category." })
   .trim()
   .regex(/^[a-z][a-z0-9-]{1,31}$/, "Staff category: 2–32 lower-case letters, digits or hyphens, like faculty or research-staff.");
-export const rateField = (label: string) => decimalText(label, 1, 6);
+export const rateField = (label: string) => rateText(label);
 export const moneyField = (label: string) => decimalText(label, 1e11, 2);
 export const procedureCodeField = z
   .string({ error: "Enter a procedure code." })

@@ -1,7 +1,8 @@
 /**
  * Rate sheets (CSV or XLSX) for importing into a draft edition. Columns: section, key, name, value,
  * category. Sections: `setting` (key = a setting's name), `fringe` (key = staff category, value = rate),
- * `procedure` (key = code, name, value = unit cost, category).
+ * `procedure` (key = code, name, value = unit cost, category). Rates may be typed as percentages ("56.5%")
+ * or shares ("0.565"), as in the rate book's forms; they are stored as shares.
  *
  * Untrusted files: the type is decided by content, not name; size and rows are limited; an XLSX
  * archive's declared uncompressed size is read from its central directory and checked before
@@ -219,8 +220,8 @@ export function templateRows(): string[][] {
   return [
     [...SHEET_COLUMNS],
     ["setting", "faRate", "", "0.565", ""],
-    ["setting", "escalationSalaries", "", "0.03", ""],
-    ["fringe", "faculty", "", "0.285", ""],
+    ["setting", "escalationSalaries", "", "3%", ""],
+    ["fringe", "faculty", "", "28.5%", ""],
     ["procedure", "LAB-CBC", "Complete blood count", "28.50", "laboratory"],
   ];
 }

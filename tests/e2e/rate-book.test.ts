@@ -19,16 +19,18 @@ describe("the grants officer keeps the rate book", () => {
     await page.getByRole("link", { name: "Rate book" }).click();
     await page.waitForURL(/\/rate-book$/);
     await screenshot(page, "rate-book-list");
+    // The draft starts from the edition in force today unless another is picked.
+    expect(await page.getByLabel("Start from").locator("option:checked").textContent()).toBe("2027 rates (in force today)");
     await page.getByLabel("Label").fill("2028 rates");
     await page.getByLabel("Effective from").fill("2028-01-01");
-    await page.getByRole("button", { name: "Start a draft from the current edition" }).click();
+    await page.getByRole("button", { name: "Start the draft" }).click();
     await page.waitForURL(/\/rate-book\/\d+$/);
     expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe("2028 rates");
 
     const fa = page.getByTestId("edit-faRate");
     await fa.getByLabel("New value for F&A rate").fill("1.4");
     await fa.getByRole("button", { name: "Save" }).click();
-    await fa.getByText("F&A rate must be at most 1.").waitFor();
+    await fa.getByText("F&A rate must be at most 100%").waitFor();
     expect(await fa.getByLabel("New value for F&A rate").inputValue()).toBe("1.4");
     await fa.getByLabel("New value for F&A rate").fill("0.575");
     await fa.getByRole("button", { name: "Save" }).click();
@@ -36,6 +38,7 @@ describe("the grants officer keeps the rate book", () => {
     await screenshot(page, "rate-book-draft");
 
     await page.getByTestId("publish").getByRole("button", { name: "Publish this edition" }).click();
+    await page.getByRole("dialog").getByRole("button", { name: "Publish", exact: true }).click();
     await page.getByText("This edition is published and read-only").waitFor();
     expect(await page.getByTestId("edit-faRate").count()).toBe(0);
   });

@@ -151,6 +151,7 @@ const CASES: Case[] = [
   { name: "change a draft's F&A rate", call: (f) => rateBook.updateSettingAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), key: "faRate", value: "0.55" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "add a fringe category", call: (f) => rateBook.addFringeAction(null, f), form: async () => ({ editionId: ids.draftEdition, category: "matrix-staff", rate: "0.2" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "commit an imported rate sheet", call: (f) => rateBook.finishImportAction(f), form: async () => ({ importId: ids.sheet, decision: "commit" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
+  { name: "change a draft's label and effective date", call: (f) => rateBook.updateEditionDetailsAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), label: "Matrix draft, renamed", effectiveDate: "2031-02-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "publish the draft", call: (f) => rateBook.publishAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!) }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
 ];
 

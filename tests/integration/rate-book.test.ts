@@ -98,7 +98,10 @@ describe("editing a draft and publishing it", () => {
     const after = await patch("grants", id, { version: e.version + 1, settings: { faRate: "0.6" } });
     expect(after.status).toBe(409);
     expect((await after.json()).error.message).toMatch(/read-only/);
-    expect((await latestPublishedEdition(grants()))!.id).toBe(id);
+    // Effective 2028-01-01, it is scheduled; the seeded edition stays in force today.
+    const listed = (await (await editionsRoute.GET(request("GET", "/api/v1/rate-book/editions", { cookie: cookies.grants }))).json()).editions;
+    expect(listed.find((x: { id: number }) => x.id === id).standing).toEqual({ kind: "scheduled", from: "2028-01-01" });
+    expect((await latestPublishedEdition(grants()))!.label).toBe("2027 rates");
   });
 
   it("finance, investigator, co-investigator and admin get 403 on PATCH, and nothing changes", async () => {
@@ -212,7 +215,7 @@ describe("importing a rate sheet", () => {
     expect(res.status).toBe(201);
     const { import: view } = await res.json();
     expect([...new Set(view.errors.map((e: { row: number }) => e.row))]).toEqual([2, 3, 4, 5, 6]);
-    expect(view.errors[0].message).toMatch(/F&A rate must be at most 1/);
+    expect(view.errors[0].message).toMatch(/F&A rate must be at most 100%/);
     const commit = commitImport(grants(), view.id);
     await expect(commit).rejects.toMatchObject({ status: 422 });
     expect((await getEdition(grants(), id)).settings).toEqual(before);

@@ -83,9 +83,35 @@ export async function removeRowAction(_prev: unknown, formData: FormData) {
   return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { [v.kind]: [{ id: v.id, version: v.version, remove: true }] } }));
 }
 
+/**
+ * Publishes a draft after the page's confirmation. On success the edition's page says what happened
+ * (in force today, or scheduled); a refusal (an edition that would never be in force, a conflict) is
+ * answered on the form with its reason.
+ */
 export async function publishAction(_prev: unknown, formData: FormData) {
-  const schema = z.object({ editionId: id, version });
-  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { version: v.version, publish: true } }));
+  const user = await requireUser();
+  const submission = parseWithZod(formData, { schema: z.object({ editionId: id, version }) });
+  if (!roleMay(user, "ratebook.edit")) return submission.reply({ formErrors: [forbidden().message] });
+  if (submission.status !== "success") return submission.reply();
+  const { editionId, version: v } = submission.value;
+  try {
+    await applyEditionPatch(user, editionId, { version: v, publish: true });
+  } catch (err) {
+    if (err instanceof HttpError) {
+      revalidatePath(`/rate-book/${editionId}`);
+      return submission.reply({ formErrors: [err.message] });
+    }
+    throw err;
+  }
+  revalidatePath("/rate-book");
+  revalidatePath(`/rate-book/${editionId}`);
+  redirect(`/rate-book/${editionId}?published=1`);
+}
+
+/** A draft's label and effective date. */
+export async function updateEditionDetailsAction(_prev: unknown, formData: FormData) {
+  const schema = z.object({ editionId: id, version, label: newDraftSchema.shape.label, effectiveDate: newDraftSchema.shape.effectiveDate });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { version: v.version, label: v.label, effectiveDate: v.effectiveDate } }));
 }
 
 export async function createDraftAction(_prev: unknown, formData: FormData) {

@@ -2,11 +2,13 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { InlineForm } from "@/components/rate-book/inline-form";
 import { RateSheetUpload } from "@/components/rate-book/upload-form";
-import { getEdition } from "@/db/queries/rate-book";
+import { PublishControl } from "@/components/rate-book/publish-control";
+import { getEdition, latestPublishedEdition, previewPublish, standingOfEdition } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate, formatSetting } from "@/lib/format/rates";
 import { SETTING_FIELDS } from "@/lib/rate-book/fields";
+import { publishedMessage, publishEffect, standingSentence } from "@/lib/rate-book/standing-text";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import {
@@ -14,6 +16,7 @@ import {
   addProcedureAction,
   publishAction,
   removeRowAction,
+  updateEditionDetailsAction,
   updateFringeAction,
   updateProcedureAction,
   updateSettingAction,
@@ -22,12 +25,16 @@ import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate-book edition" };
 
-export default async function EditionPage({ params, searchParams }: { params: Promise<{ editionId: string }>; searchParams: Promise<{ imported?: string }> }) {
+export default async function EditionPage({ params, searchParams }: { params: Promise<{ editionId: string }>; searchParams: Promise<{ imported?: string; published?: string }> }) {
   const user = await requireUser();
   const { editionId } = await params;
-  const { imported } = await searchParams;
+  const { imported, published } = await searchParams;
   const e = await loadOr404(() => getEdition(user, Number(editionId)));
   const editable = e.status === "draft" && can(user, "ratebook.edit");
+  const [standing, current, outcome] = await Promise.all([standingOfEdition(user, e.id), latestPublishedEdition(user), editable ? previewPublish(user, e.id) : null]);
+  const currentLabel = current && current.id !== e.id ? current.label : null;
+  // Rates are shown as percentages, so their inputs start as percentages too (a share is also accepted).
+  const RATE_HELP = "As a percentage (57.5%) or a share (0.575)";
   return (
     <div className="flex flex-col gap-6">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -37,21 +44,58 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         <div>
           <h1>{e.label}</h1>
           <p className="text-ink-soft">
-            Effective from <span className="num">{e.effectiveDate}</span> ·{" "}
-            {e.status === "published" ? `published ${e.publishedAt?.slice(0, 10)} by ${e.publishedByName}` : "draft: not yet used by any scenario"} · version{" "}
-            <span className="num">{e.version}</span>
+            Effective from <span className="num">{e.effectiveDate}</span>
+            {e.status === "published" ? ` · published ${e.publishedAt?.slice(0, 10)} by ${e.publishedByName}` : ""} · version <span className="num">{e.version}</span>
+          </p>
+          <p className="mt-1" data-testid="standing">
+            {standingSentence(standing)}
           </p>
         </div>
-        {editable ? (
-          <InlineForm action={publishAction} hidden={{ editionId: e.id, version: e.version }} fields={[]} submitLabel="Publish this edition" variant="primary" testId="publish" />
+        {editable && outcome ? (
+          <PublishControl
+            action={publishAction}
+            editionId={e.id}
+            version={e.version}
+            label={e.label}
+            effect={publishEffect(outcome, currentLabel)}
+            refusal={outcome.kind === "never" ? outcome.reason : null}
+          />
         ) : null}
       </header>
+      {published && e.status === "published" ? (
+        <p className="notice" role="status" data-testid="published-message">
+          {publishedMessage(e.label, standing, currentLabel)}
+        </p>
+      ) : null}
+      {editable && outcome?.kind === "never" ? (
+        <p className="alert" data-testid="never-in-force">
+          As dated, this draft can never be in force, so it cannot be published. {outcome.reason}
+        </p>
+      ) : null}
       {imported ? (
         <p className="notice" role="status">
           The rate sheet was applied to this draft. Every change is in the change history.
         </p>
       ) : null}
       {e.status === "published" ? <p className="notice">This edition is published and read-only. To change rates, start a new draft from the rate book page.</p> : null}
+
+      {editable ? (
+        <section className="card" aria-labelledby="details">
+          <h2 id="details" className="mb-2">
+            Label and effective date
+          </h2>
+          <InlineForm
+            action={updateEditionDetailsAction}
+            hidden={{ editionId: e.id, version: e.version }}
+            fields={[
+              { name: "label", label: "Label", defaultValue: e.label, width: "w-48", showLabel: true },
+              { name: "effectiveDate", label: "Effective from", defaultValue: e.effectiveDate, width: "w-36", hint: "YYYY-MM-DD", showLabel: true },
+            ]}
+            submitLabel="Save"
+            testId="edit-details"
+          />
+        </section>
+      ) : null}
 
       <section className="card relative overflow-x-auto p-0" aria-labelledby="settings">
         <h2 id="settings" className="px-5 pt-4">
@@ -74,7 +118,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                     <InlineForm
                       action={updateSettingAction}
                       hidden={{ editionId: e.id, version: e.version, key: f.key }}
-                      fields={[{ name: "value", label: `New value for ${f.label}`, defaultValue: e.settings[f.key] }]}
+                      fields={[
+                        f.kind === "rate"
+                          ? { name: "value", label: `New value for ${f.label}`, defaultValue: formatRate(e.settings[f.key]), help: RATE_HELP }
+                          : { name: "value", label: `New value for ${f.label}`, defaultValue: e.settings[f.key] },
+                      ]}
                       submitLabel="Save"
                       testId={`edit-${f.key}`}
                     />
@@ -99,7 +147,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                 <td className="num">{formatRate(f.rate)}</td>
                 {editable ? (
                   <td className="flex flex-wrap gap-2">
-                    <InlineForm action={updateFringeAction} hidden={{ editionId: e.id, id: f.id, version: f.version }} fields={[{ name: "rate", label: `Fringe rate for ${f.category}`, defaultValue: f.rate }]} submitLabel="Save" />
+                    <InlineForm action={updateFringeAction} hidden={{ editionId: e.id, id: f.id, version: f.version }} fields={[{ name: "rate", label: `Fringe rate for ${f.category}`, defaultValue: formatRate(f.rate), help: RATE_HELP }]} submitLabel="Save" />
                     <InlineForm action={removeRowAction} hidden={{ editionId: e.id, id: f.id, version: f.version, kind: "fringe" }} fields={[]} submitLabel="Remove" variant="danger" />
                   </td>
                 ) : null}
@@ -115,7 +163,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
               hidden={{ editionId: e.id }}
               fields={[
                 { name: "category", label: "Staff category", hint: "category" },
-                { name: "rate", label: "Fringe rate", hint: "0.25" },
+                { name: "rate", label: "Fringe rate", hint: "25%", help: RATE_HELP },
               ]}
               submitLabel="Add"
             />

@@ -1,6 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { getImport } from "@/db/queries/rate-book";
+import { getImport, type ImportRowView } from "@/db/queries/rate-book";
+import { formatMoney } from "@/lib/format/money";
+import { formatSetting } from "@/lib/format/rates";
+import { SETTING_BY_KEY, type SettingKey } from "@/lib/rate-book/fields";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { finishImportAction } from "../../../actions";
@@ -9,6 +12,15 @@ import { TableHead } from "@/components/table-head";
 export const metadata: Metadata = { title: "Rate-sheet preview" };
 
 const STATUS = { change: "Changes", add: "Adds", same: "Unchanged" } as const;
+
+/** A value as the rate book shows it: rates as percentages, money in dollars. */
+function shown(r: ImportRowView, v: string | null): string {
+  if (v === null) return r.section === "setting" ? formatSetting(SETTING_BY_KEY.get(r.key as SettingKey)?.kind ?? "count", v) : "—";
+  if (r.section === "fringe") return formatSetting("rate", v);
+  if (r.section === "procedure") return formatMoney(v);
+  const field = SETTING_BY_KEY.get(r.key as SettingKey);
+  return field ? formatSetting(field.kind, v) : v;
+}
 
 export default async function ImportPreviewPage({ params }: { params: Promise<{ editionId: string; importId: string }> }) {
   const user = await requireUser();
@@ -50,8 +62,8 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
                   {r.key}
                   {r.name ? <span className="block text-xs text-ink-soft">{r.name}</span> : null}
                 </td>
-                <td className="num">{r.old ?? "—"}</td>
-                <td className="num">{r.value ?? "—"}</td>
+                <td className="num">{r.old === null && r.status === "add" ? "—" : shown(r, r.old)}</td>
+                <td className="num">{shown(r, r.value)}</td>
                 <td>
                   <span className={r.status === "same" ? "badge badge-muted" : "badge"}>{STATUS[r.status]}</span>
                 </td>

@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { ScenarioForm } from "@/components/scenario/scenario-form";
-import { latestPublishedEdition } from "@/db/queries/rate-book";
+import { editionInForceOn } from "@/db/queries/rate-book";
+import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { getScenario, listScenarios } from "@/db/queries/scenarios";
 import { getStudy } from "@/db/queries/studies";
 import { can } from "@/lib/auth/permissions";
@@ -32,7 +33,7 @@ export default async function NewScenarioPage({ params }: { params: Promise<{ st
       </div>
     );
   }
-  const edition = await latestPublishedEdition(user);
+  const edition = await editionInForceOn(user, costingDate(study.startDate, isoDay()));
   const existing = await listScenarios(user, study.id);
   const start = existing[0] ? (await getScenario(user, existing[0].id)).inputs : TEMPLATE;
   return (
@@ -41,7 +42,7 @@ export default async function NewScenarioPage({ params }: { params: Promise<{ st
         <Link href="/studies">Studies</Link> <span aria-hidden="true">›</span> <Link href={`/studies/${study.id}`}>{study.code}</Link> <span aria-hidden="true">›</span> New scenario
       </nav>
       <h1>New scenario</h1>
-      {!edition ? <p className="alert">No rate-book edition is published yet; the grants office must publish one before scenarios can be costed.</p> : null}
+      {!edition ? <p className="alert">No rate-book edition is in force for this study yet; the grants office must publish one before scenarios can be costed.</p> : null}
       <ScenarioForm studyId={study.id} name="" inputs={start} initialResults={null} sponsorCap={study.sponsorCap} fringeCategories={edition?.fringe.map((f) => f.category) ?? []} />
     </div>
   );
