@@ -67,6 +67,8 @@ export async function reviewAction(_prev: unknown, formData: FormData): Promise<
   return run(formData, may, async (user, v) => {
     if (!action.success) throw new HttpError(400, "invalid", "Choose submit, return or clear.");
     await reviewScenario(user, v.scenarioId, action.data, reason);
+    // The scenario page says what happened (its `done` notice).
+    return `/studies/${v.studyId}/scenarios/${v.scenarioId}?done=${action.data === "submit" ? "submitted" : action.data === "clear" ? "cleared" : "returned"}`;
   });
 }
 
@@ -77,7 +79,7 @@ export async function cloneAction(_prev: unknown, formData: FormData): Promise<{
 export async function deleteAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
   return run(formData, "scenario.edit", async (user, v) => {
     await deleteScenario(user, v.scenarioId);
-    return `/studies/${v.studyId}`;
+    return `/studies/${v.studyId}?deleted=1`;
   });
 }
 
