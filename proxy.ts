@@ -47,6 +47,6 @@ export function proxy(req: NextRequest) {
 }
 
 export const config = {
-  // Pages only: the API answers JSON itself and static assets need no policy.
-  matcher: ["/((?!api/|_next/static|_next/image|favicon.ico|icon.svg).*)"],
+  // Pages only: the API answers JSON itself and static assets (public/ too) need no policy or session.
+  matcher: ["/((?!api/|_next/static|_next/image|favicon.ico|icon.svg|robots.txt|manifest.webmanifest|apple-touch-icon.png|icon-192.png|icon-512.png).*)"],
 };

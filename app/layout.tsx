@@ -5,6 +5,10 @@ import "./globals.css";
 export const metadata: Metadata = {
   title: { default: "Delta Ledger", template: "%s · Delta Ledger" },
   description: "Plan a funded study's sample size and its recruitment budget together.",
+  // app/icon.svg is the browser tab's icon; these come from public/ (made from it).
+  icons: { apple: "/apple-touch-icon.png" },
+  manifest: "/manifest.webmanifest",
+  robots: { index: false, follow: false },
 };
 
 export const viewport: Viewport = { width: "device-width", initialScale: 1 };

@@ -8,6 +8,7 @@ import { ACCOUNT_ROLES, ROLE_LABELS, type AccountRole } from "@/lib/auth/roles";
 import { createAccountSchema } from "@/lib/auth/schemas";
 import { describedBy, Field, FormErrors } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
+import { ConfirmButton } from "./confirm-button";
 
 export function CreateAccountForm() {
   const [lastResult, action, pending] = useActionState(createAccountAction, undefined);
@@ -87,13 +88,36 @@ export function AccountRowControls({ userId, name, role, active, self }: { userI
       <form action={activeAction}>
         <input type="hidden" name="userId" value={userId} />
         <input type="hidden" name="active" value={active ? "0" : "1"} />
-        <button type="submit" className={active ? "btn btn-danger py-1" : "btn btn-quiet py-1"} disabled={activePending}>
-          {active ? "Deactivate" : "Reactivate"}
-        </button>
+        {active ? (
+          // Deactivating signs the person out everywhere at once: ask first.
+          <ConfirmButton
+            label="Deactivate"
+            question={`Deactivate ${name}? They are signed out at once and can no longer sign in.`}
+            confirmLabel="Deactivate"
+            cancelLabel="Keep active"
+            variant="danger"
+            pending={activePending}
+            testId={`deactivate-${userId}`}
+          />
+        ) : (
+          <button type="submit" className="btn btn-quiet py-1" disabled={activePending}>
+            Reactivate
+          </button>
+        )}
       </form>
       {error.length ? (
         <span className="text-sm text-signal" role="alert">
           {error.join(" ")}
+        </span>
+      ) : null}
+      {activeResult?.status === "success" && !activePending ? (
+        <span className="text-sm text-ledger" role="status" data-testid={`account-status-${userId}`}>
+          {active ? `${name} can sign in again.` : `${name} is deactivated and can no longer sign in.`}
+        </span>
+      ) : null}
+      {roleResult?.status === "success" && !rolePending ? (
+        <span className="text-sm text-ledger" role="status">
+          Role changed to {ROLE_LABELS[role]}.
         </span>
       ) : null}
     </div>

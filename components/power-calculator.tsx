@@ -2,67 +2,74 @@
 
 import { useEffect, useMemo, useRef, useState } from "react";
 import type { PowerResult } from "@/lib/power/schema";
+import { POWER_LABELS as L } from "@/lib/power/schema";
+import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { TableHead } from "@/components/table-head";
 
 type Design = PowerResult["design"];
-type SolveFor = "n" | "power" | "effect";
+/** The question the calculator answers: the participants needed, the power reached, or the smallest effect detectable. */
+type Find = "n" | "power" | "effect";
+type EffectAs = "d" | "raw";
 type Values = Record<string, string>;
-
-const DESIGN_LABELS: Record<Design, string> = {
-  "two-means": "Two independent means",
-  "one-mean": "One mean or paired differences",
-  "two-proportions": "Two proportions",
-  "cluster-two-means": "Cluster-randomised, means",
-  "cluster-two-proportions": "Cluster-randomised, proportions",
-  "time-to-event": "Time to event (log-rank)",
-};
 
 type FieldSpec = { name: string; label: string; hint?: string; kind?: "number" | "select"; options?: [string, string][] };
 
-const F: Record<string, FieldSpec> = {
-  alpha: { name: "alpha", label: "Alpha", hint: "Type I error rate, e.g. 0.05" },
-  sides: { name: "sides", label: "Test", kind: "select", options: [["2", "Two-sided"], ["1", "One-sided"]] },
-  power: { name: "power", label: "Power", hint: "e.g. 0.80 or 0.90" },
-  allocationRatio: { name: "allocationRatio", label: "Allocation ratio (n2 / n1)", hint: "1 for equal arms" },
-  n1: { name: "n1", label: "Evaluable n per arm (arm 1)" },
-  nOne: { name: "n1", label: "Evaluable n" },
-  effectSize: { name: "effectSize", label: "Effect size (Cohen's d)", hint: "Mean difference ÷ SD" },
-  meanDifference: { name: "meanDifference", label: "Mean difference", hint: "In outcome units" },
-  sd: { name: "sd", label: "Standard deviation", hint: "In outcome units" },
-  p1: { name: "p1", label: "Control proportion (p1)" },
-  p2: { name: "p2", label: "Intervention proportion (p2)" },
-  method: { name: "method", label: "Method", kind: "select", options: [["normal", "Normal approximation"], ["continuity-corrected", "With continuity correction"], ["arcsine", "Arcsine (Cohen's h)"]] },
-  directionP: { name: "direction", label: "Detectable p2 lies", kind: "select", options: [["increase", "above p1"], ["decrease", "below p1"]] },
-  clusterSize: { name: "clusterSize", label: "Mean cluster size" },
-  icc: { name: "icc", label: "ICC", hint: "Intracluster correlation, 0 to < 1" },
-  cv: { name: "cv", label: "CV of cluster size", hint: "0 if clusters are equal" },
-  clustersPerArm: { name: "clustersPerArm", label: "Clusters per arm (arm 1)" },
-  hazardRatio: { name: "hazardRatio", label: "Hazard ratio" },
-  tteMethod: { name: "method", label: "Events by", kind: "select", options: [["schoenfeld", "Schoenfeld"], ["freedman", "Freedman"]] },
-  directionHr: { name: "direction", label: "Detectable hazard ratio", kind: "select", options: [["decrease", "below 1"], ["increase", "above 1"]] },
-  controlMedian: { name: "controlMedian", label: "Control median survival (months)" },
-  accrualMonths: { name: "accrualMonths", label: "Accrual period (months)" },
-  followUpMonths: { name: "followUpMonths", label: "Further follow-up (months)" },
-  attrition: { name: "attrition", label: "Attrition", hint: "Share lost after enrolment, e.g. 0.10" },
-  screenFailure: { name: "screenFailure", label: "Screen failure", hint: "Share of those screened who are not enrolled" },
-};
+const F = {
+  alpha: { name: "alpha", label: L.alpha, hint: "The false-positive rate the test allows, like 0.05" },
+  sides: { name: "sides", label: L.sides, kind: "select", options: [["2", "Two-sided"], ["1", "One-sided"]] },
+  power: { name: "power", label: L.power, hint: "The chance of detecting the effect if it is real, like 0.80 or 0.90" },
+  allocationRatio: { name: "allocationRatio", label: L.allocationRatio, hint: "Second arm's size per participant in the first; 1 for equal arms" },
+  n1: { name: "n1", label: L.n1, hint: "Analysed per arm (the first arm, if unequal)" },
+  nOne: { name: "n1", label: L.n1OneGroup, hint: "Analysed participants or pairs" },
+  effectSize: { name: "effectSize", label: L.effectSize, hint: "The difference in standard deviations, like 0.5" },
+  meanDifference: { name: "meanDifference", label: L.meanDifference, hint: "In the outcome's units" },
+  sd: { name: "sd", label: L.sd, hint: "Of the outcome, in its units" },
+  p1: { name: "p1", label: L.p1, hint: "Share with the outcome without the intervention, like 0.30" },
+  p2: { name: "p2", label: L.p2, hint: "Share with the outcome with it, like 0.45" },
+  method: { name: "method", label: L.method, kind: "select", options: [["normal", "Normal approximation"], ["continuity-corrected", "With continuity correction"], ["arcsine", "Arcsine (Cohen's h)"]] },
+  directionP: { name: "direction", label: L.direction, kind: "select", options: [["increase", "The intervention raises the proportion"], ["decrease", "The intervention lowers it"]] },
+  clusterSize: { name: "clusterSize", label: L.clusterSize, hint: "Participants per cluster, like 20" },
+  icc: { name: "icc", label: L.icc, hint: "Intracluster correlation, from 0 to below 1" },
+  cv: { name: "cv", label: L.cv, hint: "0 if the clusters are of equal size" },
+  clustersPerArm: { name: "clustersPerArm", label: L.clustersPerArm, hint: "The first arm's, if unequal" },
+  hazardRatio: { name: "hazardRatio", label: L.hazardRatio, hint: "Intervention over control, like 0.75" },
+  tteMethod: { name: "method", label: "Events counted by", kind: "select", options: [["schoenfeld", "Schoenfeld (1983)"], ["freedman", "Freedman (1982)"]] },
+  directionHr: { name: "direction", label: L.direction, kind: "select", options: [["decrease", "The intervention lowers the hazard"], ["increase", "The intervention raises it"]] },
+  controlMedian: { name: "controlMedian", label: L.controlMedian },
+  accrualMonths: { name: "accrualMonths", label: L.accrualMonths },
+  followUpMonths: { name: "followUpMonths", label: L.followUpMonths, hint: "After the last participant is enrolled" },
+  attrition: { name: "attrition", label: L.attrition, hint: "Share lost after enrolment, like 0.10" },
+  screenFailure: { name: "screenFailure", label: L.screenFailure, hint: "Share of those screened who are not enrolled, like 0.30" },
+} satisfies Record<string, FieldSpec>;
 
-function layout(design: Design, effectAs: "d" | "raw") {
-  const means = effectAs === "d" ? [F.effectSize!] : [F.meanDifference!, F.sd!];
+/** Each design's sample-size field, effect fields and design fields. */
+function layout(design: Design, effectAs: EffectAs): { n: FieldSpec; effect: FieldSpec[]; design: FieldSpec[] } {
+  const means = effectAs === "d" ? [F.effectSize] : [F.meanDifference, F.sd];
   switch (design) {
     case "two-means":
-      return { n: F.n1!, effect: means, design: [F.allocationRatio!] };
+      return { n: F.n1, effect: means, design: [F.allocationRatio] };
     case "one-mean":
-      return { n: F.nOne!, effect: means, design: [] };
+      return { n: F.nOne, effect: means, design: [] };
     case "two-proportions":
-      return { n: F.n1!, effect: [F.p2!], design: [F.p1!, F.method!, F.directionP!, F.allocationRatio!] };
+      return { n: F.n1, effect: [F.p2], design: [F.p1, F.directionP, F.method, F.allocationRatio] };
     case "cluster-two-means":
-      return { n: F.clustersPerArm!, effect: means, design: [F.clusterSize!, F.icc!, F.cv!, F.allocationRatio!] };
+      return { n: F.clustersPerArm, effect: means, design: [F.clusterSize, F.icc, F.cv, F.allocationRatio] };
     case "cluster-two-proportions":
-      return { n: F.clustersPerArm!, effect: [F.p2!], design: [F.p1!, F.clusterSize!, F.icc!, F.cv!, F.directionP!, F.allocationRatio!] };
+      return { n: F.clustersPerArm, effect: [F.p2], design: [F.p1, F.directionP, F.clusterSize, F.icc, F.cv, F.allocationRatio] };
     case "time-to-event":
-      return { n: F.n1!, effect: [F.hazardRatio!], design: [F.tteMethod!, F.directionHr!, F.controlMedian!, F.accrualMonths!, F.followUpMonths!, F.allocationRatio!] };
+      return { n: F.n1, effect: [F.hazardRatio], design: [F.directionHr, F.controlMedian, F.accrualMonths, F.followUpMonths, F.tteMethod, F.allocationRatio] };
   }
+}
+
+/** The fields to fill for one question: never the one being found. */
+function fieldsFor(design: Design, find: Find, effectAs: EffectAs): FieldSpec[] {
+  const l = layout(design, effectAs);
+  const out: FieldSpec[] = [];
+  if (find !== "effect") out.push(...l.effect);
+  else if (effectAs === "raw") out.push(F.sd); // to give the smallest effect in the outcome's units too
+  if (find !== "n") out.push(l.n);
+  if (find !== "power") out.push(F.power);
+  return out;
 }
 
 const DEFAULTS: Values = {
@@ -92,54 +99,72 @@ const DEFAULTS: Values = {
 
 const SELECTS = new Set(["sides", "method", "direction"]);
 
-/** The request body: numbers parsed, empty fields left out, the solved quantity left out. */
-export function buildRequest(design: Design, solveFor: SolveFor, effectAs: "d" | "raw", v: Values): Record<string, unknown> {
+/** The request body: numbers parsed, empty fields left out, and the answer sought left out. */
+export function buildRequest(design: Design, find: Find, effectAs: EffectAs, v: Values): Record<string, unknown> {
   const l = layout(design, effectAs);
-  const names = [F.alpha!, F.sides!, F.attrition!, F.screenFailure!, ...l.design];
-  if (solveFor !== "power") names.push(F.power!);
-  if (solveFor !== "n") names.push(l.n);
-  if (solveFor !== "effect") names.push(...l.effect);
-  else if (effectAs === "raw") names.push(F.sd!);
+  const fields = [F.alpha, F.sides, F.attrition, F.screenFailure, ...l.design, ...fieldsFor(design, find, effectAs)];
   const body: Record<string, unknown> = { design };
-  for (const f of names) {
+  for (const f of fields) {
     const raw = (v[f.name] ?? "").trim();
     if (raw === "") continue;
     if (SELECTS.has(f.name)) {
       body[f.name] = f.name === "sides" ? Number(raw) : raw;
       continue;
     }
-    const n = Number(raw);
-    body[f.name] = Number.isFinite(n) ? n : raw; // let the server name a non-number
+    const n = Number(raw.replace(/,/g, ""));
+    body[f.name] = Number.isFinite(n) ? n : raw; // the server names a non-number beside its field
   }
   return body;
 }
 
-type Outcome = { kind: "idle" } | { kind: "ok"; result: PowerResult } | { kind: "error"; status: number; message: string; fields: Record<string, string[]> };
+type Outcome = { kind: "idle" } | { kind: "ok"; result: PowerResult; find: Find; asked: string } | { kind: "error"; status: number; message: string; fields: Record<string, string[]> };
 
 const fmt = (x: number | undefined | null, digits = 3) => (x == null ? "—" : x.toLocaleString("en-US", { maximumFractionDigits: digits }));
 
+const QUESTIONS: { value: Find; label: (cluster: boolean) => string }[] = [
+  { value: "n", label: (cluster) => (cluster ? "The clusters needed" : "The participants needed") },
+  { value: "power", label: () => "The power reached" },
+  { value: "effect", label: () => "The smallest effect detectable" },
+];
+
 export function PowerCalculator() {
+  const [find, setFind] = useState<Find>("n");
   const [design, setDesign] = useState<Design>("two-means");
-  const [solveFor, setSolveFor] = useState<SolveFor>("n");
-  const [effectAs, setEffectAs] = useState<"d" | "raw">("d");
+  const [effectAs, setEffectAs] = useState<EffectAs>("d");
   const [values, setValues] = useState<Values>(DEFAULTS);
   const [outcome, setOutcome] = useState<Outcome>({ kind: "idle" });
   const [busy, setBusy] = useState(false);
   const abort = useRef<AbortController | null>(null);
   const l = layout(design, effectAs);
-  const body = useMemo(() => buildRequest(design, solveFor, effectAs, values), [design, solveFor, effectAs, values]);
+  const body = useMemo(() => buildRequest(design, find, effectAs, values), [design, find, effectAs, values]);
+
+  // Every number field on screen is needed for the answer: an empty one is named beside itself, and nothing is asked.
+  const shownFields: FieldSpec[] = [F.alpha, F.sides, F.attrition, F.screenFailure, ...l.design, ...fieldsFor(design, find, effectAs)];
+  const answerWords = QUESTIONS.find((q) => q.value === find)!.label(design.startsWith("cluster-")).toLowerCase();
+  const empty = shownFields.filter((f) => f.kind !== "select" && (values[f.name] ?? "").trim() === "");
+  const emptyKey = empty.map((f) => f.name).join(",");
 
   useEffect(() => {
+    if (emptyKey) {
+      abort.current?.abort();
+      const fields = Object.fromEntries(
+        emptyKey.split(",").map((name) => [name, [`${shownFields.find((f) => f.name === name)?.label}: fill this in to find ${answerWords}.`]]),
+      );
+      setBusy(false);
+      setOutcome({ kind: "error", status: 0, message: "", fields });
+      return;
+    }
+    const asked = JSON.stringify(body);
     const timer = setTimeout(async () => {
       abort.current?.abort();
       const ctl = new AbortController();
       abort.current = ctl;
       setBusy(true);
       try {
-        const res = await fetch("/api/v1/power", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body), signal: ctl.signal });
+        const res = await fetch("/api/v1/power", { method: "POST", headers: { "content-type": "application/json" }, body: asked, signal: ctl.signal });
         const data = await res.json();
-        if (res.ok) setOutcome({ kind: "ok", result: data as PowerResult });
-        else setOutcome({ kind: "error", status: res.status, message: data?.error?.message ?? "The calculation failed.", fields: data?.error?.fields ?? {} });
+        if (res.ok) setOutcome({ kind: "ok", result: data as PowerResult, find, asked });
+        else setOutcome({ kind: "error", status: res.status, message: data?.error?.message ?? "The calculation failed; your inputs are kept.", fields: data?.error?.fields ?? {} });
       } catch (err) {
         if ((err as Error).name !== "AbortError") setOutcome({ kind: "error", status: 0, message: "Could not reach the server; your inputs are kept.", fields: {} });
       } finally {
@@ -147,7 +172,9 @@ export function PowerCalculator() {
       }
     }, 300);
     return () => clearTimeout(timer);
-  }, [body]);
+    // shownFields and answerWords follow from the same state as emptyKey and body.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [body, find, emptyKey]);
 
   // "method" and "direction" mean different things per design: reset them to the new design's defaults.
   const chooseDesign = (next: Design) => {
@@ -160,7 +187,16 @@ export function PowerCalculator() {
   };
   const fieldErrors = outcome.kind === "error" ? outcome.fields : {};
   const set = (name: string, value: string) => setValues((v) => ({ ...v, [name]: value }));
-  const renderField = (f: FieldSpec, disabled = false) => {
+  const shown = shownFields;
+  const shownNames = new Set(shown.map((f) => f.name));
+  const labelOf = (name: string) => shown.find((f) => f.name === name)?.label;
+  // Messages whose field is on screen sit beside it and are linked from the summary; any other is said in the summary.
+  const flagged = Object.entries(fieldErrors).filter(([k]) => shownNames.has(k));
+  const unplaced = Object.entries(fieldErrors)
+    .filter(([k]) => !shownNames.has(k))
+    .flatMap(([, m]) => m);
+
+  const renderField = (f: FieldSpec) => {
     const id = `calc-${f.name}`;
     const errors = fieldErrors[f.name];
     const describedBy = [f.hint ? `${id}-hint` : null, errors ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
@@ -180,9 +216,7 @@ export function PowerCalculator() {
             id={id}
             className="input num"
             inputMode="decimal"
-            value={disabled ? "" : (values[f.name] ?? "")}
-            placeholder={disabled ? "solved" : undefined}
-            disabled={disabled}
+            value={values[f.name] ?? ""}
             onChange={(e) => set(f.name, e.target.value)}
             aria-invalid={errors ? true : undefined}
             aria-describedby={describedBy}
@@ -194,7 +228,7 @@ export function PowerCalculator() {
           </span>
         ) : null}
         {errors ? (
-          <span id={`${id}-error`} className="error">
+          <span id={`${id}-error`} className="error" data-testid={`${id}-error`}>
             {errors.join(" ")}
           </span>
         ) : null}
@@ -202,86 +236,145 @@ export function PowerCalculator() {
     );
   };
 
-  const r = outcome.kind === "ok" ? outcome.result : null;
   const isCluster = design.startsWith("cluster-");
-  const effectLabel = design === "time-to-event" ? "Hazard ratio" : design.endsWith("proportions") ? "p2" : "Effect size d";
+  const isMeans = design === "two-means" || design === "one-mean" || design === "cluster-two-means";
+  // A result answers the question it was asked; while a new one is on its way the old one is marked.
+  const r = outcome.kind === "ok" ? outcome.result : null;
+  const stale = outcome.kind === "ok" && outcome.asked !== JSON.stringify(body);
+  const effectLabel = design === "time-to-event" ? "Hazard ratio" : design.endsWith("proportions") ? "Intervention proportion" : "Effect size (d)";
   const effectValue = r ? (r.hazardRatio ?? r.p2 ?? r.effectSize) : undefined;
+  const perArm = r ? (isCluster ? (r.clusters1 === r.clusters2 ? `${r.clusters1}` : `${r.clusters1} and ${r.clusters2}`) : r.n2 === null ? `${r.n1}` : r.n1 === r.n2 ? `${r.n1}` : `${r.n1} and ${r.n2}`) : "";
+  const answer = (() => {
+    if (!r || outcome.kind !== "ok") return null;
+    if (outcome.find === "n") {
+      if (isCluster) return { question: "Clusters needed", value: `${perArm} per arm`, detail: `${r.nTotal} evaluable participants in all` };
+      return { question: "Participants needed", value: r.n2 === null ? `${r.n1} evaluable` : `${perArm} per arm`, detail: r.n2 === null ? "" : `${r.nTotal} evaluable in all` };
+    }
+    if (outcome.find === "power") return { question: "Power reached", value: fmt(r.power, 3), detail: "" };
+    const unit = design === "time-to-event" ? "hazard ratio" : design.endsWith("proportions") ? "intervention proportion" : "d";
+    return {
+      question: "Smallest effect detectable",
+      value: unit === "d" ? `d = ${fmt(effectValue, 3)}` : `${fmt(effectValue, 3)}`,
+      detail: unit === "d" ? (r.meanDifference !== undefined ? `a mean difference of ${fmt(r.meanDifference, 3)} with SD ${fmt(r.sdUsed, 3)}` : "in standard deviations") : `as the ${unit}`,
+    };
+  })();
 
   return (
-    <div className="grid gap-6 lg:grid-cols-5">
-      <form className="card flex flex-col gap-5 lg:col-span-3" onSubmit={(e) => e.preventDefault()} aria-labelledby="calc-inputs">
-        <h2 id="calc-inputs">Assumptions</h2>
-        <div className="grid gap-4 sm:grid-cols-2">
+    <div className="grid grid-cols-1 gap-6 lg:grid-cols-5">
+      <form className="card flex min-w-0 flex-col gap-5 lg:col-span-3" onSubmit={(e) => e.preventDefault()} aria-labelledby="calc-inputs" noValidate>
+        <h2 id="calc-inputs" className="sr-only">
+          Your question and what you know
+        </h2>
+        <fieldset className="field min-w-0">
+          <legend className="label text-base font-semibold">What do you want to find?</legend>
+          <div className="flex flex-wrap gap-x-5 gap-y-2 pt-1">
+            {QUESTIONS.map((q) => (
+              <label key={q.value} className="flex items-center gap-1.5 font-normal">
+                <input type="radio" name="find" value={q.value} checked={find === q.value} onChange={() => setFind(q.value)} />
+                {q.label(isCluster)}
+              </label>
+            ))}
+          </div>
+        </fieldset>
+        <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
           <div className="field">
             <label htmlFor="calc-design">Design</label>
             <select id="calc-design" className="input" value={design} onChange={(e) => chooseDesign(e.target.value as Design)}>
-              {Object.entries(DESIGN_LABELS).map(([v, label]) => (
+              {Object.entries(DESIGN_NAMES).map(([v, label]) => (
                 <option key={v} value={v}>
                   {label}
                 </option>
               ))}
             </select>
           </div>
-          <fieldset className="field">
-            <legend className="label">Solve for</legend>
-            <div className="flex flex-wrap gap-3 pt-1">
-              {(["n", "power", "effect"] as const).map((k) => (
-                <label key={k} className="flex items-center gap-1.5 font-normal">
-                  <input type="radio" name="solveFor" value={k} checked={solveFor === k} onChange={() => setSolveFor(k)} />
-                  {k === "n" ? (isCluster ? "Clusters" : "Sample size") : k === "power" ? "Power" : "Detectable effect"}
+          {isMeans ? (
+            <fieldset className="field min-w-0">
+              <legend className="label">{find === "effect" ? "Show the effect as" : "You know the effect as"}</legend>
+              <div className="flex flex-wrap gap-3 pt-1">
+                <label className="flex items-center gap-1.5 font-normal">
+                  <input type="radio" name="effectAs" checked={effectAs === "d"} onChange={() => setEffectAs("d")} /> As an effect size (d)
                 </label>
-              ))}
-            </div>
-          </fieldset>
+                <label className="flex items-center gap-1.5 font-normal">
+                  <input type="radio" name="effectAs" checked={effectAs === "raw"} onChange={() => setEffectAs("raw")} /> As a mean difference and SD
+                </label>
+              </div>
+            </fieldset>
+          ) : null}
         </div>
-        {design === "two-means" || design === "one-mean" || design === "cluster-two-means" ? (
-          <fieldset className="field">
-            <legend className="label">Give the effect as</legend>
-            <div className="flex flex-wrap gap-3 pt-1">
-              <label className="flex items-center gap-1.5 font-normal">
-                <input type="radio" name="effectAs" checked={effectAs === "d"} onChange={() => setEffectAs("d")} /> Standardized (d)
-              </label>
-              <label className="flex items-center gap-1.5 font-normal">
-                <input type="radio" name="effectAs" checked={effectAs === "raw"} onChange={() => setEffectAs("raw")} /> Difference and SD
-              </label>
-            </div>
-          </fieldset>
-        ) : null}
-        <div className="grid gap-4 sm:grid-cols-2">
-          {renderField(F.alpha!)}
-          {renderField(F.sides!)}
-          {renderField(F.power!, solveFor === "power")}
-          {renderField(l.n, solveFor === "n")}
-          {l.effect.map((f) => renderField(f, solveFor === "effect" && !(f.name === "sd")))}
-          {l.design.map((f) => renderField(f))}
-        </div>
-        <h3 className="text-base">Recruitment funnel</h3>
-        <div className="grid gap-4 sm:grid-cols-2">
-          {renderField(F.attrition!)}
-          {renderField(F.screenFailure!)}
-        </div>
-        {fieldErrors[""] ? <p className="alert">{fieldErrors[""].join(" ")}</p> : null}
-      </form>
 
-      <section className="card flex flex-col gap-4 lg:col-span-2" aria-labelledby="calc-results" aria-live="polite" aria-busy={busy}>
-        <h2 id="calc-results">Result {busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : null}</h2>
-        {outcome.kind === "error" ? (
+        {flagged.length || unplaced.length ? (
+          <div className="alert" role="alert" data-testid="calc-error">
+            <p>Check {flagged.length + unplaced.length === 1 ? "this" : "these"} before the answer can be worked out:</p>
+            <ul className="mt-1 list-disc pl-5">
+              {flagged.map(([k, m]) => (
+                <li key={k}>
+                  <a href={`#calc-${k}`}>{labelOf(k)}</a>: {m.join(" ")}
+                </li>
+              ))}
+              {unplaced.map((m) => (
+                <li key={m}>{m}</li>
+              ))}
+            </ul>
+          </div>
+        ) : outcome.kind === "error" ? (
           <p className="alert" role="alert" data-testid="calc-error">
             {outcome.message}
           </p>
         ) : null}
-        {r ? (
+
+        <section aria-labelledby="calc-known" className="flex flex-col gap-3">
+          <h3 id="calc-known" className="text-base">
+            What you know
+          </h3>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">{fieldsFor(design, find, effectAs).map(renderField)}</div>
+        </section>
+        <section aria-labelledby="calc-test" className="flex flex-col gap-3">
+          <h3 id="calc-test" className="text-base">
+            The test{l.design.length ? " and the design" : ""}
+          </h3>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
+            {renderField(F.alpha)}
+            {renderField(F.sides)}
+            {l.design.map(renderField)}
+          </div>
+        </section>
+        <section aria-labelledby="calc-funnel" className="flex flex-col gap-3">
+          <h3 id="calc-funnel" className="text-base">
+            Recruitment funnel
+          </h3>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
+            {renderField(F.attrition)}
+            {renderField(F.screenFailure)}
+          </div>
+        </section>
+      </form>
+
+      <section className="card flex min-w-0 flex-col gap-4 lg:col-span-2" aria-labelledby="calc-results" aria-live="polite" aria-busy={busy}>
+        <h2 id="calc-results">Answer {busy ? <span className="text-sm font-normal text-ink-soft">working it out…</span> : null}</h2>
+        {r && answer ? (
           <>
-            <dl className="grid grid-cols-2 gap-3" data-testid="calc-result">
+            {stale ? (
+              <p className="text-sm text-ink-soft" data-testid="calc-stale">
+                These figures are for your earlier inputs; the new answer follows.
+              </p>
+            ) : null}
+            <div className={stale ? "opacity-60" : undefined} data-testid="calc-answer">
+              <p className="text-sm text-ink-soft">{answer.question}</p>
+              <p className="num text-3xl font-medium" data-testid="calc-answer-value">
+                {answer.value}
+              </p>
+              {answer.detail ? <p className="text-sm text-ink-soft">{answer.detail}</p> : null}
+            </div>
+            <dl className={`grid grid-cols-2 gap-3 ${stale ? "opacity-60" : ""}`} data-testid="calc-result">
               <div>
-                <dt className="text-sm text-ink-soft">{isCluster ? "Clusters per arm" : "Evaluable per arm"}</dt>
-                <dd className="num text-2xl font-medium" data-testid="calc-n">
+                <dt className="text-sm text-ink-soft">{isCluster ? "Clusters per arm" : r.n2 === null ? "Evaluable participants" : "Evaluable per arm"}</dt>
+                <dd className="num text-xl" data-testid="calc-n">
                   {isCluster ? `${r.clusters1} + ${r.clusters2}` : r.n2 === null ? r.n1 : `${r.n1} + ${r.n2}`}
                 </dd>
               </div>
               <div>
                 <dt className="text-sm text-ink-soft">Evaluable in total</dt>
-                <dd className="num text-2xl font-medium" data-testid="calc-total">
+                <dd className="num text-xl" data-testid="calc-total">
                   {r.nTotal}
                 </dd>
               </div>
@@ -316,27 +409,29 @@ export function PowerCalculator() {
                 </div>
               ) : null}
             </dl>
-            <table className="table" aria-label="Recruitment funnel">
-              <TableHead columns={["Arm", { label: "Evaluable", num: true }, { label: "Enrolled", num: true }, { label: "Screened", num: true }]} />
-              <tbody>
-                {r.funnel.arms.map((a, i) => (
-                  <tr key={i}>
-                    <td>{r.funnel.arms.length === 1 ? "Study" : `Arm ${i + 1}`}</td>
-                    <td className="num">{a.evaluable}</td>
-                    <td className="num">{a.enrolled}</td>
-                    <td className="num">{a.screened}</td>
+            <div className="relative overflow-x-auto">
+              <table className="table" aria-label="Recruitment funnel">
+                <TableHead columns={["Arm", { label: "Evaluable", num: true }, { label: "Enrolled", num: true }, { label: "Screened", num: true }]} />
+                <tbody>
+                  {r.funnel.arms.map((a, i) => (
+                    <tr key={i}>
+                      <td>{r.funnel.arms.length === 1 ? "Study" : `Arm ${i + 1}`}</td>
+                      <td className="num">{a.evaluable}</td>
+                      <td className="num">{a.enrolled}</td>
+                      <td className="num">{a.screened}</td>
+                    </tr>
+                  ))}
+                  <tr className="font-semibold">
+                    <td>Total</td>
+                    <td className="num">{r.funnel.total.evaluable}</td>
+                    <td className="num" data-testid="calc-enrolled">
+                      {r.funnel.total.enrolled}
+                    </td>
+                    <td className="num">{r.funnel.total.screened}</td>
                   </tr>
-                ))}
-                <tr className="font-semibold">
-                  <td>Total</td>
-                  <td className="num">{r.funnel.total.evaluable}</td>
-                  <td className="num" data-testid="calc-enrolled">
-                    {r.funnel.total.enrolled}
-                  </td>
-                  <td className="num">{r.funnel.total.screened}</td>
-                </tr>
-              </tbody>
-            </table>
+                </tbody>
+              </table>
+            </div>
             <p className="text-sm text-ink-soft">{r.method}.</p>
             {r.context ? (
               <p className="text-sm">
@@ -353,8 +448,10 @@ export function PowerCalculator() {
             ) : null}
           </>
         ) : outcome.kind === "idle" ? (
-          <p className="text-ink-soft">Calculating…</p>
-        ) : null}
+          <p className="text-ink-soft">Working it out…</p>
+        ) : (
+          <p className="text-ink-soft">The answer appears here once the fields marked on the left are filled in.</p>
+        )}
         <p className="border-t border-rule pt-3 text-xs text-ink-soft">
           These figures support, and do not replace, a statistician&apos;s review of the design and analysis plan.
         </p>

@@ -2,6 +2,7 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
+import { inviteSchema } from "@/lib/planning/comment-schemas";
 
 type Member = { userId: number; name: string; email: string; studyRole: "investigator" | "co-investigator" };
 type Pending = { id: number; email: string; expiresAt: string };
@@ -61,11 +62,18 @@ export function StudyMembers({ studyId, members, invitations, manage }: { studyI
           ) : null}
           <form
             className="flex flex-col gap-2"
+            noValidate
             onSubmit={async (e) => {
               e.preventDefault();
               setNotice(null);
-              if (await call(`/api/v1/studies/${studyId}/invitations`, "POST", { email })) {
-                setNotice(`Invitation sent to ${email}.`);
+              // The same schema as the server: an empty or malformed address is answered beside the field at once.
+              const checked = inviteSchema.safeParse({ email });
+              if (!checked.success) {
+                setError(checked.error.issues[0]?.message ?? "Enter the e-mail address of the person to invite.");
+                return;
+              }
+              if (await call(`/api/v1/studies/${studyId}/invitations`, "POST", { email: checked.data.email })) {
+                setNotice(`Invitation sent to ${checked.data.email}.`);
                 setEmail("");
               }
             }}
@@ -73,8 +81,20 @@ export function StudyMembers({ studyId, members, invitations, manage }: { studyI
             <label htmlFor="invite-email" className="text-sm font-medium">
               Invite a co-investigator
             </label>
+            <span id="invite-hint" className="text-xs text-ink-soft">
+              Their e-mail address; they get a link to join the study.
+            </span>
             <div className="flex gap-2">
-              <input id="invite-email" type="email" className="input flex-1" value={email} onChange={(e) => setEmail(e.target.value)} placeholder="name@example.org" aria-describedby={error ? "invite-error" : undefined} />
+              <input
+                id="invite-email"
+                type="email"
+                className="input flex-1"
+                value={email}
+                onChange={(e) => setEmail(e.target.value)}
+                placeholder="name@example.org"
+                aria-invalid={error ? true : undefined}
+                aria-describedby={error ? "invite-hint invite-error" : "invite-hint"}
+              />
               <button type="submit" className="btn">
                 Invite
               </button>

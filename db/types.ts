@@ -194,6 +194,13 @@ export interface OutboxTable {
   last_error: string | null;
 }
 
+/** One row (id 1): the random id of this installation, made when the database was created. */
+export interface InstallationTable {
+  id: number;
+  installation_id: string;
+  created_at: CreatedAt;
+}
+
 export interface Database {
   institutions: InstitutionsTable;
   users: UsersTable;
@@ -210,6 +217,7 @@ export interface Database {
   comments: CommentsTable;
   invitations: InvitationsTable;
   outbox: OutboxTable;
+  installation: InstallationTable;
 }
 
 export type User = Selectable<UsersTable>;

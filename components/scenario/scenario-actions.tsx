@@ -1,13 +1,33 @@
 "use client";
 
-import { useActionState, useState, useTransition } from "react";
-import { cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
+import { useActionState, useState, useTransition, type ReactNode } from "react";
+import { ConfirmButton } from "@/components/confirm-button";
 import { mismatchLines, type JustificationCheck } from "@/lib/planning/justification-figures";
+import { cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 
 type Ids = { studyId: number; scenarioId: number; version: number };
 type State = { error: string | null } | undefined;
 
-function ActionButton({ ids, action, label, extra, variant = "quiet", testId }: { ids: Ids; action: (p: State, f: FormData) => Promise<{ error: string | null }>; label: string; extra?: Record<string, string>; variant?: "quiet" | "primary" | "danger"; testId?: string }) {
+/** What a confirm step asks before an action that cannot be undone (see ConfirmButton). */
+type Confirm = { question: string; confirmLabel: string; cancelLabel?: string; extra?: ReactNode };
+
+function ActionButton({
+  ids,
+  action,
+  label,
+  extra,
+  variant = "quiet",
+  testId,
+  confirm,
+}: {
+  ids: Ids;
+  action: (p: State, f: FormData) => Promise<{ error: string | null }>;
+  label: string;
+  extra?: Record<string, string>;
+  variant?: "quiet" | "primary" | "danger";
+  testId?: string;
+  confirm?: Confirm;
+}) {
   const [state, dispatch, pending] = useActionState(action, undefined);
   return (
     <form action={dispatch} className="flex flex-col gap-1">
@@ -17,9 +37,15 @@ function ActionButton({ ids, action, label, extra, variant = "quiet", testId }: 
       {Object.entries(extra ?? {}).map(([k, v]) => (
         <input key={k} type="hidden" name={k} value={v} />
       ))}
-      <button type="submit" className={variant === "primary" ? "btn" : variant === "danger" ? "btn btn-danger" : "btn btn-quiet"} disabled={pending} data-testid={testId}>
-        {pending ? "Working…" : label}
-      </button>
+      {confirm ? (
+        <ConfirmButton label={label} question={confirm.question} confirmLabel={confirm.confirmLabel} cancelLabel={confirm.cancelLabel} variant={variant} pending={pending} testId={testId}>
+          {confirm.extra}
+        </ConfirmButton>
+      ) : (
+        <button type="submit" className={variant === "primary" ? "btn" : variant === "danger" ? "btn btn-danger" : "btn btn-quiet"} disabled={pending} data-testid={testId}>
+          {pending ? "Working…" : label}
+        </button>
+      )}
       {state?.error ? (
         <span className="text-sm text-signal" role="alert">
           {state.error}
@@ -30,72 +56,70 @@ function ActionButton({ ids, action, label, extra, variant = "quiet", testId }: 
 }
 
 /**
- * Submit or Clear. When the edited justification no longer matches the scenario's figures, the button
- * first shows what differs and asks to go ahead; going ahead sends the confirmation the server asks for
- * (it refuses without it, in case the figures changed after this page was drawn).
+ * The scenario's buttons. Submit, Clear and Delete cannot be undone from this page, so each asks first;
+ * when the edited justification no longer matches the scenario's figures, the question lists what differs,
+ * and going ahead sends the confirmation the server asks for (it refuses without it, in case the figures
+ * changed after this page was drawn). What happened is said on the page the action leads to.
  */
-function ReviewButton({ ids, verb, mismatch, testId }: { ids: Ids; verb: "submit" | "clear"; mismatch: string[] | null; testId: string }) {
-  const [state, dispatch, pending] = useActionState(reviewAction, undefined);
-  const [asking, setAsking] = useState(false);
-  const warn = mismatch !== null || state?.mismatch === true;
-  const label = verb === "submit" ? "Submit for review" : "Clear";
-  return (
-    <form action={dispatch} className="flex max-w-xl flex-col gap-1">
-      <input type="hidden" name="studyId" value={ids.studyId} />
-      <input type="hidden" name="scenarioId" value={ids.scenarioId} />
-      <input type="hidden" name="version" value={ids.version} />
-      <input type="hidden" name="action" value={verb} />
-      {asking ? (
-        <div className="alert flex flex-col gap-2" role="group" aria-labelledby={`${testId}-confirm-heading`} data-testid={`${testId}-confirm`}>
-          <input type="hidden" name="confirmMismatch" value="1" />
-          <p id={`${testId}-confirm-heading`} className="font-semibold">
-            The justification no longer matches the scenario&apos;s figures.
-          </p>
-          {mismatch ? (
-            <ul className="list-disc pl-5">
-              {mismatch.map((line) => (
-                <li key={line}>{line}</li>
-              ))}
-            </ul>
-          ) : null}
-          <p>
-            {verb === "submit" ? "Submit it anyway? The grants office will see this warning, and the review record will note that it was submitted with a justification that does not match." : "Clear it anyway? The review record will note that it was cleared with a justification that does not match."}
-          </p>
-          <div className="flex flex-wrap gap-2">
-            <button type="submit" className="btn" disabled={pending} data-testid={`${testId}-anyway`}>
-              {pending ? "Working…" : verb === "submit" ? "Submit anyway" : "Clear anyway"}
-            </button>
-            <button type="button" className="btn btn-quiet" onClick={() => setAsking(false)} disabled={pending}>
-              Cancel
-            </button>
-          </div>
-        </div>
-      ) : warn ? (
-        <button type="button" className="btn" onClick={() => setAsking(true)} data-testid={testId}>
-          {label}
-        </button>
-      ) : (
-        <button type="submit" className="btn" disabled={pending} data-testid={testId}>
-          {pending ? "Working…" : label}
-        </button>
-      )}
-      {state?.error && !asking ? (
-        <span className="text-sm text-signal" role="alert">
-          {state.error}
-        </span>
-      ) : null}
-    </form>
-  );
-}
-
-export function ScenarioActions({ ids, can, mismatch = null }: { ids: Ids; can: { submit: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean }; mismatch?: string[] | null }) {
+export function ScenarioActions({
+  ids,
+  can,
+  mismatch = null,
+}: {
+  ids: Ids;
+  can: { submit: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean };
+  mismatch?: string[] | null;
+}) {
   const [returnState, returnDispatch, returnPending] = useActionState(reviewAction, undefined);
+  const warning: ReactNode = mismatch ? (
+    <div className="alert flex flex-col gap-1 text-sm">
+      <p className="font-semibold">The justification no longer matches the scenario&apos;s figures.</p>
+      <ul className="list-disc pl-5">
+        {mismatch.map((line) => (
+          <li key={line}>{line}</li>
+        ))}
+      </ul>
+    </div>
+  ) : null;
+  const confirmMismatch: Record<string, string> = mismatch ? { confirmMismatch: "1" } : {};
   return (
     <div className="flex flex-wrap items-start gap-2">
-      {can.submit ? <ReviewButton ids={ids} verb="submit" mismatch={mismatch} testId="submit-review" /> : null}
+      {can.submit ? (
+        <ActionButton
+          ids={ids}
+          action={reviewAction}
+          label="Submit for review"
+          extra={{ action: "submit", ...confirmMismatch }}
+          variant="primary"
+          testId="submit-review"
+          confirm={{
+            question: mismatch
+              ? "Submit it anyway? The grants office will see this warning, and the review record will note that it was submitted with a justification that does not match."
+              : "Submit this scenario to the grants office? It cannot be edited while they review it.",
+            confirmLabel: mismatch ? "Submit anyway" : "Submit for review",
+            cancelLabel: "Not yet",
+            extra: warning,
+          }}
+        />
+      ) : null}
       {can.review ? (
         <>
-          <ReviewButton ids={ids} verb="clear" mismatch={mismatch} testId="clear-review" />
+          <ActionButton
+            ids={ids}
+            action={reviewAction}
+            label="Clear"
+            extra={{ action: "clear", ...confirmMismatch }}
+            variant="primary"
+            testId="clear-review"
+            confirm={{
+              question: mismatch
+                ? "Clear it anyway? The review record will note that it was cleared with a justification that does not match."
+                : "Clear this scenario? It is then frozen: any later change makes a new draft copy.",
+              confirmLabel: mismatch ? "Clear anyway" : "Clear it",
+              cancelLabel: "Not yet",
+              extra: warning,
+            }}
+          />
           <form action={returnDispatch} className="flex flex-wrap items-start gap-2">
             <input type="hidden" name="studyId" value={ids.studyId} />
             <input type="hidden" name="scenarioId" value={ids.scenarioId} />
@@ -117,7 +141,16 @@ export function ScenarioActions({ ids, can, mismatch = null }: { ids: Ids; can: 
       ) : null}
       {can.recompute ? <ActionButton ids={ids} action={recomputeAction} label="Recompute with the new edition" /> : null}
       {can.edit ? <ActionButton ids={ids} action={cloneAction} label="Clone" testId="clone" /> : null}
-      {can.delete ? <ActionButton ids={ids} action={deleteAction} label="Delete" variant="danger" /> : null}
+      {can.delete ? (
+        <ActionButton
+          ids={ids}
+          action={deleteAction}
+          label="Delete"
+          variant="danger"
+          testId="delete-scenario"
+          confirm={{ question: "Delete this scenario? It cannot be undone.", confirmLabel: "Delete", cancelLabel: "Keep" }}
+        />
+      ) : null}
     </div>
   );
 }
@@ -136,6 +169,7 @@ const DONE: Record<NonNullable<SaveResult["done"]>, string> = {
  * replaces the edited one only when asked. The actions are called in a transition (not as a form action),
  * so the box keeps what it shows and nothing is reset behind React's back.
  */
+
 export function JustificationEditor({ ids, text, generated, edited, editable, check }: { ids: Ids; text: string; generated: string; edited: boolean; editable: boolean; check: JustificationCheck }) {
   const [pending, startTransition] = useTransition();
   const [result, setResult] = useState<SaveResult | null>(null);

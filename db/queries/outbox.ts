@@ -4,6 +4,7 @@ import { getDb } from "@/db";
 import type { Database } from "@/db/types";
 import { enforce } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
+import { outboxMessageId } from "@/lib/mail/message-id";
 import { linksIn, type MailMessage } from "@/lib/mail/templates";
 import { createTransport } from "@/lib/mail/transport";
 
@@ -21,8 +22,9 @@ const backoffSeconds = (attempts: number) => Math.min(600, 5 * 2 ** Math.max(0, 
 
 /**
  * Delivers due messages. Each is claimed first (so two senders never send one message), sent with a
- * Message-ID fixed by its outbox id (so a receiver can drop a repeat after a crash between sending and
- * marking), then marked sent; a failure waits with backoff and is tried again.
+ * Message-ID fixed by its outbox row and this installation's id (`outboxMessageId`: a receiver drops a
+ * repeat after a crash between sending and marking, and never another installation's message), then
+ * marked sent; a failure waits with backoff and is tried again.
  */
 export async function deliverPending(opts: { now?: Date; limit?: number } = {}): Promise<{ sent: number; failed: number }> {
   const db = getDb();
@@ -37,6 +39,7 @@ export async function deliverPending(opts: { now?: Date; limit?: number } = {}):
     .limit(opts.limit ?? 50)
     .execute();
   if (!due.length) return { sent: 0, failed: 0 };
+  const { installation_id: installationId } = await db.selectFrom("installation").select("installation_id").where("id", "=", 1).executeTakeFirstOrThrow();
   const { transporter, from } = createTransport();
   let sent = 0;
   let failed = 0;
@@ -52,7 +55,7 @@ export async function deliverPending(opts: { now?: Date; limit?: number } = {}):
         .executeTakeFirst();
       if (Number(claim.numUpdatedRows) !== 1) continue;
       try {
-        await transporter.sendMail({ from, to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body, messageId: `<outbox-${m.id}@delta-ledger.local>` });
+        await transporter.sendMail({ from, to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body, messageId: outboxMessageId(installationId, m) });
         await db.updateTable("outbox").set({ sent_at: new Date().toISOString(), claimed_until: null, attempts: m.attempts + 1, last_error: null }).where("id", "=", m.id).execute();
         sent++;
       } catch (err) {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "@/lib/validation/plain-messages";
 import { PASSWORD_MAX, PASSWORD_MIN } from "./password";
 import { ACCOUNT_ROLES } from "./roles";
 
@@ -40,7 +41,7 @@ export const setActiveSchema = z.object({
 });
 
 export const acceptInvitationSchema = z.object({
-  token: z.string().min(10),
-  name: z.string().trim().min(2, "Enter your name.").max(120, "At most 120 characters.").optional(),
+  token: z.string({ error: "This invitation link is not complete; open the link from the e-mail again." }).min(10, "This invitation link is not complete; open the link from the e-mail again."),
+  name: z.string({ error: "Enter your name." }).trim().min(2, "Enter your name.").max(120, "Your name: at most 120 characters.").optional(),
   password: newPasswordField.optional(),
 });

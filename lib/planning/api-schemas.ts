@@ -1,19 +1,20 @@
 import { z } from "zod";
+import "@/lib/validation/plain-messages";
 import { scenarioInputsSchema } from "./schema";
 
-export const createScenarioSchema = z.object({ name: z.string().trim().min(2, "Name the scenario.").max(80, "At most 80 characters."), inputs: scenarioInputsSchema });
+export const createScenarioSchema = z.object({ name: z.string({ error: "Name the scenario." }).trim().min(2, "Name the scenario.").max(80, "Scenario name: at most 80 characters."), inputs: scenarioInputsSchema });
 export const patchScenarioSchema = z
   .object({
     version: z.number({ error: "version is required: send the version you read." }).int().positive(),
-    name: z.string().trim().min(2, "Name the scenario.").max(80, "At most 80 characters.").optional(),
+    name: z.string({ error: "Name the scenario." }).trim().min(2, "Name the scenario.").max(80, "Scenario name: at most 80 characters.").optional(),
     inputs: scenarioInputsSchema.optional(),
-    justification: z.string().trim().max(8000, "At most 8,000 characters.").nullable().optional(),
+    justification: z.string({ error: "Justification: send the text, or null to regenerate it." }).trim().max(8000, "Justification: at most 8,000 characters.").nullable().optional(),
     recompute: z.boolean().optional(),
   })
   .strict();
 export const reviewSchema = z.object({
   action: z.enum(["submit", "return", "clear"], { error: "action must be submit, return or clear." }),
-  reason: z.string().trim().max(2000).optional(),
+  reason: z.string({ error: "Reason for returning: write it as text." }).trim().max(2000, "Reason for returning: at most 2,000 characters.").optional(),
   // Submitting or clearing a scenario whose edited justification no longer matches its figures needs this (409 otherwise).
   confirmJustificationMismatch: z.boolean({ error: "confirmJustificationMismatch: true or false." }).optional(),
 });

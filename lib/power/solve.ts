@@ -52,7 +52,7 @@ function standardized(v: Parsed<"two-means" | "one-mean" | "cluster-two-means">)
   const d = v.effectSize ?? (v.meanDifference !== undefined && sdUsed ? Math.abs(v.meanDifference) / sdUsed : undefined);
   // The same bound as a given effectSize: a difference of more than 10 SD is a typo, not a plan.
   if (d !== undefined && d > 10) {
-    throw new PowerInputError([{ path: "meanDifference", message: `meanDifference is ${d.toPrecision(3)} SD (meanDifference / sd); above 10 SD is not a plausible planning value.` }]);
+    throw new PowerInputError([{ path: "meanDifference", message: `Mean difference: that is ${d.toPrecision(3)} standard deviations (mean difference ÷ standard deviation); above 10 SD is not a plausible plan, so check both figures.` }]);
   }
   return { d, sdUsed, pilot };
 }

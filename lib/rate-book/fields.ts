@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { percentToShare } from "@/lib/format/percent-input";
+import "@/lib/validation/plain-messages";
 
 export type SettingKind = "rate" | "money" | "money-optional" | "count" | "base";
 
@@ -90,12 +91,12 @@ export function settingSchema(field: SettingField): z.ZodType<string | null> {
       return decimalText(field.label, 1e11, 2) as z.ZodType<string>;
     case "money-optional":
       return z
-        .union([z.string(), z.number(), z.null()])
+        .union([z.string(), z.number(), z.null()], { error: `${field.label}: enter dollars, or leave it empty for none.` })
         .transform((v) => (v === null || String(v).trim() === "" ? null : String(v)))
         .pipe(z.union([z.null(), z.string().transform((s) => s.replace(/[$,\s]/g, "")).pipe(decimalCore(field.label, 1e11, 2))])) as z.ZodType<string | null>;
     case "count":
       return z
-        .union([z.string(), z.number()])
+        .union([z.string(), z.number()], { error: `${field.label}: enter a whole number from 0 to 999.` })
         .transform((v) => String(v).trim())
         .pipe(z.string().regex(/^\d{1,3}$/, `${field.label}: enter a whole number from 0 to 999.`)) as z.ZodType<string>;
     case "base":

@@ -1,5 +1,6 @@
 /** The PATCH body for a draft edition: settings, fringe rows and procedures, each with the version it was read at. */
 import { z } from "zod";
+import "@/lib/validation/plain-messages";
 import {
   fringeCategoryField,
   moneyField,

@@ -1,8 +1,9 @@
 import { z } from "zod";
+import "@/lib/validation/plain-messages";
 
 /** Dollar amounts are typed as text and kept as decimal strings; never parsed into floats. */
 export const moneyField = z
-  .string()
+  .string({ error: "Enter an amount in dollars, like 1250000 or 1,250,000.00." })
   .trim()
   .transform((s) => s.replace(/[$,\s]/g, ""))
   .pipe(z.string().regex(/^\d{1,12}(\.\d{1,2})?$/, "Enter an amount in dollars, like 1250000 or 1,250,000.00."));

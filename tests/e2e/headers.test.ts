@@ -25,4 +25,17 @@ describe("security headers", () => {
     expect(res.headers.get("x-content-type-options")).toBe("nosniff");
     expect(res.headers.get("strict-transport-security")).toMatch(/max-age=\d+/);
   });
+  it("public/ is served to anyone: robots.txt keeps search engines out of a private tool, and the app's icons", async () => {
+    const robots = await fetch(`${baseUrl}/robots.txt`, { redirect: "manual" });
+    expect(robots.status).toBe(200);
+    expect(await robots.text()).toMatch(/User-agent: \*\s+Disallow: \/\s*$/);
+    for (const [file, type] of [["apple-touch-icon.png", "image/png"], ["icon-192.png", "image/png"], ["icon-512.png", "image/png"], ["manifest.webmanifest", "manifest"]]) {
+      const res = await fetch(`${baseUrl}/${file}`, { redirect: "manual" });
+      expect(res.status, file).toBe(200);
+      expect(res.headers.get("content-type"), file).toContain(type);
+    }
+    const html = await (await fetch(`${baseUrl}/sign-in`)).text();
+    expect(html).toContain('rel="apple-touch-icon" href="/apple-touch-icon.png"');
+    expect(html).toContain('rel="manifest" href="/manifest.webmanifest"');
+  });
 });

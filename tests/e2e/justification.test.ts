@@ -85,12 +85,12 @@ describe("the investigator's justification", () => {
 
   it("submitting warns and asks first; cancelling leaves it a draft", async () => {
     await page.getByTestId("submit-review").click();
-    const confirm = page.getByTestId("submit-review-confirm");
+    const confirm = page.getByTestId("submit-review-question");
     await confirm.waitFor();
     expect(await confirm.textContent()).toContain(SCREEN_FAILURE_CHANGE);
     await confirm.getByRole("button", { name: "Submit anyway" }).waitFor();
     await shoot(page, "justification-submit-warning", "main header");
-    await confirm.getByRole("button", { name: "Cancel" }).click();
+    await confirm.getByRole("button", { name: "Not yet" }).click();
     await page.getByTestId("submit-review").waitFor();
     expect(await page.getByTestId("scenario-state").textContent()).toBe("Draft");
   });
@@ -153,7 +153,7 @@ describe("the investigator's justification", () => {
 
   it("submits anyway after the warning; the grants officer sees the warning and is asked again before clearing", async () => {
     await page.getByTestId("submit-review").click();
-    const confirm = page.getByTestId("submit-review-confirm");
+    const confirm = page.getByTestId("submit-review-question");
     expect(await confirm.textContent()).toContain("Screen failure: written for 20%, now 25%");
     await confirm.getByRole("button", { name: "Submit anyway" }).click();
     await page.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
@@ -166,7 +166,7 @@ describe("the investigator's justification", () => {
     expect(await warning.textContent()).toContain("Screen failure: written for 20%, now 25%");
     expect(await warning.textContent()).toContain("The investigator can bring it up to date.");
     await grants.getByTestId("clear-review").click();
-    const ask = grants.getByTestId("clear-review-confirm");
+    const ask = grants.getByTestId("clear-review-question");
     await ask.waitFor();
     expect(await ask.textContent()).toContain("Clear it anyway?");
     await shoot(grants, "justification-clear-warning", "main header");

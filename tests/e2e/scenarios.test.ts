@@ -69,14 +69,21 @@ describe("the investigator's scenario workspace", () => {
 
   it("submits one for review; the grants officer clears it; it is then frozen", async () => {
     await page.getByRole("link", { name: "Six sites, 90% power" }).first().click();
+    // Submitting asks first, then says what happened.
     await page.getByTestId("submit-review").click();
+    await page.getByRole("group", { name: /Submit this scenario to the grants office\?/ }).waitFor();
+    await page.getByTestId("submit-review-confirm").click();
     await page.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    await page.getByTestId("done-status").filter({ hasText: "Submitted for review." }).waitFor();
     const url = page.url();
     const grants = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(grants, baseUrl, "grants@demo.test");
     await grants.goto(url);
     await grants.getByTestId("clear-review").click();
+    await grants.getByRole("group", { name: /Clear this scenario\?/ }).waitFor();
+    await grants.getByTestId("clear-review-confirm").click();
     await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    await grants.getByTestId("done-status").filter({ hasText: "Cleared." }).waitFor();
     await screenshot(grants, "scenario-cleared");
     await grants.close();
     await page.reload();

@@ -32,7 +32,8 @@ describe("POST /api/v1/power", () => {
     expect(res.status).toBe(400);
     const { error } = await res.json();
     expect(error.code).toBe("invalid");
-    expect(error.fields.alpha[0]).toMatch(/alpha/);
+    expect(error.fields.alpha[0]).toBe("Alpha: enter a number above 0 and at most 0.5, like 0.05.");
+    expect(error.message).toBe("Alpha: enter a number above 0 and at most 0.5, like 0.05.");
   });
   it("400 naming meanDifference for a difference of more than 10 SD, at once (it used to hang the server)", async () => {
     const res = await powerRoute.POST(request("POST", "/api/v1/power", { cookie, body: { design: "two-means", meanDifference: 839164317, sd: 2.2, power: 0.9 } }));
@@ -40,11 +41,17 @@ describe("POST /api/v1/power", () => {
     const { error } = await res.json();
     expect(error.fields.meanDifference[0]).toMatch(/above 10 SD/);
   });
-  it("400 when two quantities or none are left out", async () => {
+  it("400 when two quantities or none are left out, saying in plain words what to enter or leave empty", async () => {
     const two = await (await post({ design: "two-means", power: 0.8 })).json();
     expect(Object.keys(two.error.fields).sort()).toEqual(["effectSize", "n1"]);
+    expect(two.error.fields.n1[0]).toBe(
+      "Evaluable participants per arm is empty, and so is Effect size (d): enter Effect size (d) to find the participants needed, or enter Evaluable participants per arm to find the smallest effect detectable.",
+    );
     const none = await post({ design: "two-means", power: 0.8, n1: 20, effectSize: 0.4 });
     expect(none.status).toBe(400);
+    expect((await none.json()).error.fields.power[0]).toMatch(/all filled in, so there is nothing to find: to find the power reached, leave Power empty/);
+    const word = await (await post({ design: "two-means", power: 0.8, effectSize: "half" })).json();
+    expect(word.error.fields.effectSize).toEqual(["Effect size (d): enter a number, like 0.5."]);
   });
   it("422 for a target no n up to 10,000,000 reaches", async () => {
     const res = await post({ design: "two-means", effectSize: 0.0001, power: 0.95 });

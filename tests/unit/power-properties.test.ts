@@ -133,10 +133,10 @@ describe("bad input", () => {
     expect(issues({ design: "two-means", effectSize: "big", power: 0.8 })).toHaveProperty("effectSize");
     expect(issues({ design: "two-means", effectSize: Number.NaN, power: 0.8 })).toHaveProperty("effectSize");
   });
-  it("asks for exactly one quantity left out", () => {
+  it("asks for what to enter when two of power, participants and effect are left out, and for one to leave out when none is", () => {
     expect(issues({ design: "two-means", power: 0.8 })).toEqual({
-      n1: expect.stringMatching(/exactly one/),
-      effectSize: expect.stringMatching(/exactly one/),
+      n1: expect.stringMatching(/to find the participants needed/),
+      effectSize: expect.stringMatching(/to find the smallest effect detectable/),
     });
     expect(Object.keys(issues({ design: "two-means", power: 0.8, n1: 20, effectSize: 0.5 }))).toEqual(["power", "n1", "effectSize"]);
   });

@@ -16,7 +16,7 @@ export function twoMeansN(d: number, target: number, s: MeansSettings, fixedN2?:
   // Normal approximation plus the usual t correction z²/4 as the start.
   const z = zPair(s.alpha, s.sides, target);
   const start = (z * z * (1 + 1 / r)) / (d * d) + (z * z) / 8;
-  const n1 = smallestN((n) => twoMeansPower(d, n, n2Of(n), s), target, start, 2, MAX_N_PER_ARM, "sample size per arm");
+  const n1 = smallestN((n) => twoMeansPower(d, n, n2Of(n), s), target, start, 2, MAX_N_PER_ARM, "number of participants per arm");
   return { n1, n2: n2Of(n1) };
 }
 
@@ -31,7 +31,7 @@ export function oneMeanPower(d: number, n: number, s: Omit<MeansSettings, "alloc
 
 export function oneMeanN(d: number, target: number, s: Omit<MeansSettings, "allocationRatio">): number {
   const z = zPair(s.alpha, s.sides, target);
-  return smallestN((n) => oneMeanPower(d, n, s), target, (z * z) / (d * d) + (z * z) / 8, 2, MAX_N_PER_ARM, "sample size");
+  return smallestN((n) => oneMeanPower(d, n, s), target, (z * z) / (d * d) + (z * z) / 8, 2, MAX_N_PER_ARM, "number of participants");
 }
 
 export function oneMeanEffect(target: number, n: number, s: Omit<MeansSettings, "allocationRatio">): number {

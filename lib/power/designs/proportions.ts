@@ -44,7 +44,7 @@ function startN(p1: number, p2: number, target: number, s: ProportionsSettings):
 
 export function proportionsN(p1: number, p2: number, target: number, s: ProportionsSettings, fixedN2?: number): { n1: number; n2: number } {
   const n2Of = (n1: number) => fixedN2 ?? secondArm(n1, s.allocationRatio);
-  const n1 = smallestN((n) => proportionsPower(p1, p2, n, n2Of(n), s), target, startN(p1, p2, target, s), 2, MAX_N_PER_ARM, "sample size per arm");
+  const n1 = smallestN((n) => proportionsPower(p1, p2, n, n2Of(n), s), target, startN(p1, p2, target, s), 2, MAX_N_PER_ARM, "number of participants per arm");
   return { n1, n2: n2Of(n1) };
 }
 
@@ -56,6 +56,6 @@ export function proportionsEffect(p1: number, direction: "increase" | "decrease"
   const powerAt = (delta: number) => proportionsPower(p1, p1 + sign * delta, n1, n2, s);
   const z = zPair(s.alpha, s.sides, target);
   const start = Math.min(room * 0.5, z * Math.sqrt((p1 * (1 - p1) * (1 / n1 + 1 / n2)) * (s.designEffect ?? 1)));
-  const delta = effectForPower(powerAt, target, start, 1e-12, room * (1 - 1e-9), `p2 on the ${direction === "increase" ? "upper" : "lower"} side of p1`);
+  const delta = effectForPower(powerAt, target, start, 1e-12, room * (1 - 1e-9), `intervention proportion ${direction === "increase" ? "above" : "below"} the control proportion`);
   return p1 + sign * delta;
 }

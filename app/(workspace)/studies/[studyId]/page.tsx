@@ -12,9 +12,10 @@ import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Study" };
 
-export default async function StudyPage({ params }: { params: Promise<{ studyId: string }> }) {
+export default async function StudyPage({ params, searchParams }: { params: Promise<{ studyId: string }>; searchParams: Promise<{ deleted?: string }> }) {
   const user = await requireUser();
   const { studyId } = await params;
+  const { deleted } = await searchParams;
   const study = await loadOr404(() => getStudy(user, Number(studyId)));
   const scenarios = await listScenarios(user, study.id);
   const mayInvite = can(user, "study.invite", { membership: study.membership });
@@ -47,6 +48,11 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
           </div>
         </dl>
       </header>
+      {deleted ? (
+        <p className="notice" role="status" data-testid="done-status">
+          The scenario was deleted.
+        </p>
+      ) : null}
       <section className="card relative overflow-x-auto p-0" aria-labelledby="scenarios-heading">
         <div className="flex flex-wrap items-center justify-between gap-3 px-5 pt-4">
           <h2 id="scenarios-heading">Scenarios</h2>

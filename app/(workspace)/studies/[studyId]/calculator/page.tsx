@@ -19,7 +19,9 @@ export default async function CalculatorPage({ params }: { params: Promise<{ stu
       </nav>
       <div>
         <h1>Power calculator</h1>
-        <p className="text-ink-soft">What-if questions for {study.code}: change any assumption and the result follows. Nothing here is saved.</p>
+        <p className="text-ink-soft">
+          What-if questions for {study.code}: choose what you want to find, fill in what you know, and the answer follows as you type. Nothing here is saved.
+        </p>
       </div>
       <PowerCalculator />
     </div>

@@ -75,6 +75,8 @@ export async function reviewAction(_prev: unknown, formData: FormData): Promise<
       if (err instanceof HttpError && err.code === "justification-mismatch") mismatch = true;
       throw err;
     }
+    // The scenario page says what happened (its `done` notice).
+    return `/studies/${v.studyId}/scenarios/${v.scenarioId}?done=${action.data === "submit" ? "submitted" : action.data === "clear" ? "cleared" : "returned"}`;
   });
   return mismatch ? { ...result, mismatch } : result;
 }
@@ -86,7 +88,7 @@ export async function cloneAction(_prev: unknown, formData: FormData): Promise<{
 export async function deleteAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
   return run(formData, "scenario.edit", async (user, v) => {
     await deleteScenario(user, v.scenarioId);
-    return `/studies/${v.studyId}`;
+    return `/studies/${v.studyId}?deleted=1`;
   });
 }
 

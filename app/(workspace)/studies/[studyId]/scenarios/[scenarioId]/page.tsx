@@ -19,10 +19,17 @@ export const metadata: Metadata = { title: "Scenario" };
 
 const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
 
-export default async function ScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string; scenarioId: string }>; searchParams: Promise<{ saved?: string }> }) {
+/** What a review action did, said on the page it leads back to. */
+const DONE: Record<string, string> = {
+  submitted: "Submitted for review. The grants office has been told; the scenario cannot be edited until they return or clear it.",
+  cleared: "Cleared. The investigator has been told; the scenario is now frozen.",
+  returned: "Returned to the investigator with your reason; they have been told.",
+};
+
+export default async function ScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string; scenarioId: string }>; searchParams: Promise<{ saved?: string; done?: string }> }) {
   const user = await requireUser();
   const { studyId, scenarioId } = await params;
-  const { saved } = await searchParams;
+  const { saved, done } = await searchParams;
   const s = await loadOr404(() => getScenario(user, Number(scenarioId)));
   if (s.studyId !== Number(studyId)) notFound();
   const ctx = { membership: s.membership, scenarioState: s.state };
@@ -68,6 +75,11 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       {saved ? (
         <p className="notice" role="status">
           Saved, with its results.
+        </p>
+      ) : null}
+      {done && DONE[done] ? (
+        <p className="notice" role="status" data-testid="done-status">
+          {DONE[done]}
         </p>
       ) : null}
       {s.reviewNote && s.state === "returned" ? <p className="alert">Returned by the grants office: {s.reviewNote}</p> : null}
