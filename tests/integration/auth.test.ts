@@ -79,7 +79,8 @@ describe("sign-in over the API", () => {
       await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: `guess-${i}-xx` } }));
     }
     expect((await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: "x" } }))).status).toBe(429);
-  });
+    // Twenty scrypt checks in a row: slow on a busy two-core machine.
+  }, 120_000);
 
   it("sign-out makes the old cookie worthless", async () => {
     const cookie = await signInAs(sessionRoute, "coi@demo.test");

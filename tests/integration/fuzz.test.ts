@@ -1,7 +1,10 @@
 /**
  * Random and hostile JSON against the power API, the scenario routes and the rate-book PATCH
  * (fast-check): every answer is a 2xx or a 4xx JSON error, never a 5xx or a NaN, and a 4xx changes nothing.
+ * Hostile timing and files too: parallel sign-in bursts, from one process and from two.
  */
+import { spawn } from "node:child_process";
+import path from "node:path";
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
@@ -11,17 +14,20 @@ import * as scenariosRoute from "@/app/api/v1/studies/[studyId]/scenarios/route"
 import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
 import * as editionsRoute from "@/app/api/v1/rate-book/editions/route";
 import * as editionRoute from "@/app/api/v1/rate-book/editions/[editionId]/route";
+import { LOGIN_MAX_FAILURES } from "@/lib/auth/session-options";
 import { DEMO_SCENARIOS } from "@/scripts/demo-data";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { params, request, signInAs } from "../support/http";
 
 let dir = "";
+let file = "";
+const root = path.resolve(import.meta.dirname, "../..");
 const c: Record<string, string> = {};
 let studyId = 0;
 let scenarioId = 0;
 let draftId = 0;
 beforeAll(async () => {
-  ({ dir } = await useFreshDatabase());
+  ({ dir, file } = await useFreshDatabase());
   for (const who of ["pi", "grants"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
   studyId = (await getDb().selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
   scenarioId = (await getDb().selectFrom("scenarios").select("id").where("state", "=", "draft").executeTakeFirstOrThrow()).id;
@@ -128,4 +134,48 @@ describe("fuzzing", () => {
       { numRuns: 150 },
     );
   }, 120_000);
+});
+
+describe("sign-in bursts", () => {
+  const failures = async (email: string) =>
+    Number((await getDb().selectFrom("login_failures").select((e) => e.fn.countAll<number>().as("n")).where("email", "=", email).executeTakeFirstOrThrow()).n);
+  const attempt = (email: string, password: string) => sessionRoute.POST(request("POST", "/api/v1/session", { body: { email, password } }));
+
+  it("thirty parallel wrong passwords for one account get at most ten password checks; the rest wait (429)", async () => {
+    const statuses = await Promise.all(Array.from({ length: 30 }, (_, i) => attempt("finance@demo.test", `wrong-guess-${i}`).then((r) => r.status)));
+    const evaluated = statuses.filter((s) => s === 401).length;
+    expect(evaluated).toBeLessThanOrEqual(LOGIN_MAX_FAILURES);
+    expect(evaluated + statuses.filter((s) => s === 429).length).toBe(30);
+    expect(await failures("finance@demo.test")).toBe(LOGIN_MAX_FAILURES);
+    // The right password now waits too.
+    expect((await attempt("finance@demo.test", "demo-pass-2026")).status).toBe(429);
+  }, 60_000);
+
+  it("two processes (as two server workers) bursting at one account get at most ten checks between them", async () => {
+    const burst = () =>
+      new Promise<{ invalid: number; throttled: number }>((resolve, reject) => {
+        const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/sign-in-burst.ts"), file, "coi@demo.test", "15"], {
+          cwd: root,
+          stdio: ["ignore", "pipe", "inherit"],
+        });
+        let out = "";
+        child.stdout.on("data", (d: Buffer) => (out += d.toString()));
+        child.once("exit", (code) => {
+          const m = /invalid=(\d+) throttled=(\d+)/.exec(out);
+          if (code === 0 && m) resolve({ invalid: Number(m[1]), throttled: Number(m[2]) });
+          else reject(new Error(`burst exited with ${code}: ${out}`));
+        });
+      });
+    const [a, b] = await Promise.all([burst(), burst()]);
+    expect(a.invalid + b.invalid).toBeLessThanOrEqual(LOGIN_MAX_FAILURES);
+    expect(a.invalid + a.throttled + b.invalid + b.throttled).toBe(30);
+    expect(await failures("coi@demo.test")).toBe(LOGIN_MAX_FAILURES);
+  }, 90_000);
+
+  it("a right password inside the limit signs in and clears the failures it followed", async () => {
+    const statuses = await Promise.all(Array.from({ length: 5 }, (_, i) => attempt("grants@demo.test", `wrong-guess-${i}`).then((r) => r.status)));
+    expect(statuses).toEqual([401, 401, 401, 401, 401]);
+    expect((await attempt("grants@demo.test", "demo-pass-2026")).status).toBe(200);
+    expect(await failures("grants@demo.test")).toBe(0);
+  }, 60_000);
 });
