@@ -1,7 +1,8 @@
 /**
  * Random and hostile JSON against the power API, the scenario routes and the rate-book PATCH
  * (fast-check): every answer is a 2xx or a 4xx JSON error, never a 5xx or a NaN, and a 4xx changes nothing.
- * Hostile timing and files too: parallel sign-in bursts, from one process and from two.
+ * Hostile timing and files too: parallel sign-in bursts, from one process and from two, and XLSX
+ * archives whose declared sizes lie.
  */
 import { spawn } from "node:child_process";
 import path from "node:path";
@@ -14,10 +15,14 @@ import * as scenariosRoute from "@/app/api/v1/studies/[studyId]/scenarios/route"
 import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
 import * as editionsRoute from "@/app/api/v1/rate-book/editions/route";
 import * as editionRoute from "@/app/api/v1/rate-book/editions/[editionId]/route";
+import * as importsRoute from "@/app/api/v1/rate-book/editions/[editionId]/imports/route";
+import { templateXlsx } from "@/lib/rate-book/sheet";
+import { unpackZip } from "@/lib/rate-book/zip";
 import { LOGIN_MAX_FAILURES } from "@/lib/auth/session-options";
 import { DEMO_SCENARIOS } from "@/scripts/demo-data";
 import { dropDatabase, useFreshDatabase } from "../support/db";
-import { params, request, signInAs } from "../support/http";
+import { ORIGIN, params, request, signInAs } from "../support/http";
+import { deflatedPart, deflatedSpaces, zipOfParts, type RawPart } from "../support/zip";
 
 let dir = "";
 let file = "";
@@ -178,4 +183,60 @@ describe("sign-in bursts", () => {
     expect((await attempt("grants@demo.test", "demo-pass-2026")).status).toBe(200);
     expect(await failures("grants@demo.test")).toBe(0);
   }, 60_000);
+});
+
+describe("archives whose declared sizes lie", () => {
+  const upload = (name: string, bytes: Buffer) => {
+    const form = new FormData();
+    form.set("file", new File([new Uint8Array(bytes)], name, { type: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" }));
+    const req = new Request(`${ORIGIN}/api/v1/rate-book/editions/${draftId}/imports`, { method: "POST", body: form, headers: { cookie: c.grants!, host: "localhost:3000" } });
+    return importsRoute.POST(req, params({ editionId: String(draftId) }));
+  };
+  const imports = async () => Number((await getDb().selectFrom("rate_book_imports").select((e) => e.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n);
+  const templateParts = async () => (await unpackZip(await templateXlsx(), { maxEntries: 100, maxUncompressed: 1 << 24, maxRatio: 1000 })).map((p) => deflatedPart(p.name, p.data));
+
+  it("a sheet that declares 1,837 bytes and inflates to 1.5 GiB is refused at once, within 200 MB of memory", async () => {
+    const parts = await templateParts();
+    const sheet = parts.findIndex((p) => p.name === "xl/worksheets/sheet1.xml");
+    const bomb: RawPart = { name: "xl/worksheets/sheet1.xml", raw: await deflatedSpaces(1536), method: 8, crc: 0x12345678, declaredSize: 1837 };
+    const file = zipOfParts(parts.map((p, i) => (i === sheet ? bomb : p)));
+    expect(file.length).toBeLessThan(2 * 1024 * 1024);
+    const before = await imports();
+    global.gc?.();
+    const rssBefore = process.memoryUsage().rss;
+    let peak = rssBefore;
+    const sampler = setInterval(() => (peak = Math.max(peak, process.memoryUsage().rss)), 5);
+    const started = performance.now();
+    const res = await upload("lying.xlsx", file);
+    const elapsed = performance.now() - started;
+    clearInterval(sampler);
+    peak = Math.max(peak, process.memoryUsage().rss);
+    expect(res.status).toBe(422);
+    const body = await res.json();
+    expect(body.error.message).toMatch(/unpacks to more than the 1837 bytes its archive declares/);
+    expect(body.error.fields.file[0]).toMatch(/xl\/worksheets\/sheet1\.xml/);
+    // Stated bound: the refusal costs the worker under 200 MB and well under a second of work
+    // (5 s allowed on a busy shared machine); unchecked, this file took 1.8 GB for 6.5 s.
+    expect((peak - rssBefore) / 1048576).toBeLessThan(200);
+    expect(elapsed).toBeLessThan(5000);
+    expect(await imports()).toBe(before);
+  }, 60_000);
+
+  it("any part whose declared size differs from its real size is refused with a message; the honest archive is read", async () => {
+    const parts = await templateParts();
+    expect((await upload("honest.xlsx", zipOfParts(parts))).status).toBe(201);
+    await fc.assert(
+      fc.asyncProperty(fc.nat({ max: parts.length - 1 }), fc.integer({ min: -5000, max: 5000 }).filter((d) => d !== 0), async (which, delta) => {
+        const lie = parts.map((p, i) => (i === which ? { ...p, declaredSize: Math.max(0, p.declaredSize + delta) } : p));
+        if (lie[which]!.declaredSize === parts[which]!.declaredSize) return;
+        const before = await imports();
+        const res = await upload("lie.xlsx", zipOfParts(lie));
+        const { status, body } = await check(res);
+        expect(status).toBe(422);
+        expect((body as { error: { message: string } }).error.message).toMatch(/declare|zip bomb|unpack/);
+        expect(await imports()).toBe(before);
+      }),
+      { numRuns: 40 },
+    );
+  }, 120_000);
 });
