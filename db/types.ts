@@ -190,6 +190,8 @@ export interface OutboxTable {
   claimed_until: string | null;
   sent_at: string | null;
   last_error: string | null;
+  /** An undelivered message's secret (an invitation token), withheld from its bodies; erased on delivery. */
+  secret: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
 export interface Database {
