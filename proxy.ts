@@ -1,5 +1,7 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { SESSION_COOKIE } from "@/lib/auth/session-options";
+import { errorBody } from "@/lib/http/errors";
+import { isForeignAction } from "@/lib/http/same-origin";
 
 const PUBLIC = [/^\/sign-in(\/|$)/, /^\/invitations\//];
 
@@ -22,11 +24,16 @@ function contentSecurityPolicy(nonce: string): string {
 }
 
 /**
- * Sets the page's Content-Security-Policy, and redirects signed-out visitors to the sign-in page as a
+ * Refuses server actions from other sites, sets the page's Content-Security-Policy, and redirects signed-out visitors to the sign-in page as a
  * convenience. It proves nothing about access: every page, server action and route handler checks
  * the session and the record itself.
  */
 export function proxy(req: NextRequest) {
+  // A POST to a page is a server action. Next answers a foreign one with a 500 and lets one without
+  // Origin or Sec-Fetch-Site through; refuse both here, as the API does, before Next sees them.
+  if (req.method === "POST" && isForeignAction(req.headers, req.url)) {
+    return NextResponse.json(errorBody("cross-site", "Cross-site requests are refused."), { status: 403, headers: { "cache-control": "no-store" } });
+  }
   const nonce = btoa(crypto.randomUUID());
   const csp = contentSecurityPolicy(nonce);
   const isPublic = PUBLIC.some((p) => p.test(req.nextUrl.pathname));

@@ -192,6 +192,8 @@ export interface OutboxTable {
   claimed_until: string | null;
   sent_at: string | null;
   last_error: string | null;
+  /** An undelivered message's secret (an invitation token), withheld from its bodies; erased on delivery. */
+  secret: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
 /** One row (id 1): the random id of this installation, made when the database was created. */

@@ -54,7 +54,7 @@ export async function inviteToStudy(actor: Actor, studyId: number, email: string
       .returning("id")
       .executeTakeFirstOrThrow();
     await enqueueMail(trx, [
-      invitationMail({ to: email, inviter: inviter.name, studyCode: study.code, studyTitle: study.title, link: `${appUrl()}/invitations/${token}`, expiresOn: expires.toISOString().slice(0, 10) }),
+      invitationMail({ to: email, inviter: inviter.name, studyCode: study.code, studyTitle: study.title, link: `${appUrl()}/invitations/${token}`, token, expiresOn: expires.toISOString().slice(0, 10) }),
     ]);
     await writeAudit(trx, [{ userId: actor.id, action: "invite", entity: "study", entityId: studyId, field: "email", newValue: email }]);
     return id;

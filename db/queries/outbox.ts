@@ -5,17 +5,32 @@ import type { Database } from "@/db/types";
 import { enforce } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import { outboxMessageId } from "@/lib/mail/message-id";
-import { linksIn, type MailMessage } from "@/lib/mail/templates";
+import { linksIn, restoreSecret, withholdSecret, type MailMessage } from "@/lib/mail/templates";
 import { createTransport } from "@/lib/mail/transport";
 
-/** Records messages in the caller's transaction: a rolled-back event sends nothing. */
+/**
+ * Records messages in the caller's transaction: a rolled-back event sends nothing. A message's secret
+ * (an invitation token) is withheld from the stored bodies and kept apart only until delivery.
+ */
 export async function enqueueMail(db: Kysely<Database> | Transaction<Database>, messages: MailMessage[]): Promise<void> {
   if (!messages.length) return;
   await db
     .insertInto("outbox")
-    .values(messages.map((m) => ({ kind: m.kind, to_address: m.to, subject: m.subject, text_body: m.text, html_body: m.html })))
+    .values(messages.map((m) => ({ kind: m.kind, to_address: m.to, subject: m.subject, ...bodies(m), secret: m.secret ?? null })))
     .execute();
 }
+
+const bodies = (m: MailMessage) => {
+  const { text, html } = withholdSecret(m);
+  return { text_body: text, html_body: html };
+};
+
+/** The bodies as sent: the withheld secret put back in, at sending time only. */
+const revealed = <R extends { text_body: string; html_body: string; secret: string | null }>(r: R): R => ({
+  ...r,
+  text_body: restoreSecret(r.text_body, r.secret),
+  html_body: restoreSecret(r.html_body, r.secret),
+});
 
 const CLAIM_SECONDS = 60;
 const backoffSeconds = (attempts: number) => Math.min(600, 5 * 2 ** Math.max(0, attempts - 1));
@@ -37,7 +52,8 @@ export async function deliverPending(opts: { now?: Date; limit?: number } = {}):
     .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
     .orderBy("id")
     .limit(opts.limit ?? 50)
-    .execute();
+    .execute()
+    .then((rows) => rows.map(revealed));
   if (!due.length) return { sent: 0, failed: 0 };
   const { installation_id: installationId } = await db.selectFrom("installation").select("installation_id").where("id", "=", 1).executeTakeFirstOrThrow();
   const { transporter, from } = createTransport();
@@ -56,7 +72,7 @@ export async function deliverPending(opts: { now?: Date; limit?: number } = {}):
       if (Number(claim.numUpdatedRows) !== 1) continue;
       try {
         await transporter.sendMail({ from, to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body, messageId: outboxMessageId(installationId, m) });
-        await db.updateTable("outbox").set({ sent_at: new Date().toISOString(), claimed_until: null, attempts: m.attempts + 1, last_error: null }).where("id", "=", m.id).execute();
+        await db.updateTable("outbox").set({ sent_at: new Date().toISOString(), claimed_until: null, attempts: m.attempts + 1, last_error: null, secret: null }).where("id", "=", m.id).execute();
         sent++;
       } catch (err) {
         const attempts = m.attempts + 1;

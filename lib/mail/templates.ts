@@ -1,5 +1,20 @@
 /** E-mail messages: plain-text and HTML parts, the product's name, a link to the page. Pure. */
-export type MailMessage = { kind: string; to: string; subject: string; text: string; html: string };
+export type MailMessage = { kind: string; to: string; subject: string; text: string; html: string; secret?: string };
+
+/**
+ * What the outbox keeps in place of a message's secret (an invitation token): the stored bodies hold
+ * no redeemable link, and the secret goes back in only at sending time.
+ */
+export const SECRET_WITHHELD = "[withheld]";
+
+export function withholdSecret(m: MailMessage): { text: string; html: string } {
+  if (!m.secret) return { text: m.text, html: m.html };
+  return { text: m.text.split(m.secret).join(SECRET_WITHHELD), html: m.html.split(m.secret).join(SECRET_WITHHELD) };
+}
+
+export function restoreSecret(body: string, secret: string | null): string {
+  return secret ? body.split(SECRET_WITHHELD).join(secret) : body;
+}
 
 const esc = (s: string) => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
 
@@ -11,14 +26,15 @@ function compose(kind: string, to: string, subject: string, lines: string[], lin
   return { kind, to, subject: `[Delta Ledger] ${subject}`, text, html };
 }
 
-export function invitationMail(o: { to: string; inviter: string; studyCode: string; studyTitle: string; link: string; expiresOn: string }): MailMessage {
-  return compose(
+export function invitationMail(o: { to: string; inviter: string; studyCode: string; studyTitle: string; link: string; token: string; expiresOn: string }): MailMessage {
+  const message = compose(
     "invitation",
     o.to,
     `Invitation to study ${o.studyCode}`,
     [`${o.inviter} invites you to join the study ${o.studyCode}, "${o.studyTitle}", as a co-investigator.`, `The link works once and expires on ${o.expiresOn}.`],
     { href: o.link, label: "Accept the invitation" },
   );
+  return { ...message, secret: o.token };
 }
 
 export function commentMail(o: { to: string; author: string; scenario: string; body: string; link: string; reply: boolean }): MailMessage {
@@ -46,7 +62,7 @@ export function reviewedMail(o: { to: string; scenario: string; studyCode: strin
   return compose(o.outcome, o.to, `${o.studyCode}: ${o.scenario} ${o.outcome}`, lines, { href: o.link, label: "Open the scenario" });
 }
 
-/** The links in a message's text, for the outbox page. */
+/** The links in a message's text, for the outbox page; a link whose secret is withheld is left out. */
 export function linksIn(text: string): string[] {
-  return [...text.matchAll(/https?:\/\/[^\s<>"]+/g)].map((m) => m[0]);
+  return [...text.matchAll(/https?:\/\/[^\s<>"]+/g)].map((m) => m[0]).filter((l) => !l.includes(SECRET_WITHHELD));
 }

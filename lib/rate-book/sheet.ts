@@ -5,8 +5,10 @@
  * or shares ("0.565"), as in the rate book's forms; they are stored as shares.
  *
  * Untrusted files: the type is decided by content, not name; size and rows are limited; an XLSX
- * archive's declared uncompressed size is read from its central directory and checked before
- * anything is inflated (zip bombs); formula cells are refused, in XLSX and CSV alike.
+ * archive's declared sizes are checked before anything is inflated, then each part is inflated
+ * within its declared size (./zip.ts), so an archive that lies about its sizes is stopped while
+ * inflating (zip bombs); exceljs reads only the checked bytes; formula cells are refused, in XLSX
+ * and CSV alike.
  */
 import ExcelJS from "exceljs";
 import { parse as parseCsv } from "csv-parse/sync";
@@ -22,6 +24,7 @@ import {
   settingSchema,
   type SettingKey,
 } from "./fields";
+import { storedZip, unpackZip, ZipError, zipDeclaredSizes } from "./zip";
 
 export const SHEET_MAX_BYTES = 2 * 1024 * 1024;
 export const SHEET_MAX_ROWS = 2000;
@@ -54,50 +57,15 @@ function isZip(b: Uint8Array): boolean {
   return b.length >= 4 && b[0] === 0x50 && b[1] === 0x4b && b[2] === 0x03 && b[3] === 0x04;
 }
 
-/**
- * Reads the ZIP central directory (APPNOTE.TXT 4.3.12/4.3.16) and returns the declared sizes, without
- * inflating anything. A hand-written reader because the check must come before any library unzips.
- */
-export function zipDeclaredSizes(b: Uint8Array): { entries: number; compressed: number; uncompressed: number } {
-  const view = new DataView(b.buffer, b.byteOffset, b.byteLength);
-  const minEocd = Math.max(0, b.length - 22 - 65535);
-  let eocd = -1;
-  for (let i = b.length - 22; i >= minEocd; i--) {
-    if (view.getUint32(i, true) === 0x06054b50) {
-      eocd = i;
-      break;
-    }
-  }
-  if (eocd < 0) throw new SheetError("The file looks like an XLSX workbook but its archive is damaged.");
-  const entries = view.getUint16(eocd + 10, true);
-  const cdSize = view.getUint32(eocd + 12, true);
-  const cdOffset = view.getUint32(eocd + 16, true);
-  if (entries === 0xffff || cdOffset === 0xffffffff || cdOffset + cdSize > b.length) {
-    throw new SheetError("The workbook's archive uses a layout we do not accept (ZIP64 or damaged).");
-  }
-  let p = cdOffset;
-  let compressed = 0;
-  let uncompressed = 0;
-  for (let i = 0; i < entries; i++) {
-    if (p + 46 > b.length || view.getUint32(p, true) !== 0x02014b50) throw new SheetError("The workbook's archive directory is damaged.");
-    const c = view.getUint32(p + 20, true);
-    const u = view.getUint32(p + 24, true);
-    if (c === 0xffffffff || u === 0xffffffff) throw new SheetError("The workbook's archive uses ZIP64, which we do not accept.");
-    compressed += c;
-    uncompressed += u;
-    p += 46 + view.getUint16(p + 28, true) + view.getUint16(p + 30, true) + view.getUint16(p + 32, true);
-  }
-  return { entries, compressed, uncompressed };
-}
+export { zipDeclaredSizes };
 
-function checkArchive(b: Uint8Array): void {
-  const z = zipDeclaredSizes(b);
-  if (z.entries > XLSX_MAX_ENTRIES) throw new SheetError(`The workbook holds ${z.entries} parts; at most ${XLSX_MAX_ENTRIES} are accepted.`);
-  if (z.uncompressed > XLSX_MAX_UNCOMPRESSED) {
-    throw new SheetError(`The workbook would unpack to ${(z.uncompressed / 1048576).toFixed(1)} MB; at most ${XLSX_MAX_UNCOMPRESSED / 1048576} MB are accepted.`);
-  }
-  if (z.compressed > 0 && z.uncompressed / z.compressed > XLSX_MAX_RATIO) {
-    throw new SheetError("The workbook compresses suspiciously well (a possible zip bomb) and was refused.");
+/** The archive's parts, inflated under the limits on their real bytes (./zip.ts), as a stored copy for exceljs. */
+async function checkedArchive(b: Uint8Array): Promise<Buffer> {
+  try {
+    return storedZip(await unpackZip(b, { maxEntries: XLSX_MAX_ENTRIES, maxUncompressed: XLSX_MAX_UNCOMPRESSED, maxRatio: XLSX_MAX_RATIO }));
+  } catch (err) {
+    if (err instanceof ZipError) throw new SheetError(err.message);
+    throw err;
   }
 }
 
@@ -106,10 +74,10 @@ const FORMULA_LIKE = /^\s*(=|@|[+-](?!\s*\d))/;
 type RawRow = { row: number; cells: string[] };
 
 async function readXlsx(b: Uint8Array): Promise<RawRow[]> {
-  checkArchive(b);
+  const checked = await checkedArchive(b);
   const wb = new ExcelJS.Workbook();
   try {
-    await wb.xlsx.load(b.buffer.slice(b.byteOffset, b.byteOffset + b.byteLength) as ArrayBuffer);
+    await wb.xlsx.load(checked.buffer.slice(checked.byteOffset, checked.byteOffset + checked.byteLength) as ArrayBuffer);
   } catch {
     throw new SheetError("The XLSX workbook could not be read.");
   }

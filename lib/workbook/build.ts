@@ -11,7 +11,7 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
 import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
-import { col, safeText, sheetName } from "./text";
+import { col, quoteSheet, safeText, sheetName } from "./text";
 
 export type WorkbookScenario = {
   name: string;
@@ -51,7 +51,7 @@ function name(ctx: Ctx, base: string): string {
 }
 
 function defineName(ctx: Ctx, ws: ExcelJS.Worksheet, cell: string, n: string): void {
-  ctx.wb.definedNames.add(`'${ws.name}'!$${cell.replace(/(\d+)/, "$$$1")}`, n);
+  ctx.wb.definedNames.add(`${quoteSheet(ws.name)}!$${cell.replace(/(\d+)/, "$$$1")}`, n);
 }
 
 function finish(ws: ExcelJS.Worksheet, frozen: { x: number; y: number }, titleRows: string): void {
@@ -234,7 +234,7 @@ function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, LineRef>, 
       const ref = refs.get(line.key);
       for (let p = 0; p < P; p++) {
         const cell = ws.getCell(r, first + p);
-        if (ref) cell.value = fx(`'${ref.sheet}'!${col(ref.firstCol + p)}${ref.row}`);
+        if (ref) cell.value = fx(`${quoteSheet(ref.sheet)}!${col(ref.firstCol + p)}${ref.row}`);
         else if (line.basis === "amount" && line.escalation !== "0") {
           const base = Number(line.amounts[0]);
           const esc = escalationCell(ctx, line.escalation, s.rates);
@@ -297,7 +297,7 @@ function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, LineRef>, 
   ws.getCell(`B${rows.total + 2}`).font = { italic: true, size: 9 };
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 14 : i === 1 ? 46 : i === 2 ? 10 : 15));
   finish(ws, { x: 2, y: 4 }, "1:4");
-  return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `'${ws.name}'!${col(first + P)}${rows.total}` };
+  return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
 }
 
 function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layout: BudgetLayout, ws: ExcelJS.Worksheet): void {
@@ -335,12 +335,12 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
   r++;
   for (let k = 0; k <= layout.periods; k++) {
     ws.getCell(`A${r}`).value = k < layout.periods ? `Period ${k + 1}` : "Grand total";
-    ws.getCell(`B${r}`).value = fx(`'${layout.sheet}'!${col(layout.firstCol + k)}${layout.rows.total}`);
+    ws.getCell(`B${r}`).value = fx(`${quoteSheet(layout.sheet)}!${col(layout.firstCol + k)}${layout.rows.total}`);
     ws.getCell(`B${r}`).numFmt = MONEY;
     r++;
   }
   ws.getCell(`A${r}`).value = "F&A";
-  ws.getCell(`B${r}`).value = fx(`'${layout.sheet}'!${col(layout.firstCol + layout.periods)}${layout.rows.fa}`);
+  ws.getCell(`B${r}`).value = fx(`${quoteSheet(layout.sheet)}!${col(layout.firstCol + layout.periods)}${layout.rows.fa}`);
   ws.getCell(`B${r}`).numFmt = MONEY;
   r += 2;
   const cap = l.caps.total;
@@ -438,7 +438,7 @@ function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list: Workb
     layouts.forEach((l, k) => {
       const cell = ws.getCell(r, 2 + k);
       if (p < maxP && p >= l.periods) cell.value = 0;
-      else cell.value = fx(`'${l.sheet}'!${col(l.firstCol + (p < maxP ? p : l.periods))}${l.rows.total}`);
+      else cell.value = fx(`${quoteSheet(l.sheet)}!${col(l.firstCol + (p < maxP ? p : l.periods))}${l.rows.total}`);
       cell.numFmt = MONEY;
     });
     r++;

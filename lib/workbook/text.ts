@@ -15,6 +15,15 @@ export function sheetName(base: string): string {
   return base.replace(/[[\]:*?/\\]/g, " ").replace(/^'+|'+$/g, "").trim().slice(0, 31) || "Sheet";
 }
 
+/**
+ * A sheet name as a formula or defined name refers to it: always in apostrophes, an apostrophe inside
+ * doubled ("Dr O'Brien plan" → 'Dr O''Brien plan'), as the OOXML formula grammar (ECMA-376 Part 1,
+ * 18.17) and every spreadsheet read it.
+ */
+export function quoteSheet(name: string): string {
+  return `'${name.replace(/'/g, "''")}'`;
+}
+
 /** A1 column letters for a 1-based column number. */
 export function col(n: number): string {
   let s = "";

@@ -57,4 +57,24 @@ describe("comments and notifications", () => {
     await screenshot(admin, "outbox");
     await admin.close();
   });
+
+  it("the investigator invites a colleague; the admin's outbox shows the invitation with its link withheld, no working link", async () => {
+    await pi.goto(`${baseUrl}/studies`);
+    await pi.getByRole("link", { name: /Walking Better/ }).click();
+    await pi.getByLabel("Invite a co-investigator").fill("invited.colleague@demo.test");
+    await pi.getByRole("button", { name: "Invite" }).click();
+    await pi.getByRole("status").filter({ hasText: "Invitation sent to invited.colleague@demo.test." }).waitFor();
+
+    const admin = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(admin, baseUrl, "admin@demo.test");
+    await admin.getByRole("link", { name: "Outbox" }).click();
+    const item = admin.getByTestId("outbox").locator("li").filter({ hasText: "Invitation to study WALK-KNEE" }).filter({ hasText: "invited.colleague@demo.test" });
+    await item.getByText("Text and links").click();
+    await item.getByText(/invitations\/\[withheld\]/).waitFor();
+    const hrefs = await item.locator("a").evaluateAll((as) => as.map((a) => a.getAttribute("href") ?? ""));
+    expect(hrefs.filter((h) => h.includes("/invitations/"))).toEqual([]);
+    expect(await admin.getByText("Invitation links show as [withheld]").count()).toBe(1);
+    await screenshot(admin, "outbox-withheld");
+    await admin.close();
+  });
 });

@@ -38,4 +38,21 @@ describe("security headers", () => {
     expect(html).toContain('rel="apple-touch-icon" href="/apple-touch-icon.png"');
     expect(html).toContain('rel="manifest" href="/manifest.webmanifest"');
   });
+  it("server actions from another site, or with neither Origin nor Sec-Fetch-Site, get a clean 403 (never a 500) and change nothing", async () => {
+    const signIn = await fetch(`${baseUrl}/api/v1/session`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email: "pi@demo.test", password: "demo-pass-2026" }) });
+    const cookie = signIn.headers.get("set-cookie")!.split(";")[0]!;
+    const studies = async () => (await (await fetch(`${baseUrl}/api/v1/studies`, { headers: { cookie } })).json()).studies.length;
+    const before = await studies();
+    const form = new FormData();
+    form.set("code", "FOREIGN-1");
+    form.set("title", "Posted from elsewhere");
+    const post = (headers: Record<string, string>) =>
+      fetch(`${baseUrl}/studies`, { method: "POST", redirect: "manual", headers: { cookie, "next-action": "00aa11bb22cc33dd44ee55ff66778899aabbccdd", ...headers }, body: form });
+    for (const headers of <Record<string, string>[]>[{ origin: "https://evil.example" }, {}, { origin: "https://evil.example", "x-forwarded-host": "evil.example" }]) {
+      const res = await post(headers);
+      expect(res.status, JSON.stringify(headers)).toBe(403);
+      expect(await res.json()).toEqual({ error: { code: "cross-site", message: "Cross-site requests are refused." } });
+    }
+    expect(await studies()).toBe(before);
+  });
 });

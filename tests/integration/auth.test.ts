@@ -5,7 +5,9 @@ import * as sessionRoute from "@/app/api/v1/session/route";
 import * as studiesRoute from "@/app/api/v1/studies/route";
 import * as studyRoute from "@/app/api/v1/studies/[studyId]/route";
 import { LOGIN_MAX_FAILURES } from "@/lib/auth/session-options";
-import { cookieFrom, params, request, signInAs } from "../support/http";
+import { NextRequest } from "next/server";
+import { proxy } from "@/proxy";
+import { cookieFrom, ORIGIN, params, request, signInAs } from "../support/http";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 
 let dir = "";
@@ -79,7 +81,8 @@ describe("sign-in over the API", () => {
       await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: `guess-${i}-xx` } }));
     }
     expect((await sessionRoute.POST(request("POST", "/api/v1/session", { body: { email: "ghost@demo.test", password: "x" } }))).status).toBe(429);
-  });
+    // Twenty scrypt checks in a row: slow on a busy two-core machine.
+  }, 120_000);
 
   it("sign-out makes the old cookie worthless", async () => {
     const cookie = await signInAs(sessionRoute, "coi@demo.test");
@@ -130,6 +133,41 @@ describe("sign-in over the API", () => {
     const fetchSite = await sessionRoute.DELETE(request("DELETE", "/api/v1/session", { cookie, headers: { "sec-fetch-site": "cross-site" } }));
     expect(fetchSite.status).toBe(403);
     expect((await sessionRoute.GET(request("GET", "/api/v1/session", { cookie }))).status).toBe(200);
+  });
+
+  it("believes X-Forwarded-Host only when TRUST_PROXY=1 says a proxy sets it", async () => {
+    const cookie = await signInAs(sessionRoute, "pi@demo.test");
+    const post = (headers: Record<string, string>) => studiesRoute.POST(request("POST", "/api/v1/studies", { cookie, body: {}, headers }));
+    const before = await getDb().selectFrom("studies").select("id").execute();
+    // A foreign site naming itself in X-Forwarded-Host: refused unless the app is told a proxy sets the header.
+    expect((await post({ origin: "https://evil.example", "x-forwarded-host": "evil.example" })).status).toBe(403);
+    const saved = process.env.TRUST_PROXY;
+    process.env.TRUST_PROXY = "1";
+    try {
+      // Behind a proxy the public host is the forwarded one: a request from it passes the origin check (then fails validation).
+      expect((await post({ origin: "https://ledger.example.org", "x-forwarded-host": "ledger.example.org" })).status).toBe(400);
+      expect((await post({ origin: "https://evil.example", "x-forwarded-host": "ledger.example.org" })).status).toBe(403);
+    } finally {
+      if (saved === undefined) delete process.env.TRUST_PROXY;
+      else process.env.TRUST_PROXY = saved;
+    }
+    expect((await post({ origin: "https://ledger.example.org", "x-forwarded-host": "ledger.example.org" })).status).toBe(403);
+    expect(await getDb().selectFrom("studies").select("id").execute()).toEqual(before);
+  });
+
+  it("refuses server actions from a foreign Origin or with neither Origin nor Sec-Fetch-Site, with a clean 403", async () => {
+    const action = (headers: Record<string, string>) =>
+      proxy(new NextRequest(`${ORIGIN}/studies`, { method: "POST", headers: { host: "localhost:3000", "next-action": "0123abcd", cookie: "dl_session=x", ...headers }, body: "[]" }));
+    for (const headers of <Record<string, string>[]>[{ origin: "https://evil.example" }, {}, { "sec-fetch-site": "cross-site" }, { "sec-fetch-site": "same-site" }, { origin: "null" }, { origin: "https://evil.example", "x-forwarded-host": "evil.example" }]) {
+      const res = action(headers);
+      expect(res.status, JSON.stringify(headers)).toBe(403);
+      expect(await res.json()).toEqual({ error: { code: "cross-site", message: "Cross-site requests are refused." } });
+    }
+    for (const headers of <Record<string, string>[]>[{ origin: ORIGIN }, { "sec-fetch-site": "same-origin" }, { origin: ORIGIN, "sec-fetch-site": "same-origin" }]) {
+      const res = action(headers);
+      expect(res.status, JSON.stringify(headers)).toBe(200);
+      expect(res.headers.get("x-middleware-next")).toBe("1");
+    }
   });
 });
 

@@ -13,7 +13,7 @@ import * as commentRoute from "@/app/api/v1/scenarios/[scenarioId]/comments/[com
 import * as invitationsRoute from "@/app/api/v1/studies/[studyId]/invitations/route";
 import * as reviewRoute from "@/app/api/v1/scenarios/[scenarioId]/review/route";
 import { acceptInvitation, inviteToStudy, lookupInvitation } from "@/db/queries/invitations";
-import { deliverPending, enqueueMail } from "@/db/queries/outbox";
+import { deliverPending, enqueueMail, listOutbox } from "@/db/queries/outbox";
 import { createAccount } from "@/db/queries/accounts";
 import { commentMail } from "@/lib/mail/templates";
 import { readMailbox, startMailServer } from "@/scripts/mail-server";
@@ -41,7 +41,8 @@ beforeAll(async () => {
   studyId = (await getDb().selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
   scenarioId = (await getDb().selectFrom("scenarios").select("id").where("state", "=", "draft").orderBy("id").executeTakeFirstOrThrow()).id;
   piId = (await getDb().selectFrom("users").select("id").where("email", "=", "pi@demo.test").executeTakeFirstOrThrow()).id;
-});
+  // Six scrypt hashes: slow on a busy two-core machine.
+}, 120_000);
 afterAll(async () => {
   await mail.close();
   fs.rmSync(mailDir, { recursive: true, force: true });
@@ -124,6 +125,30 @@ describe("invitations", () => {
     expect(await getDb().selectFrom("study_members").select("user_id").where("user_id", "=", user.id).executeTakeFirst()).toBeTruthy();
     await expect(acceptInvitation(token, { name: "Again", password: "another password" })).rejects.toMatchObject({ status: 410 });
     expect((await lookupInvitation(token)).status).toBe("used");
+  });
+  it("the outbox keeps no redeemable link: the token waits apart until delivery, then is erased; the admin's view shows none", async () => {
+    const { id, token } = await inviteToStudy({ id: piId, role: "investigator" }, studyId, "secret.keeper@demo.test");
+    const row = async () => getDb().selectFrom("outbox").selectAll().where("to_address", "=", "secret.keeper@demo.test").executeTakeFirstOrThrow();
+    const queued = await row();
+    expect(queued.text_body).not.toContain(token);
+    expect(queued.html_body).not.toContain(token);
+    expect(queued.text_body).toMatch(/\/invitations\/\[withheld\]/);
+    expect(queued.secret).toBe(token);
+    const admin = await getDb().selectFrom("users").select("id").where("email", "=", "admin@demo.test").executeTakeFirstOrThrow();
+    const seen = (await listOutbox({ id: admin.id, role: "admin" })).find((m) => m.to === "secret.keeper@demo.test")!;
+    expect(JSON.stringify(seen)).not.toContain(token);
+    expect(seen.links).toEqual([]);
+    // The recipient's message carries the working link, built at sending time.
+    await deliverPending({ now: later() });
+    const msg = inbox("secret.keeper@demo.test")[0]!;
+    expect(msg.text).toContain(`http://localhost:3000/invitations/${token}`);
+    expect(msg.html).toContain(`http://localhost:3000/invitations/${token}`);
+    const sent = await row();
+    expect(sent.sent_at).toBeTruthy();
+    expect(sent.secret).toBeNull();
+    expect(JSON.stringify(sent)).not.toContain(token);
+    expect((await lookupInvitation(token)).status).toBe("valid");
+    expect(id).toBeGreaterThan(0);
   });
   it("an existing account just gains the membership", async () => {
     const { token } = await inviteToStudy({ id: piId, role: "investigator" }, studyId, "outsider@demo.test");

@@ -29,7 +29,8 @@ beforeAll(async () => {
   scenarios = await getDb().selectFrom("scenarios").select(["id", "name", "state"]).orderBy("id").execute();
   // A hostile name, to check that user text stays inert in the workbook.
   await getDb().updateTable("scenarios").set({ name: '=HYPERLINK("http://evil.example","click")' }).where("id", "=", scenarios[1]!.id).execute();
-});
+  // Seven scrypt hashes: slow on a busy two-core machine.
+}, 120_000);
 afterAll(() => dropDatabase(dir));
 
 const one = (who: string, id: number) => scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie: c[who] }), params({ scenarioId: String(id) }));
@@ -148,6 +149,30 @@ describe("recalculated with LibreOffice", () => {
       if (row.getCell(1).value === "Grand total") grand = row;
     });
     for (let k = 0; k < 3; k++) expect(cents(num(grand!.getCell(2 + k).value))).toBe((await resultsOf(ids[k]!)).ledger.totals.total);
+  }, 120_000);
+
+  it("scenario names with apostrophes (Dr O'Brien plan, Kids' arm) are quoted in every formula and reconcile", async () => {
+    const ids = [scenarios[0]!.id, scenarios[2]!.id];
+    const names = ["Dr O'Brien plan", "Kids' arm"];
+    const saved = await getDb().selectFrom("scenarios").select(["id", "name"]).where("id", "in", ids).execute();
+    try {
+      for (let k = 0; k < 2; k++) await getDb().updateTable("scenarios").set({ name: names[k]! }).where("id", "=", ids[k]!).execute();
+      const res = await many("grants", ids);
+      expect(res.status).toBe(200);
+      const built = await load(Buffer.from(await res.arrayBuffer()));
+      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Dr O'Brien Budget by period", "B Kids' arm Budget by period"]));
+      const recalculated = await load(recalculate(Buffer.from(await built.xlsx.writeBuffer())));
+      const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+      expect(budgets.length).toBe(2);
+      for (let k = 0; k < 2; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
+      let grand: ExcelJS.Row | undefined;
+      recalculated.getWorksheet("Comparison")!.eachRow((row) => {
+        if (row.getCell(1).value === "Grand total") grand = row;
+      });
+      for (let k = 0; k < 2; k++) expect(cents(num(grand!.getCell(2 + k).value))).toBe((await resultsOf(ids[k]!)).ledger.totals.total);
+    } finally {
+      for (const r of saved) await getDb().updateTable("scenarios").set({ name: r.name }).where("id", "=", r.id).execute();
+    }
   }, 120_000);
 
   it("changing the F&A rate cell moves the totals by the engine's formula", async () => {
