@@ -65,7 +65,7 @@ describe("finance", () => {
     expect(`$${grand.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })}`).toBe(pageTotal);
     await screenshotWidths(fin, "journey-finance-scenario");
     await fin.close();
-  });
+  }, 300_000);
 });
 
 describe("the co-investigator", () => {
@@ -120,7 +120,7 @@ describe("the co-investigator", () => {
     else await waitForText(badge, `${open - 1} comment${open - 1 === 1 ? "" : "s"}`);
     await pi.close();
     await coi.close();
-  });
+  }, 300_000);
 });
 
 describe("the administrator", () => {
@@ -182,5 +182,5 @@ describe("the administrator", () => {
     await item.getByRole("link", { name: /\/invitations\// }).waitFor();
     await screenshotWidths(admin, "journey-admin-outbox");
     await admin.close();
-  });
+  }, 300_000);
 });

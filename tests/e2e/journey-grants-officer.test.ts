@@ -93,5 +93,5 @@ describe("the grants officer's journey", () => {
     expect(await pi.getByRole("button", { name: "Save changes" }).count()).toBe(0);
     expect(await pi.getByTestId("submit-review").count()).toBe(0);
     await waitForText(pi.getByTestId("result-total"), "$87,170.50");
-  });
+  }, 360_000);
 });

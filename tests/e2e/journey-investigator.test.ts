@@ -62,7 +62,7 @@ describe("the investigator's journey", () => {
     await row.getByRole("link", { name: STUDY.title }).waitFor();
     expect(await row.textContent()).toContain("Lead");
     await screenshotWidths(pi, "journey-pi-studies");
-  });
+  }, 150_000);
 
   it("creates a scenario from the form; n, funnel, total, MDES and cap check match the hand-worked values before and after saving", async () => {
     await pi.goto(studyUrl);
@@ -85,14 +85,27 @@ describe("the investigator's journey", () => {
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
     await waitForText(pi.getByTestId("result-total"), "$74,807.00");
     await waitForText(pi.getByTestId("result-mdes"), "0.499");
+    // What the cap buys, worked by hand: 96 per arm → 120 enrolled, 150 screened per arm; 240 enrolled in 12 months
+    // (0–11), close-out month 12, so two periods. Period 1: screening 300 × 85 = 25,500; failures 60 × 25 = 1,500;
+    // incentives 240 × 40 = 9,600; start-up 12,000; annual fee 3,500; monitoring 4 × 1,800 = 7,200; F&A 59,300 × 56.5%
+    // = 33,504.50. Period 2 (3% escalation): close-out 2,575.00, F&A 1,454.88. Total $96,834.38 ≤ $100,000, while
+    // 97 per arm (122 enrolled, 153 screened per arm, 13 months) costs over $100,000. MDES at 96 per arm 0.4064,
+    // power at d = 0.5 0.9314 (R power.t.test(n = 96, power = 0.8)$delta; power.t.test(n = 96, delta = 0.5)$power).
+    await waitForText(
+      pi.getByTestId("cap-buys"),
+      "The sponsor's cap of $100,000 funds up to 96 + 96 evaluable participants at 1 site (12 months to enrol), costing $96,834: the detectable effect is 0.406 and power at the target 0.931.",
+    );
+    // Fewer sites cost less here (each adds fees), so one site is the cheapest way to reach the target power.
+    await waitForText(pi.getByTestId("cheapest"), /^1 site, \$74,807(\.00)?, 8 months to enrol\.$/);
     // The justification quotes the same figures.
     const text = await pi.getByLabel("Justification text").inputValue();
     expect(text).toContain("64 and 64 evaluable participants per arm (128 in total)");
     expect(text).toContain("Allowing 20% attrition and 20% screen failure");
     expect(text).toContain("160 participants will be enrolled from 200 screened");
     expect(text).toContain("minimum detectable standardized effect is 0.499, and the study costs $74,807.00 in total");
+    expect(text).toContain("The sponsor's cap of $100,000 would fund up to 96 and 96 evaluable participants per arm, able to detect 0.406.");
     await screenshotWidths(pi, "journey-pi-scenario");
-  });
+  }, 150_000);
 
   it("saves an edit: the version goes up and the figures follow the hand-worked values", async () => {
     await textField(pi, "Attrition").fill("0.36");
@@ -109,7 +122,7 @@ describe("the investigator's journey", () => {
     const text = await pi.getByLabel("Justification text").inputValue();
     expect(text).toContain("200 participants will be enrolled from 250 screened");
     expect(text).toContain("the study costs $87,170.50 in total");
-  });
+  }, 150_000);
 
   it("uploads a pilot CSV chosen as a person would, sees its estimate and uses it as the planning SD", async () => {
     await pi.goto(studyUrl);
@@ -135,7 +148,7 @@ describe("the investigator's journey", () => {
     expect(await textField(pi, "Outcome SD").inputValue()).toBe("1.5811");
     expect(await pi.getByLabel("Justification text").inputValue()).toContain("The planning values come from pilot data (pilot.csv, n = 10), point estimate.");
     fs.rmSync(dir, { recursive: true, force: true });
-  });
+  }, 150_000);
 
   it("compares the two scenarios side by side, with designs in words and the totals the scenarios show", async () => {
     await pi.goto(studyUrl);
@@ -158,7 +171,7 @@ describe("the investigator's journey", () => {
     expect(await row("Design")).toContain("Two independent means");
     expect(await row("Design")).not.toContain("two-means");
     await screenshotWidths(pi, "journey-pi-compare");
-  });
+  }, 150_000);
 
   it("clones a scenario into a new draft, then deletes that draft", async () => {
     await pi.goto(firstScenarioUrl);
@@ -172,7 +185,7 @@ describe("the investigator's journey", () => {
     await pi.waitForURL(/\/studies\/\d+$/);
     await pi.getByRole("link", { name: "Hand-worked, one site", exact: true }).waitFor();
     expect(await pi.getByRole("link", { name: /\(copy\)/ }).count()).toBe(0);
-  });
+  }, 150_000);
 
   it("invites a co-investigator by e-mail; the new person follows the link in the e-mail, sets a name and password and lands in the study", async () => {
     await pi.goto(studyUrl);
@@ -222,7 +235,7 @@ describe("the investigator's journey", () => {
     await signIn(again, baseUrl, INVITEE, "rowan-walks-2028");
     await again.getByRole("link", { name: STUDY.title }).waitFor();
     await again.close();
-  });
+  }, 150_000);
 
   it("submits a scenario for review; it is then read-only for the investigator", async () => {
     await pi.goto(firstScenarioUrl);
@@ -233,5 +246,5 @@ describe("the investigator's journey", () => {
     await pi.goto(studyUrl);
     const row = pi.getByRole("row").filter({ hasText: "Hand-worked, one site" });
     expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/In review.*\$87,171/);
-  });
+  }, 150_000);
 });

@@ -103,7 +103,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
                 <span className="sr-only">Row</span>
               </th>
               {list.map((s) => (
-                <th key={s.id} scope="col" className="num">
+                <th key={s.id} scope="col" className="num normal-case tracking-normal">
                   <Link href={`/studies/${studyId}/scenarios/${s.id}`}>{s.name}</Link>
                   <span className="block text-[10px] font-normal normal-case">{STATE_LABEL[s.state]}</span>
                 </th>
