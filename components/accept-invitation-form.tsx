@@ -14,6 +14,9 @@ export function AcceptInvitationForm({ token, newAccount }: { token: string; new
     lastResult,
     onValidate: ({ formData }) => parseWithZod(formData, { schema: acceptInvitationSchema }),
     shouldValidate: "onBlur",
+    // Messages clear while the person types, not on the blur of the button's press: a message that vanished
+    // then moved the button from under the pointer, and the first click did nothing.
+    shouldRevalidate: "onInput",
   });
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="flex flex-col gap-4" noValidate>

@@ -4,6 +4,7 @@ import type { Database } from "../db/types";
 import { hashPassword } from "../lib/auth/password";
 import type { AccountRole } from "../lib/auth/roles";
 import { computeScenario } from "../lib/planning/compute";
+import { scenarioInputsSchema, type ScenarioInputs } from "../lib/planning/schema";
 import { DEMO_RATES, DEMO_SCENARIOS, demoRateBook } from "./demo-data";
 
 /**
@@ -77,14 +78,15 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
       .execute();
     // The demo scenarios, costed with the published edition; the lean one is already with the grants office.
     for (const s of DEMO_SCENARIOS) {
-      const results = computeScenario(s.inputs, demoRateBook(editionId), { startDate: DEMO_STUDY.startDate, sponsorCap: DEMO_STUDY.sponsorCap });
+      const inputs = validDemoInputs(s.name, s.inputs);
+      const results = computeScenario(inputs, demoRateBook(editionId), { startDate: DEMO_STUDY.startDate, sponsorCap: DEMO_STUDY.sponsorCap });
       await trx
         .insertInto("scenarios")
         .values({
           study_id: studyId,
           name: s.name,
           state: s.state,
-          inputs_json: JSON.stringify(s.inputs),
+          inputs_json: JSON.stringify(inputs),
           results_json: JSON.stringify(results),
           rate_edition_id: editionId,
           created_by: ids["pi@demo.test"]!,
@@ -101,6 +103,18 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
       .execute();
   });
   return { seeded: true };
+}
+
+/**
+ * A demo scenario's inputs through the same schema as the form and the API, so the seed stores only a
+ * state a user could have saved; a demo scenario the schema refuses stops the seed with the reason.
+ */
+export function validDemoInputs(name: string, inputs: ScenarioInputs): ScenarioInputs {
+  const parsed = scenarioInputsSchema.safeParse(inputs);
+  if (!parsed.success) {
+    throw new Error(`Demo scenario "${name}" is not valid scenario input: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
+  }
+  return parsed.data;
 }
 
 export function assertSeedAllowed(env: NodeJS.ProcessEnv = process.env): void {

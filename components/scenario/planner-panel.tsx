@@ -32,7 +32,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
         {data.capBuys ? (
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
-            {data.capBuys.sites} sites ({data.capBuys.monthsToEnrol} months to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
+            {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
             <strong className="num">{data.capBuys.effect.toFixed(3)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
         ) : (
@@ -44,8 +44,8 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             <p className="mt-1" data-testid="cheapest">
               {data.cheapest.best.clusterSize !== undefined
                 ? `${data.cheapest.best.clustersPerArm} clusters per arm of ${data.cheapest.best.clusterSize}`
-                : `${data.cheapest.best.sites} sites`}
-              , {money(data.cheapest.best.total)}, {data.cheapest.best.monthsToEnrol} months to enrol.
+                : `${data.cheapest.best.sites} site${data.cheapest.best.sites === 1 ? "" : "s"}`}
+              , {money(data.cheapest.best.total)}, {data.cheapest.best.monthsToEnrol} month{data.cheapest.best.monthsToEnrol === 1 ? "" : "s"} to enrol.
               {data.cheapest.optimalClusterSize !== undefined ? ` Raudenbush's cost-optimal cluster size m* is ${data.cheapest.optimalClusterSize.toFixed(1)}.` : ""}
             </p>
             <details className="mt-2">

@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import path from "node:path";
-import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { chromium, type Browser, type BrowserContext, type Dialog, type Locator, type Page } from "playwright-core";
 
 export const SCREENSHOT_DIR = path.resolve(import.meta.dirname, "../../test-results/screenshots");
 
@@ -67,4 +67,216 @@ export async function pageAs(browser: Browser, baseUrl: string, email: string | 
   const page = await context.newPage();
   if (email) await signIn(page, baseUrl, email);
   return page;
+}
+
+/**
+ * Clicks a confirmation if the page asks for one within `within` ms: a native confirm(), a dialog
+ * (role dialog/alertdialog or an open <dialog>) whose first button that is not a way back is pressed,
+ * or an inline button named like `name` (default: starts with "Yes" or "Confirm"). Returns whether it
+ * confirmed. Journeys click Delete, Submit, Clear, Return and Deactivate through `clickAndConfirm`, so
+ * they hold whether or not the page asks first.
+ */
+export async function confirmIfAsked(page: Page, opts: { within?: number; name?: RegExp } = {}): Promise<boolean> {
+  const deadline = Date.now() + (opts.within ?? 1500);
+  const back = /^(cancel|keep|no\b|back|close|not now|go back)/i;
+  const name = opts.name ?? /^(yes|confirm)\b/i;
+  while (Date.now() < deadline) {
+    const dialog = page.locator('[role="dialog"]:visible, [role="alertdialog"]:visible, dialog[open]');
+    if (await dialog.count().catch(() => 0)) {
+      const buttons = dialog.last().getByRole("button");
+      const n = await buttons.count();
+      for (let k = 0; k < n; k++) {
+        const label = ((await buttons.nth(k).textContent()) ?? "").trim();
+        if (label && !back.test(label)) {
+          await buttons.nth(k).click();
+          return true;
+        }
+      }
+    }
+    const inline = page.getByRole("button", { name });
+    if (await inline.count().catch(() => 0)) {
+      await inline.first().click();
+      return true;
+    }
+    await page.waitForTimeout(100);
+  }
+  return false;
+}
+
+/** A click on an action that may ask for confirmation first (a native confirm() is accepted too). */
+export async function clickAndConfirm(page: Page, target: Locator, opts: { within?: number; name?: RegExp } = {}): Promise<boolean> {
+  let native = false;
+  const accept = (d: Dialog) => {
+    native = true;
+    void d.accept().catch(() => {});
+  };
+  page.on("dialog", accept);
+  try {
+    await target.click();
+    if (native) return true;
+    return (await confirmIfAsked(page, opts)) || native;
+  } finally {
+    page.off("dialog", accept);
+  }
+}
+
+/** Waits until the element's text matches (the page's figures follow the inputs after a debounce). */
+export async function waitForText(target: Locator, expected: string | RegExp, timeout = 20_000): Promise<string> {
+  const deadline = Date.now() + timeout;
+  let text = "";
+  while (Date.now() < deadline) {
+    text = ((await target.textContent({ timeout: 2000 }).catch(() => "")) ?? "").replace(/\s+/g, " ").trim();
+    if (typeof expected === "string" ? text === expected : expected.test(text)) return text;
+    await new Promise((r) => setTimeout(r, 150));
+  }
+  throw new Error(`expected ${String(expected)}, the page shows "${text}"`);
+}
+
+/** Screenshots of the page as it is at 1440 and at 390 px wide (the phone width the suite checks). */
+export async function screenshotWidths(page: Page, name: string): Promise<void> {
+  const size = page.viewportSize() ?? { width: 1280, height: 900 };
+  for (const width of [1440, 390]) {
+    await page.setViewportSize({ width, height: 900 });
+    await page.waitForTimeout(150);
+    await screenshot(page, `${name}-${width}`);
+  }
+  await page.setViewportSize(size);
+}
+
+/** A text field of a form by the start of its label (labels may gain a unit or a hint after the words). */
+export function textField(page: Page, label: string | RegExp): Locator {
+  const name = typeof label === "string" ? new RegExp(`^${label.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}`) : label;
+  return page.getByRole("textbox", { name }).first();
+}
+
+/** Removes every row of a repeated section of the scenario form ("Costs: personnel", …), as a person would. */
+export async function removeAllRows(page: Page, section: string, keep = 0): Promise<void> {
+  const group = page.getByRole("group", { name: section });
+  for (let k = 0; k < 60; k++) {
+    const buttons = group.getByRole("button", { name: /^Remove/ });
+    if ((await buttons.count()) <= keep) return;
+    await buttons.last().click();
+  }
+}
+
+/** Creates a study from the studies page as its investigator does; returns the study page's URL. */
+export async function createStudyFromPage(
+  page: Page,
+  baseUrl: string,
+  study: { code: string; title: string; sponsor: string; cap: string; start: string },
+): Promise<string> {
+  await page.goto(`${baseUrl}/studies`);
+  await textField(page, "Short code").fill(study.code);
+  await textField(page, "Sponsor").fill(study.sponsor);
+  await textField(page, "Title").fill(study.title);
+  await textField(page, "Sponsor cap").fill(study.cap);
+  await page.getByLabel(/^Planned start/).fill(study.start);
+  await page.getByRole("button", { name: "Create study" }).click();
+  await page.waitForURL(/\/studies\/\d+$/);
+  await page.getByRole("heading", { level: 1, name: study.title }).waitFor();
+  return page.url();
+}
+
+/**
+ * The small plan the journeys cost by hand: two independent means, d = 0.5, alpha 0.05 two-sided,
+ * 80% power, 1:1; one site enrolling 20 a month from month 0; attrition and screen failure 0.2; one
+ * baseline visit without procedures; no personnel, no other costs. Worked figures are in
+ * journey-investigator.test.ts.
+ */
+export async function fillHandWorkedScenario(page: Page, name: string, overrides: { attrition?: string } = {}): Promise<void> {
+  await textField(page, "Scenario name").fill(name);
+  await page.getByRole("combobox", { name: "Design", exact: true }).selectOption({ label: "Two independent means" });
+  await textField(page, "Primary outcome").fill("walking distance in six minutes at 6 months");
+  await textField(page, "Alpha").fill("0.05");
+  await page.getByRole("combobox", { name: "Test", exact: true }).selectOption({ label: "Two-sided" });
+  await textField(page, "Target power").fill("0.8");
+  await textField(page, "Allocation ratio").fill("1");
+  await textField(page, "Target mean difference").fill("");
+  await textField(page, "Outcome SD").fill("");
+  await textField(page, /standardi[sz]ed effect/i).fill("0.5");
+  await textField(page, /^Sites$/).fill("1");
+  const deadline = textField(page, "Enrolment deadline");
+  if (await deadline.count()) await deadline.fill("");
+  await textField(page, "Enrolled per site per month").fill("20");
+  await textField(page, "Start-up months").fill("0");
+  await textField(page, "Months between activations").fill("0");
+  await textField(page, "Close-out months").fill("1");
+  await textField(page, "Attrition").fill(overrides.attrition ?? "0.2");
+  await textField(page, "Screen failure").fill("0.2");
+  await textField(page, "Visits a dropout attends").fill("0.5");
+  await removeAllRows(page, "Visit schedule", 1);
+  await textField(page, "Visit 1").fill("Baseline");
+  await textField(page, /^Month$/).fill("0");
+  const codes = textField(page, /^Procedures/);
+  if (await codes.count()) await codes.fill("");
+  await removeAllRows(page, "Costs: personnel");
+  await removeAllRows(page, "Costs: other direct costs");
+}
+
+/**
+ * The value a spreadsheet program would show in a cell of a workbook read with exceljs, whose formulas
+ * carry no cached results: evaluates the few functions the budget workbook uses (SUM over a range,
+ * ROUND, MIN, MAX, IF with a comparison is not needed) with cell, cross-sheet and defined-name
+ * references. `ref` is a defined name or 'Sheet'!A1. Floating point: compare money to the cent.
+ */
+export function workbookValue(wb: import("exceljs").Workbook, ref: string): number {
+  const names = new Map<string, string>();
+  const model = (wb.definedNames as unknown as { model: { name: string; ranges: string[] }[] }).model;
+  for (const d of model) if (d.ranges[0]) names.set(d.name, d.ranges[0]);
+  const colNum = (c: string) => [...c].reduce((a, ch) => a * 26 + ch.charCodeAt(0) - 64, 0);
+  const colName = (n: number) => {
+    let s = "";
+    for (; n > 0; n = Math.floor((n - 1) / 26)) s = String.fromCharCode(65 + ((n - 1) % 26)) + s;
+    return s;
+  };
+  const seen = new Map<string, number>();
+  const cell = (sheet: string, addr: string): number => {
+    const a = addr.replace(/\$/g, "");
+    const key = `${sheet}!${a}`;
+    if (seen.has(key)) return seen.get(key)!;
+    const ws = wb.getWorksheet(sheet);
+    if (!ws) throw new Error(`no sheet ${sheet}`);
+    const v = ws.getCell(a).value as unknown;
+    let out: number;
+    if (typeof v === "number") out = v;
+    else if (v && typeof v === "object" && "formula" in (v as object)) out = formula(sheet, (v as { formula: string }).formula);
+    else if (v === null || v === undefined || v === "") out = 0;
+    else out = Number(v);
+    seen.set(key, out);
+    return out;
+  };
+  const REF = /(?:'([^']+)'!)?(\$?[A-Z]{1,3}\$?\d+)(?::(\$?[A-Z]{1,3}\$?\d+))?/g;
+  const formula = (sheet: string, f: string): number => {
+    let js = f.replace(/\b[A-Z][A-Z0-9_]*\b(?!\()/g, (m) => {
+      const target = names.get(m);
+      if (!target) return m;
+      const [, sh, ad] = /^'?(.*?)'?!(.*)$/.exec(target)!;
+      return `(${cell(sh!, ad!)})`;
+    });
+    js = js.replace(REF, (_m, sh: string | undefined, a: string, b: string | undefined) => {
+      const s = sh ?? sheet;
+      if (!b) return `(${cell(s, a)})`;
+      const [, c1, r1] = /^([A-Z]+)(\d+)$/.exec(a.replace(/\$/g, ""))!;
+      const [, c2, r2] = /^([A-Z]+)(\d+)$/.exec(b.replace(/\$/g, ""))!;
+      const vals: number[] = [];
+      for (let c = colNum(c1!); c <= colNum(c2!); c++) for (let r = Number(r1); r <= Number(r2); r++) vals.push(cell(s, `${colName(c)}${r}`));
+      return `[${vals.join(",")}]`;
+    });
+    js = js.replace(/\^/g, "**");
+    const flat = (xs: unknown[]): number[] => xs.flatMap((x) => (Array.isArray(x) ? flat(x) : [Number(x)]));
+    const fns = {
+      SUM: (...xs: unknown[]) => flat(xs).reduce((a, b) => a + b, 0),
+      MIN: (...xs: unknown[]) => Math.min(...flat(xs)),
+      MAX: (...xs: unknown[]) => Math.max(...flat(xs)),
+      ROUND: (x: number, d: number) => Math.sign(x) * Math.round(Math.abs(x) * 10 ** d + 1e-7) / 10 ** d,
+    };
+    return Number(new Function(...Object.keys(fns), `return (${js});`)(...Object.values(fns)));
+  };
+  if (names.has(ref)) {
+    const [, sh, ad] = /^'?(.*?)'?!(.*)$/.exec(names.get(ref)!)!;
+    return cell(sh!, ad!);
+  }
+  const m = /^'?(.*?)'?!(.*)$/.exec(ref);
+  if (!m) throw new Error(`not a reference: ${ref}`);
+  return cell(m[1]!, m[2]!);
 }

@@ -16,6 +16,8 @@ declare module "vitest" {
     baseUrl: string;
     databasePath: string;
     serverLog: string;
+    /** Where the local mail server stores what it received (scripts/mail-server.ts, one JSON file a message). */
+    mailboxDir: string;
   }
 }
 
@@ -54,6 +56,7 @@ export async function setup(project: TestProject): Promise<void> {
   project.provide("baseUrl", baseUrl);
   project.provide("databasePath", databasePath);
   project.provide("serverLog", serverLog);
+  project.provide("mailboxDir", mail.dir);
 }
 
 export async function teardown(): Promise<void> {

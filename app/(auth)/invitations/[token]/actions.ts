@@ -5,6 +5,7 @@ import { cookies, headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { acceptInvitation } from "@/db/queries/invitations";
 import { HttpError } from "@/lib/auth/errors";
+import { PASSWORD_MIN } from "@/lib/auth/password";
 import { acceptInvitationSchema } from "@/lib/auth/schemas";
 import { SESSION_COOKIE, sessionCookieOptions } from "@/lib/auth/session-options";
 import { isHttps } from "@/lib/http/same-origin";
@@ -20,7 +21,14 @@ export async function acceptInvitationAction(_prev: unknown, formData: FormData)
   try {
     result = await acceptInvitation(token, name && password ? { name, password } : null);
   } catch (err) {
-    if (err instanceof HttpError) return submission.reply({ formErrors: [err.message], fieldErrors: err.fields });
+    if (err instanceof HttpError) {
+      // A new account needs both a name and a password: the message goes beside whichever is missing.
+      const fieldErrors =
+        err.status === 400 && err.fields
+          ? { ...(name ? {} : { name: ["Enter your name."] }), ...(password ? {} : { password: [`Choose a password of at least ${PASSWORD_MIN} characters.`] }) }
+          : err.fields;
+      return submission.reply({ formErrors: [err.message], fieldErrors });
+    }
     throw err;
   }
   if (result.sessionId) {

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
 import { HttpError } from "@/lib/auth/errors";
 import { formatMoney } from "@/lib/format/money";
+import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 
@@ -11,11 +12,12 @@ export const metadata: Metadata = { title: "Compare scenarios" };
 type Row = { label: string; values: (s: ScenarioDetail) => string };
 
 const pct = (v: number) => `${Math.round(v * 100)}%`;
+const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
 const ROWS: { section: string; rows: Row[] }[] = [
   {
     section: "Assumptions",
     rows: [
-      { label: "Design", values: (s) => s.inputs.design.design },
+      { label: "Design", values: (s) => designName(s.inputs.design.design) },
       { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
       { label: "Target power", values: (s) => String(s.inputs.design.power) },
       { label: "Target effect", values: (s) => s.results.targetEffect.toFixed(3) },
@@ -101,9 +103,9 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
                 <span className="sr-only">Row</span>
               </th>
               {list.map((s) => (
-                <th key={s.id} scope="col" className="num">
+                <th key={s.id} scope="col" className="num normal-case tracking-normal">
                   <Link href={`/studies/${studyId}/scenarios/${s.id}`}>{s.name}</Link>
-                  <span className="block text-[10px] font-normal normal-case">{s.state}</span>
+                  <span className="block text-[10px] font-normal normal-case">{STATE_LABEL[s.state]}</span>
                 </th>
               ))}
             </tr>

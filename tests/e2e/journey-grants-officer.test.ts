@@ -1,0 +1,97 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+
+/**
+ * The grants officer's review, with the investigator's side in a second browser context: return with a
+ * reason, the investigator changes an input, saves and resubmits, the grants officer clears. The
+ * figures are the hand-worked ones of journey-investigator.test.ts ($74,807.00 at attrition 0.2,
+ * $87,170.50 at 0.36; demo rate book "2027 rates").
+ */
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let pi: Page;
+let grants: Page;
+
+const STUDY = { code: "JRN-GO", title: "Steady Steps: an invented balance-training trial", sponsor: "Invented Foundation for Ageing Well", cap: "100000", start: "2028-01-01" };
+const NAME = "For the grants office";
+const REASON = "Attrition of 20% is low for a 6-month follow-up in this population; plan for 36% as in the invented audit.";
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(pi, baseUrl, "pi@demo.test");
+  await signIn(grants, baseUrl, "grants@demo.test");
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("the grants officer's journey", () => {
+  it("returns a scenario with a reason; after the investigator changes an input, saves and resubmits, clears it", async () => {
+    // The investigator prepares and submits a scenario.
+    const studyUrl = await createStudyFromPage(pi, baseUrl, STUDY);
+    await pi.getByRole("link", { name: "New scenario" }).click();
+    await pi.waitForURL(/\/scenarios\/new$/);
+    await fillHandWorkedScenario(pi, NAME);
+    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    await pi.getByRole("button", { name: "Create scenario" }).click();
+    await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
+    const scenarioUrl = pi.url().replace(/\?.*$/, "");
+    await clickAndConfirm(pi, pi.getByTestId("submit-review"));
+    await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+
+    // The grants officer finds it from the studies page and reads the same figures.
+    await grants.goto(`${baseUrl}/studies`);
+    await grants.getByRole("link", { name: STUDY.title }).click();
+    await grants.waitForURL(studyUrl);
+    const row = grants.getByRole("row").filter({ hasText: NAME });
+    expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/In review.*\$74,807/);
+    await row.getByRole("link", { name: NAME }).click();
+    await grants.waitForURL(scenarioUrl);
+    await waitForText(grants.getByTestId("result-total"), "$74,807.00");
+    await waitForText(grants.getByTestId("result-n"), "64 + 64");
+    await screenshotWidths(grants, "journey-grants-review");
+
+    // Returning without a reason is refused with a message on screen; with one, the scenario is returned.
+    await clickAndConfirm(grants, grants.getByRole("button", { name: "Return", exact: true }));
+    await grants.getByRole("alert").filter({ hasText: "Say why the scenario is returned." }).waitFor();
+    expect(await grants.getByTestId("scenario-state").textContent()).toBe("In review");
+    await grants.getByLabel("Reason for returning").fill(REASON);
+    await clickAndConfirm(grants, grants.getByRole("button", { name: "Return", exact: true }));
+    await grants.getByTestId("scenario-state").filter({ hasText: "Returned" }).waitFor();
+
+    // The investigator sees the reason, changes the input, saves (the version goes up) and resubmits.
+    await pi.reload();
+    await pi.getByText(`Returned by the grants office: ${REASON}`).waitFor();
+    expect(await pi.getByTestId("scenario-state").textContent()).toBe("Returned");
+    await screenshotWidths(pi, "journey-pi-returned");
+    await textField(pi, "Attrition").fill("0.36");
+    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await pi.getByRole("button", { name: "Save changes" }).click();
+    await pi.getByText(/· version 2$/).waitFor();
+    await pi.getByText("Saved, with its results.").waitFor();
+    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await clickAndConfirm(pi, pi.getByTestId("submit-review"));
+    await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+
+    // The grants officer sees the new figures and clears it.
+    await grants.reload();
+    await grants.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    await grants.getByText(/· version 2$/).waitFor();
+    await waitForText(grants.getByTestId("result-total"), "$87,170.50");
+    await waitForText(grants.getByTestId("result-enrolled"), "200 / 250");
+    await clickAndConfirm(grants, grants.getByTestId("clear-review"));
+    await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    expect(await grants.getByTestId("clear-review").count()).toBe(0);
+
+    // For the investigator it is now frozen.
+    await pi.reload();
+    await pi.getByText("Cleared by the grants office and frozen").waitFor();
+    expect(await pi.getByRole("button", { name: "Save changes" }).count()).toBe(0);
+    expect(await pi.getByTestId("submit-review").count()).toBe(0);
+    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+  }, 360_000);
+});
