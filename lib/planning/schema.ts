@@ -4,55 +4,66 @@
  */
 import { z } from "zod";
 import { COST_CATEGORIES } from "@/lib/costing/types";
-import { DESIGNS } from "@/lib/power/schema";
+import { percentToShare } from "@/lib/format/percent-input";
+import { DESIGNS, type Design } from "@/lib/power/schema";
 
 const n = (label: string) => z.coerce.number({ error: `${label}: enter a number.` }).refine(Number.isFinite, `${label}: enter a number.`);
 const opt = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === "" || v === null ? undefined : v), schema.optional());
 const money = (label: string) =>
   z
-    .union([z.string(), z.number()])
+    .union([z.string(), z.number()], { error: `${label}: enter dollars, like 1200 or 1,200.50.` })
     .transform((v) => String(v).trim().replace(/[$,\s]/g, ""))
     .pipe(z.string().regex(/^\d{1,11}(\.\d{1,2})?$/, `${label}: enter dollars, like 1200 or 1,200.50.`));
-const share = (label: string) => n(label).min(0, `${label}: from 0 to below 1.`).lt(1, `${label}: from 0 to below 1.`);
-const text = (label: string, max: number) => z.string().trim().max(max, `${label}: at most ${max} characters.`);
+/** A share from 0 to below 1, typed as a fraction (0.35) or as the percentage the page shows (35%). */
+const share = (label: string) =>
+  z.preprocess(percentToShare, n(label).min(0, `${label}: from 0 to below 1, like 0.35 or 35%.`).lt(1, `${label}: from 0 to below 1, like 0.35 or 35%.`));
+const asShare = <T extends z.ZodType>(schema: T) => z.preprocess(percentToShare, schema);
+const text = (label: string, max: number) => z.string({ error: `${label}: fill this in.` }).trim().max(max, `${label}: at most ${max} characters.`);
+
+/** How a means design's effect is given: as a mean difference with its SD, or directly as Cohen's d. */
+export const EFFECT_INPUTS = ["difference", "d"] as const;
 
 export const designSchema = z.object({
-  design: z.enum(DESIGNS, { error: "Choose a design." }),
-  outcome: text("Primary outcome", 300).min(3, "Describe the primary outcome."),
-  alpha: n("Alpha").gt(0, "Alpha must be above 0.").max(0.5, "Alpha must be at most 0.5."),
+  design: z.enum(DESIGNS, { error: "Design: choose one from the list." }),
+  outcome: text("Primary outcome", 300).min(3, "Primary outcome: describe it in a few words."),
+  alpha: asShare(n("Alpha").gt(0, "Alpha must be above 0, like 0.05 or 5%.").max(0.5, "Alpha must be at most 0.5.")),
   sides: z.coerce.number().pipe(z.union([z.literal(1), z.literal(2)], { error: "Test must be one- or two-sided." })),
-  power: n("Target power").gt(0.5, "Target power must be above 0.5.").lt(1, "Target power must be below 1."),
+  power: asShare(n("Target power").gt(0.5, "Target power must be above 0.5, like 0.80 or 80%.").lt(1, "Target power must be below 1, like 0.80 or 80%.")),
   allocationRatio: n("Allocation ratio").min(0.1, "Allocation ratio: 0.1 to 10.").max(10, "Allocation ratio: 0.1 to 10."),
-  effectSize: opt(n("Effect size").gt(0, "Effect size must be above 0.").max(10, "Effect size must be at most 10.")),
-  meanDifference: opt(n("Mean difference").refine((v) => v !== 0, "Mean difference must not be 0.")),
-  sd: opt(n("SD").gt(0, "SD must be above 0.")),
-  p1: opt(n("Control proportion").gt(0, "Proportions lie between 0 and 1.").lt(1, "Proportions lie between 0 and 1.")),
-  p2: opt(n("Intervention proportion").gt(0, "Proportions lie between 0 and 1.").lt(1, "Proportions lie between 0 and 1.")),
-  hazardRatio: opt(n("Hazard ratio").gt(0, "Hazard ratio must be above 0.").max(100, "Hazard ratio at most 100.")),
-  clusterSize: opt(n("Cluster size").min(1, "Cluster size at least 1.").max(100000, "Cluster size at most 100,000.")),
-  icc: opt(n("ICC").min(0, "ICC from 0 to below 1.").lt(1, "ICC from 0 to below 1.")),
-  cv: opt(n("CV of cluster size").min(0, "CV at least 0.").max(5, "CV at most 5.")),
-  controlMedian: opt(n("Control median").gt(0, "Control median must be above 0.")),
+  // Absent in scenarios stored before the choice existed: then a difference with its SD wins over d.
+  effectInput: opt(z.enum(EFFECT_INPUTS, { error: "Give the effect as: choose a mean difference and SD, or a standardized effect d." })),
+  effectSize: opt(n("Standardized effect d").gt(0, "Standardized effect d must be above 0.").max(10, "Standardized effect d must be at most 10.")),
+  meanDifference: opt(n("Target mean difference").refine((v) => v !== 0, "Target mean difference must not be 0.")),
+  sd: opt(n("Outcome SD").gt(0, "Outcome SD must be above 0.")),
+  p1: opt(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3.")),
+  p2: opt(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45.")),
+  hazardRatio: opt(n("Target hazard ratio").gt(0, "Target hazard ratio must be above 0, like 0.7.").max(100, "Target hazard ratio: at most 100.")),
+  clusterSize: opt(n("Mean cluster size").min(1, "Mean cluster size: at least 1.").max(100000, "Mean cluster size: at most 100,000.")),
+  icc: opt(n("ICC").min(0, "ICC: from 0 to below 1, like 0.05.").lt(1, "ICC: from 0 to below 1, like 0.05.")),
+  cv: opt(n("CV of cluster size").min(0, "CV of cluster size: at least 0.").max(5, "CV of cluster size: at most 5.")),
+  controlMedian: opt(n("Control median (months)").gt(0, "Control median (months) must be above 0.")),
+  // Time to event: derived from the recruitment plan (lib/planning/accrual.ts); a stored value is only the search's starting point.
   accrualMonths: opt(n("Accrual months").gt(0, "Accrual months must be above 0.")),
-  followUpMonths: opt(n("Follow-up months").min(0, "Follow-up months must be 0 or more.")),
+  followUpMonths: opt(n("Further follow-up (months)").min(0, "Further follow-up (months): 0 or more.")),
   targetRationale: text("Where the target effect comes from", 1000).default(""),
   sdSource: text("Where the SD or control proportion comes from", 500).default(""),
 });
 
 export const recruitmentSchema = z.object({
-  sites: n("Sites").int("Sites: a whole number.").min(1, "At least one site.").max(500, "At most 500 sites."),
-  maxEnrolmentMonths: opt(n("Enrolment deadline").int("Months: a whole number.").min(1, "At least 1 month.").max(240, "At most 240 months.")),
+  // Required for individually randomised designs only (see scenarioInputsSchema): in a cluster design each cluster is a site.
+  sites: opt(n("Sites").int("Sites: a whole number.").min(1, "Sites: at least 1.").max(500, "Sites: at most 500.")),
+  maxEnrolmentMonths: opt(n("Enrolment deadline (months)").int("Enrolment deadline (months): a whole number.").min(1, "Enrolment deadline (months): at least 1.").max(240, "Enrolment deadline (months): at most 240.")),
   startupMonths: n("Start-up months").int("Months: a whole number.").min(0, "0 or more.").max(60, "At most 60."),
   staggerMonths: n("Months between site activations").int("Months: a whole number.").min(0, "0 or more.").max(36, "At most 36."),
   ratePerSiteMonth: n("Enrolment rate").gt(0, "Enrolment rate must be above 0.").max(1000, "At most 1,000 per site per month."),
   closeoutMonths: n("Close-out months").int("Months: a whole number.").min(0, "0 or more.").max(24, "At most 24."),
   attrition: share("Attrition"),
   screenFailure: share("Screen failure"),
-  dropoutVisitShare: share("Share of visits a dropout attends").default(0.5),
+  dropoutVisitShare: share("Visits a dropout attends").default(0.5),
 });
 
 export const visitSchema = z.object({
-  name: text("Visit name", 60).min(1, "Name the visit."),
+  name: text("Visit name", 60).min(1, "Visit name: fill this in."),
   month: n("Visit month").int("Month: a whole number.").min(0, "Month 0 or later.").max(240, "At most month 240."),
   // Typed as "CODE, CODE" in the form; stored (and accepted over the API) as a list.
   procedures: z
@@ -105,18 +116,68 @@ export const pilotSchema = z.object({
   fileName: z.string().max(120),
 });
 
-export const scenarioInputsSchema = z.object({
-  design: designSchema,
-  recruitment: recruitmentSchema,
-  visits: z.array(visitSchema).max(60, "At most 60 visits.").default([]),
-  personnel: z.array(personnelSchema).max(40, "At most 40 people.").default([]),
-  other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
-  pilot: pilotSchema.optional(),
-});
+export const isClusterDesign = (design: Design) => design.startsWith("cluster-");
+export const isMeansDesign = (design: Design) => design === "two-means" || design === "one-mean" || design === "cluster-two-means";
+export const isProportionsDesign = (design: Design) => design.endsWith("proportions");
+
+type Issue = { path: (string | number)[]; message: string };
+
+/**
+ * The fields each design needs. The form shows only the chosen design's fields, so what it asks for is
+ * checked here, against the design, and never a field the page hides (a cluster design has no Sites).
+ * Messages name the field as the form labels it. Exported for the unit tests.
+ */
+export function designRequirements(v: { design?: Partial<z.infer<typeof designSchema>>; recruitment?: Partial<z.infer<typeof recruitmentSchema>>; pilot?: { kind: string } }): Issue[] {
+  const d = v.design;
+  if (!d?.design || !DESIGNS.includes(d.design)) return [];
+  const out: Issue[] = [];
+  const need = (field: string, value: unknown, message: string) => {
+    if (value === undefined) out.push({ path: ["design", field], message });
+  };
+  const design = d.design;
+  if (isMeansDesign(design)) {
+    const pilotSd = v.pilot?.kind === "sd";
+    if (d.effectInput === "d") need("effectSize", d.effectSize, "Standardized effect d: enter a number above 0, like 0.4.");
+    else if (d.effectInput === "difference" || d.effectSize === undefined) {
+      need("meanDifference", d.meanDifference, "Target mean difference: enter it in outcome units, like 5.");
+      if (!pilotSd) need("sd", d.sd, "Outcome SD: enter the planning SD, like 10.");
+    }
+  }
+  if (isProportionsDesign(design)) {
+    if (v.pilot?.kind !== "proportion") need("p1", d.p1, "Control proportion (p1): enter a value between 0 and 1, like 0.3.");
+    need("p2", d.p2, "Target intervention proportion (p2): enter a value between 0 and 1, like 0.45.");
+    if (d.p1 !== undefined && d.p1 === d.p2) out.push({ path: ["design", "p2"], message: "Target intervention proportion (p2) must differ from the control proportion (p1)." });
+  }
+  if (isClusterDesign(design)) {
+    need("clusterSize", d.clusterSize, "Mean cluster size: enter the participants per cluster, like 20.");
+    need("icc", d.icc, "ICC: enter a value from 0 to below 1, like 0.05.");
+  } else if (v.recruitment && v.recruitment.sites === undefined) {
+    out.push({ path: ["recruitment", "sites"], message: "Sites: enter the number of sites, a whole number like 4." });
+  }
+  if (design === "time-to-event") {
+    need("hazardRatio", d.hazardRatio, "Target hazard ratio: enter a value above 0, like 0.7.");
+    need("controlMedian", d.controlMedian, "Control median (months): enter the median time to event in the control arm, like 12.");
+    need("followUpMonths", d.followUpMonths, "Further follow-up (months): enter the months of follow-up after the last enrolment, like 12.");
+  }
+  return out;
+}
+
+export const scenarioInputsSchema = z
+  .object({
+    design: designSchema,
+    recruitment: recruitmentSchema,
+    visits: z.array(visitSchema).max(60, "At most 60 visits.").default([]),
+    personnel: z.array(personnelSchema).max(40, "At most 40 people.").default([]),
+    other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
+    pilot: pilotSchema.optional(),
+  })
+  .superRefine((v, ctx) => {
+    for (const issue of designRequirements(v)) ctx.addIssue({ code: "custom", ...issue });
+  });
 
 export type ScenarioInputs = z.infer<typeof scenarioInputsSchema>;
 
 export const scenarioFormSchema = z.object({
-  name: text("Scenario name", 80).min(2, "Name the scenario."),
+  name: z.string({ error: "Scenario name: type a name of 2 to 80 characters." }).trim().max(80, "Scenario name: at most 80 characters.").min(2, "Scenario name: type a name of 2 to 80 characters."),
   inputs: scenarioInputsSchema,
 });
