@@ -5,7 +5,8 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
 import { createDraftAction } from "@/app/(workspace)/rate-book/actions";
 import { newDraftSchema } from "@/lib/rate-book/patch";
-import { describedBy, Field, FormErrors } from "../form/field";
+import { ErrorSummary } from "../form/error-summary";
+import { describedBy, Field } from "../form/field";
 import { keptSubmit } from "../form/kept-submit";
 
 export function NewDraftForm() {
@@ -19,7 +20,7 @@ export function NewDraftForm() {
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 sm:grid-cols-3 sm:items-end" noValidate>
       <div className="sm:col-span-3">
-        <FormErrors errors={form.errors} />
+        <ErrorSummary formId={form.id} errors={form.allErrors} />
       </div>
       <Field id={fields.label.id} label="Label" hint="e.g. 2028 rates" errors={fields.label.errors}>
         <input {...getInputProps(fields.label, { type: "text" })} key={fields.label.key} className="input" aria-describedby={describedBy(fields.label.id, true, fields.label.errors)} />
