@@ -6,7 +6,7 @@ import { useActionState, useEffect, useRef, useState, type ChangeEvent, type Rea
 import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
-import { isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { designSchema, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { designTemplate } from "@/lib/planning/templates";
 import { DESIGN_NAMES } from "@/lib/power/design-names";
 import type { Design } from "@/lib/power/schema";
@@ -237,7 +237,9 @@ export function ScenarioForm({
     if (!(next in DESIGN_NAMES)) return;
     const keep = { alpha: str(d.alpha.value), sides: str(d.sides.value), power: str(d.power.value), allocationRatio: str(d.allocationRatio.value) };
     const t = designTemplate(next);
-    form.update({ name: i.design.name, value: { ...strings(t), ...Object.fromEntries(Object.entries(keep).filter(([, v]) => v !== "")), effectInput: "difference" } });
+    // Every design field is given (empty when the template has none), so that the other design's values are cleared on the page too.
+    const cleared = Object.fromEntries(Object.keys(designSchema.shape).map((k) => [k, ""]));
+    form.update({ name: i.design.name, value: { ...cleared, ...strings(t), ...Object.fromEntries(Object.entries(keep).filter(([, v]) => v !== "")), effectInput: "difference" } });
     setEffectInput("difference");
     setStart(`a blank ${DESIGN_NAMES[next]} template (example values, marked “Example:”, to replace)`);
     onChange();

@@ -29,7 +29,8 @@ export const designSchema = z.object({
   alpha: asShare(n("Alpha").gt(0, "Alpha must be above 0, like 0.05 or 5%.").max(0.5, "Alpha must be at most 0.5.")),
   sides: z.coerce.number().pipe(z.union([z.literal(1), z.literal(2)], { error: "Test must be one- or two-sided." })),
   power: asShare(n("Target power").gt(0.5, "Target power must be above 0.5, like 0.80 or 80%.").lt(1, "Target power must be below 1, like 0.80 or 80%.")),
-  allocationRatio: n("Allocation ratio").min(0.1, "Allocation ratio: 0.1 to 10.").max(10, "Allocation ratio: 0.1 to 10."),
+  // Two-arm designs only (see designRequirements): one mean has no second arm, and the form hides the field.
+  allocationRatio: opt(n("Allocation ratio (n2 / n1)").min(0.1, "Allocation ratio (n2 / n1): 0.1 to 10.").max(10, "Allocation ratio (n2 / n1): 0.1 to 10.")),
   // Absent in scenarios stored before the choice existed: then a difference with its SD wins over d.
   effectInput: opt(z.enum(EFFECT_INPUTS, { error: "Give the effect as: choose a mean difference and SD, or a standardized effect d." })),
   effectSize: opt(n("Standardized effect d").gt(0, "Standardized effect d must be above 0.").max(10, "Standardized effect d must be at most 10.")),
@@ -135,6 +136,7 @@ export function designRequirements(v: { design?: Partial<z.infer<typeof designSc
     if (value === undefined) out.push({ path: ["design", field], message });
   };
   const design = d.design;
+  if (design !== "one-mean") need("allocationRatio", d.allocationRatio, "Allocation ratio (n2 / n1): enter it, like 1 for equal arms.");
   if (isMeansDesign(design)) {
     const pilotSd = v.pilot?.kind === "sd";
     if (d.effectInput === "d") need("effectSize", d.effectSize, "Standardized effect d: enter a number above 0, like 0.4.");

@@ -38,7 +38,7 @@ describe("hidden fields are never required", () => {
   it("each design's template parses, and computes, from the strings the form posts (no Sites for cluster designs)", () => {
     for (const design of DESIGNS) {
       const t = scenarioTemplate(design);
-      const posted = asPosted(t, design.startsWith("cluster-") ? ["sites"] : []);
+      const posted = asPosted(t, [...(design.startsWith("cluster-") ? ["sites"] : []), ...(design === "one-mean" ? ["allocationRatio"] : [])]);
       const r = scenarioFormSchema.safeParse(posted);
       expect(r.success, `${design}: ${JSON.stringify(issuesOf(r))}`).toBe(true);
       const results = computeScenario(r.data!.inputs, rates, study);
@@ -51,6 +51,14 @@ describe("hidden fields are never required", () => {
     expect(issuesOf(r)).toEqual({
       "design.clusterSize": "Mean cluster size: enter the participants per cluster, like 20.",
       "design.icc": "ICC: enter a value from 0 to below 1, like 0.05.",
+    });
+  });
+  it("one mean saves without the allocation ratio the form hides; two-arm designs ask for it by its label", () => {
+    const t = scenarioTemplate("one-mean");
+    expect(scenarioInputsSchema.safeParse({ ...t, design: { ...t.design, allocationRatio: undefined } }).success).toBe(true);
+    const two = scenarioTemplate("two-proportions");
+    expect(issuesOf(scenarioInputsSchema.safeParse({ ...two, design: { ...two.design, allocationRatio: undefined } }))).toEqual({
+      "design.allocationRatio": "Allocation ratio (n2 / n1): enter it, like 1 for equal arms.",
     });
   });
   it("an empty scenario name says what to type, not the machine's words", () => {
