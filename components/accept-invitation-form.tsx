@@ -5,7 +5,8 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
 import { acceptInvitationSchema } from "@/lib/auth/schemas";
 import { acceptInvitationAction } from "@/app/(auth)/invitations/[token]/actions";
-import { describedBy, Field, FormErrors } from "./form/field";
+import { ErrorSummary } from "./form/error-summary";
+import { describedBy, Field } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
 
 export function AcceptInvitationForm({ token, newAccount }: { token: string; newAccount: boolean }) {
@@ -21,7 +22,7 @@ export function AcceptInvitationForm({ token, newAccount }: { token: string; new
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="flex flex-col gap-4" noValidate>
       <input type="hidden" name="token" value={token} />
-      <FormErrors errors={form.errors} />
+      <ErrorSummary formId={form.id} errors={form.allErrors} />
       {newAccount ? (
         <>
           <Field id={fields.name.id} label="Your name" errors={fields.name.errors}>

@@ -6,7 +6,8 @@ import { useActionState } from "react";
 import { changeRoleAction, createAccountAction, setActiveAction } from "@/app/(workspace)/admin/accounts/actions";
 import { ACCOUNT_ROLES, ROLE_LABELS, type AccountRole } from "@/lib/auth/roles";
 import { createAccountSchema } from "@/lib/auth/schemas";
-import { describedBy, Field, FormErrors } from "./form/field";
+import { ErrorSummary } from "./form/error-summary";
+import { describedBy, Field } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
 import { ConfirmButton } from "./confirm-button";
 
@@ -21,7 +22,7 @@ export function CreateAccountForm() {
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
       <div className="md:col-span-2">
-        <FormErrors errors={form.errors} />
+        <ErrorSummary formId={form.id} errors={form.allErrors} />
         {lastResult?.status === "success" ? (
           <p className="notice" role="status">
             Account created.

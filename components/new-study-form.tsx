@@ -5,7 +5,8 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
 import { createStudyAction } from "@/app/(workspace)/studies/actions";
 import { studyCreateSchema } from "@/lib/studies/schema";
-import { describedBy, Field, FormErrors } from "./form/field";
+import { ErrorSummary } from "./form/error-summary";
+import { describedBy, Field } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
 
 export function NewStudyForm() {
@@ -27,7 +28,7 @@ export function NewStudyForm() {
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 md:grid-cols-2" noValidate>
       <div className="md:col-span-2">
-        <FormErrors errors={form.errors} />
+        <ErrorSummary formId={form.id} errors={form.allErrors} />
       </div>
       {text("code", "Short code", "2–16 letters, digits or hyphens")}
       {text("sponsor", "Sponsor")}

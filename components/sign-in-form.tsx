@@ -5,7 +5,8 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
 import { signInAction } from "@/app/(auth)/sign-in/actions";
 import { signInSchema } from "@/lib/auth/schemas";
-import { describedBy, Field, FormErrors } from "./form/field";
+import { ErrorSummary } from "./form/error-summary";
+import { describedBy, Field } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
 
 export function SignInForm() {
@@ -18,7 +19,7 @@ export function SignInForm() {
   });
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="flex flex-col gap-4" noValidate>
-      <FormErrors errors={form.errors} />
+      <ErrorSummary formId={form.id} errors={form.allErrors} />
       <Field id={fields.email.id} label="E-mail" errors={fields.email.errors}>
         <input
           {...getInputProps(fields.email, { type: "email" })}

@@ -5,7 +5,8 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
 import { createDraftAction } from "@/app/(workspace)/rate-book/actions";
 import { newDraftSchema } from "@/lib/rate-book/patch";
-import { describedBy, Field, FormErrors } from "../form/field";
+import { ErrorSummary } from "../form/error-summary";
+import { describedBy, Field } from "../form/field";
 import { keptSubmit } from "../form/kept-submit";
 
 export type DraftSource = { id: number; label: string; note: string };
@@ -23,7 +24,7 @@ export function NewDraftForm({ sources, defaultSource }: { sources: DraftSource[
   return (
     <form {...getFormProps(form)} onSubmit={keptSubmit(form.onSubmit, action)} action={action} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4 lg:items-start" noValidate>
       <div className="sm:col-span-2 lg:col-span-4">
-        <FormErrors errors={form.errors} />
+        <ErrorSummary formId={form.id} errors={form.allErrors} />
       </div>
       <Field id={fields.basedOn.id} label="Start from" hint="Its rates are copied into the draft" errors={fields.basedOn.errors}>
         <select {...getSelectProps(fields.basedOn)} key={fields.basedOn.key} className="input" aria-describedby={describedBy(fields.basedOn.id, true, fields.basedOn.errors)}>

@@ -2,27 +2,21 @@
 
 import { getFormProps, getInputProps, getSelectProps, getTextareaProps, useForm, type FieldMetadata } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { useActionState, useEffect, useRef, useState, type ReactNode } from "react";
+import { useActionState, useEffect, useRef, useState, type ChangeEvent, type ReactNode } from "react";
 import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
-import { scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
-import { FormErrors } from "../form/field";
+import { designSchema, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { designTemplate } from "@/lib/planning/templates";
+import { DESIGN_NAMES } from "@/lib/power/design-names";
+import type { Design } from "@/lib/power/schema";
+import { ErrorSummary } from "../form/error-summary";
 import { snapshotField } from "../form/field-snapshot";
 import { keptSubmit } from "../form/kept-submit";
 import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { PilotUpload } from "./pilot-upload";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
-
-const DESIGN_LABELS: Record<string, string> = {
-  "two-means": "Two independent means",
-  "one-mean": "One mean or paired differences",
-  "two-proportions": "Two proportions",
-  "cluster-two-means": "Cluster-randomised, means",
-  "cluster-two-proportions": "Cluster-randomised, proportions",
-  "time-to-event": "Time to event (log-rank)",
-};
 
 const SIDES = [
   ["2", "Two-sided"],
@@ -34,13 +28,20 @@ const EFFORT_RUNS = [
 ] as const;
 const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
 
+const str = (v: unknown) => (v === undefined || v === null ? "" : String(v));
+const strings = (o: object) => Object.fromEntries(Object.entries(o).map(([k, v]) => [k, str(v)]));
+
+/** How a stored means scenario gave its effect: scenarios saved before the choice preferred the difference with its SD. */
+function effectInputOf(d: ScenarioInputs["design"]): "difference" | "d" {
+  return d.effectInput ?? (d.meanDifference === undefined && d.effectSize !== undefined ? "d" : "difference");
+}
+
 /** The stored inputs as the form's strings. */
 function toFormValues(i: ScenarioInputs) {
-  const s = (v: unknown) => (v === undefined || v === null ? "" : String(v));
   return {
-    design: Object.fromEntries(Object.entries(i.design).map(([k, v]) => [k, s(v)])),
-    recruitment: Object.fromEntries(Object.entries(i.recruitment).map(([k, v]) => [k, s(v)])),
-    visits: i.visits.map((v) => ({ name: v.name, month: s(v.month), procedures: v.procedures.join(", ") })),
+    design: { ...strings(i.design), effectInput: effectInputOf(i.design) },
+    recruitment: strings(i.recruitment),
+    visits: i.visits.map((v) => ({ name: v.name, month: str(v.month), procedures: v.procedures.join(", ") })),
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
   };
@@ -71,12 +72,22 @@ function Text({ meta: live, label, hint, wide }: { meta: FieldMetadata<unknown>;
 }
 
 /** A labelled select; `options` are [value, label] pairs. */
-function Choice({ meta: live, label, options }: { meta: FieldMetadata<unknown>; label: string; options: readonly (readonly [string, string])[] }) {
+function Choice({
+  meta: live,
+  label,
+  options,
+  onChange,
+}: {
+  meta: FieldMetadata<unknown>;
+  label: string;
+  options: readonly (readonly [string, string])[];
+  onChange?: (event: ChangeEvent<HTMLSelectElement>) => void;
+}) {
   const meta = snapshotField(live);
   return (
     <div className="field">
       <label htmlFor={meta.id}>{label}</label>
-      <select {...getSelectProps(meta as FieldMetadata<string>)} key={meta.key} className="input">
+      <select {...getSelectProps(meta as FieldMetadata<string>)} key={meta.key} className="input" onChange={onChange}>
         {options.map(([v, l]) => (
           <option key={v} value={v}>
             {l}
@@ -93,7 +104,11 @@ function Rationale({ meta: live }: { meta: FieldMetadata<unknown> }) {
     <div className="field sm:col-span-2">
       <label htmlFor={meta.id}>Where the target effect comes from</label>
       <textarea {...getTextareaProps(meta as FieldMetadata<string>)} key={meta.key} rows={2} className="input" />
-      {meta.errors ? <span className="error">{meta.errors.join(" ")}</span> : null}
+      {meta.errors ? (
+        <span id={`${meta.id}-error`} className="error">
+          {meta.errors.join(" ")}
+        </span>
+      ) : null}
     </div>
   );
 }
@@ -109,6 +124,23 @@ function Section({ title, children, id }: { title: string; children: ReactNode; 
   );
 }
 
+/** Inputs in a stable shape for comparing what is on the form with what is saved (the derived accrual and a pilot are not typed). */
+function canonical(i: ScenarioInputs): string {
+  const sort = (v: unknown): unknown =>
+    Array.isArray(v) ? v.map(sort) : v && typeof v === "object" ? Object.fromEntries(Object.entries(v).filter(([, x]) => x !== undefined).sort(([a], [b]) => a.localeCompare(b)).map(([k, x]) => [k, sort(x)])) : v;
+  const { pilot: _pilot, ...rest } = i;
+  const { accrualMonths: _a, effectInput: _e, ...design } = i.design;
+  return JSON.stringify(sort({ ...rest, design }));
+}
+
+/** The label of a form field as the page shows it (conform's ids are `${formId}-${name}`). */
+function labelOnPage(formId: string, name: string): string {
+  const el = typeof document === "undefined" ? null : (document.getElementById(`${formId}-${name}`) as HTMLInputElement | null);
+  return el?.labels?.[0]?.textContent?.trim() || name.split(".").pop() || name;
+}
+
+const fmtNumber = (x: number, digits = 3) => Number(x.toFixed(digits)).toLocaleString("en-US", { maximumFractionDigits: digits });
+
 export function ScenarioForm({
   studyId,
   scenarioId,
@@ -118,6 +150,7 @@ export function ScenarioForm({
   initialResults,
   sponsorCap,
   fringeCategories,
+  startedFrom,
 }: {
   studyId: number;
   scenarioId?: number;
@@ -127,6 +160,8 @@ export function ScenarioForm({
   initialResults: ScenarioResults | null;
   sponsorCap: string | null;
   fringeCategories: string[];
+  /** New scenarios: what the form was filled from, said on the page ("a blank … template", "a copy of …"). */
+  startedFrom?: string;
 }) {
   const [lastResult, action, pending] = useActionState(saveScenarioAction, undefined);
   const [form, fields] = useForm({
@@ -139,10 +174,14 @@ export function ScenarioForm({
   const i = fields.inputs.getFieldset();
   const d = i.design.getFieldset();
   const r = i.recruitment.getFieldset();
-  const design = (d.design.value as string | undefined) ?? inputs.design.design;
+  const design = ((d.design.value as string | undefined) ?? inputs.design.design) as Design;
+  const [effectInput, setEffectInput] = useState<"difference" | "d">(effectInputOf(inputs.design));
+  const [start, setStart] = useState(startedFrom ?? null);
 
   // The results panel follows the assumptions: valid inputs are previewed, debounced, without saving.
   const [live, setLive] = useState<ScenarioInputs>(inputs);
+  // The first field that stops the current inputs from being computed, as the page labels it.
+  const [blocked, setBlocked] = useState<{ label: string; message: string } | null>(null);
   const [preview, setPreview] = useState<{ results: ScenarioResults | null; error: string | null; busy: boolean }>({ results: initialResults, error: null, busy: false });
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const formRef = useRef<HTMLFormElement>(null);
@@ -151,9 +190,24 @@ export function ScenarioForm({
     timer.current = setTimeout(() => {
       if (!formRef.current) return;
       const parsed = parseWithZod(new FormData(formRef.current), { schema: scenarioFormSchema });
-      if (parsed.status === "success") setLive(parsed.value.inputs);
+      if (parsed.status === "success") {
+        setBlocked(null);
+        setLive(parsed.value.inputs);
+        return;
+      }
+      const first = Object.entries(parsed.error ?? {}).find(([k, m]) => k.startsWith("inputs.") && m?.length);
+      if (first) setBlocked({ label: labelOnPage(form.id, first[0]), message: first[1]![0]! });
+      else {
+        // Only the name is wrong: the figures still follow the inputs.
+        setBlocked(null);
+        const inputsOnly = parseWithZod(new FormData(formRef.current), { schema: scenarioFormSchema.pick({ inputs: true }) });
+        if (inputsOnly.status === "success") setLive(inputsOnly.value.inputs);
+      }
     }, 400);
   };
+  useEffect(() => () => {
+    if (timer.current) clearTimeout(timer.current);
+  }, []);
   const first = useRef(true);
   useEffect(() => {
     if (first.current) {
@@ -173,12 +227,43 @@ export function ScenarioForm({
     return () => ctl.abort();
   }, [live, studyId, initialResults]);
 
+  /**
+   * A new scenario's design changed: fill that design's fields from its template (example values,
+   * marked "Example:") and clear the other design's words; alpha, test, power and allocation stay.
+   */
+  const onDesignChange = (event: ChangeEvent<HTMLSelectElement>) => {
+    if (scenarioId) return;
+    const next = event.target.value as Design;
+    if (!(next in DESIGN_NAMES)) return;
+    const keep = { alpha: str(d.alpha.value), sides: str(d.sides.value), power: str(d.power.value), allocationRatio: str(d.allocationRatio.value) };
+    const t = designTemplate(next);
+    // Every design field is given (empty when the template has none), so that the other design's values are cleared on the page too.
+    const cleared = Object.fromEntries(Object.keys(designSchema.shape).map((k) => [k, ""]));
+    form.update({ name: i.design.name, value: { ...cleared, ...strings(t), ...Object.fromEntries(Object.entries(keep).filter(([, v]) => v !== "")), effectInput: "difference" } });
+    setEffectInput("difference");
+    setStart(`a blank ${DESIGN_NAMES[next]} template (example values, marked “Example:”, to replace)`);
+    onChange();
+  };
+
   const visits = i.visits.getFieldList();
   const personnel = i.personnel.getFieldList();
   const other = i.other.getFieldList();
-  const means = design === "two-means" || design === "one-mean" || design === "cluster-two-means";
-  const proportions = design.endsWith("proportions");
-  const cluster = design.startsWith("cluster-");
+  const means = isMeansDesign(design);
+  const proportions = isProportionsDesign(design);
+  const cluster = isClusterDesign(design);
+
+  // The effect's other form, computed from the one given (read-only).
+  const mdValue = Number(d.meanDifference.value);
+  const sdValue = Number(d.sd.value);
+  const dValue = Number(d.effectSize.value);
+  const hasMd = d.meanDifference.value !== undefined && d.meanDifference.value !== "" && Number.isFinite(mdValue) && mdValue !== 0;
+  const hasSd = d.sd.value !== undefined && d.sd.value !== "" && Number.isFinite(sdValue) && sdValue > 0;
+  const hasD = d.effectSize.value !== undefined && d.effectSize.value !== "" && Number.isFinite(dValue) && dValue > 0;
+
+  // What the aside's figures are: saved, a preview of unsaved changes, or out of date.
+  const saved = scenarioId !== undefined && canonical(live) === canonical(inputs);
+  const stale = blocked !== null || preview.error !== null;
+  const accrual = preview.results?.accrual;
 
   return (
     <ScenarioIdContext value={scenarioId ?? null}>
@@ -196,35 +281,80 @@ export function ScenarioForm({
         <input type="hidden" name="studyId" value={studyId} />
         {scenarioId ? <input type="hidden" name="scenarioId" value={scenarioId} /> : null}
         {version ? <input type="hidden" name="version" value={version} /> : null}
-        <FormErrors errors={form.errors} />
+        {start && !scenarioId ? (
+          <p className="notice" role="status" data-testid="started-from">
+            Started from {start}.
+          </p>
+        ) : null}
+        <ErrorSummary formId={form.id} errors={form.allErrors} />
         <div className="card grid gap-4 sm:grid-cols-2">
           <Text meta={fields.name} label="Scenario name" wide />
         </div>
         <Section title="Design" id="sec-design">
           <div className="grid gap-4 sm:grid-cols-2">
-            <Choice meta={d.design} label="Design" options={Object.entries(DESIGN_LABELS)} />
+            <Choice meta={d.design} label="Design" options={Object.entries(DESIGN_NAMES)} onChange={onDesignChange} />
             <Text meta={d.outcome} label="Primary outcome" />
-            <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05" />
+            <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05 or 5%" />
             <Choice meta={d.sides} label="Test" options={SIDES} />
-            <Text meta={d.power} label="Target power" hint="e.g. 0.80 or 0.90" />
+            <Text meta={d.power} label="Target power" hint="e.g. 0.80 or 80%" />
             {design !== "one-mean" ? <Text meta={d.allocationRatio} label="Allocation ratio (n2 / n1)" /> : null}
             {means ? (
               <>
-                <Text meta={d.meanDifference} label="Target mean difference" hint="In outcome units; or leave empty and give d" />
-                <Text meta={d.sd} label="Outcome SD" hint="Planning SD (a pilot's upper limit is safer)" />
-                <Text meta={d.effectSize} label="Or: standardized effect d" hint="Used when the difference is empty" />
+                <fieldset className="field min-w-0 sm:col-span-2">
+                  <legend className="mb-1">Give the effect as</legend>
+                  <div className="flex flex-wrap gap-x-5 gap-y-1 text-sm">
+                    {(
+                      [
+                        ["difference", "a mean difference and SD"],
+                        ["d", "a standardized effect d"],
+                      ] as const
+                    ).map(([value, text]) => (
+                      <label key={value} className="flex items-center gap-1.5">
+                        <input
+                          type="radio"
+                          name={d.effectInput.name}
+                          value={value}
+                          checked={effectInput === value}
+                          onChange={() => setEffectInput(value)}
+                        />
+                        {text}
+                      </label>
+                    ))}
+                  </div>
+                </fieldset>
+                {effectInput === "difference" ? (
+                  <>
+                    <Text meta={d.meanDifference} label="Target mean difference" hint="In outcome units" />
+                    <Text meta={d.sd} label="Outcome SD" hint="Planning SD (a pilot's upper limit is safer)" />
+                    <p className="text-sm text-ink-soft sm:col-span-2" data-testid="effect-computed" aria-live="polite">
+                      Standardized effect d (computed, |difference| ÷ SD):{" "}
+                      <span className="num text-ink">{hasMd && hasSd ? fmtNumber(Math.abs(mdValue) / sdValue) : "—"}</span>
+                      {hasMd && hasSd ? null : " — give the difference and the SD to see it."}
+                    </p>
+                  </>
+                ) : (
+                  <>
+                    <Text meta={d.effectSize} label="Standardized effect d" hint="Cohen's d, e.g. 0.4" />
+                    <Text meta={d.sd} label="Outcome SD" hint="Optional: shows d in outcome units" />
+                    <p className="text-sm text-ink-soft sm:col-span-2" data-testid="effect-computed" aria-live="polite">
+                      As a mean difference (computed, d × SD):{" "}
+                      <span className="num text-ink">{hasD && hasSd ? fmtNumber(dValue * sdValue) : "—"}</span>
+                      {hasD && hasSd ? " outcome units" : " — give d and an SD to see it."}
+                    </p>
+                  </>
+                )}
               </>
             ) : null}
             {proportions ? (
               <>
-                <Text meta={d.p1} label="Control proportion (p1)" />
-                <Text meta={d.p2} label="Target intervention proportion (p2)" />
+                <Text meta={d.p1} label="Control proportion (p1)" hint="e.g. 0.3" />
+                <Text meta={d.p2} label="Target intervention proportion (p2)" hint="e.g. 0.45" />
               </>
             ) : null}
             {cluster ? (
               <>
                 <Text meta={d.clusterSize} label="Mean cluster size" />
-                <Text meta={d.icc} label="ICC" hint="Intracluster correlation" />
+                <Text meta={d.icc} label="ICC" hint="Intracluster correlation, e.g. 0.05" />
                 <Text meta={d.cv} label="CV of cluster size" hint="0 for equal clusters" />
               </>
             ) : null}
@@ -232,8 +362,18 @@ export function ScenarioForm({
               <>
                 <Text meta={d.hazardRatio} label="Target hazard ratio" />
                 <Text meta={d.controlMedian} label="Control median (months)" />
-                <Text meta={d.accrualMonths} label="Accrual (months)" />
-                <Text meta={d.followUpMonths} label="Further follow-up (months)" />
+                <Text meta={d.followUpMonths} label="Further follow-up (months)" hint="After the last participant is enrolled" />
+                <div className="field" data-testid="accrual-computed">
+                  <span>Accrual (months)</span>
+                  <span className="num py-2 text-ink">{accrual && !stale ? accrual.accrualMonths : "—"}</span>
+                  <span className="hint">
+                    {accrual && !stale
+                      ? accrual.settled
+                        ? "Computed: the months the recruitment plan takes to enrol this sample."
+                        : `Computed: enrolment takes ${accrual.enrolMonths} months; in whole months no accrual matches its own enrolment exactly, and the longer enrolment only adds follow-up.`
+                      : "Computed from the recruitment plan once the inputs can be computed."}
+                  </span>
+                </div>
               </>
             ) : null}
             <Rationale meta={d.targetRationale} />
@@ -250,13 +390,13 @@ export function ScenarioForm({
             <Text meta={r.startupMonths} label="Start-up months per site" />
             <Text meta={r.staggerMonths} label="Months between activations" />
             <Text meta={r.closeoutMonths} label="Close-out months" />
-            <Text meta={r.attrition} label="Attrition" hint="Share lost after enrolment" />
-            <Text meta={r.screenFailure} label="Screen failure" hint="Share of those screened not enrolled" />
-            <Text meta={r.dropoutVisitShare} label="Visits a dropout attends" hint="Share of the schedule, e.g. 0.5" />
+            <Text meta={r.attrition} label="Attrition" hint="Share lost after enrolment: 0.15 or 15%" />
+            <Text meta={r.screenFailure} label="Screen failure" hint="Share of those screened not enrolled: 0.35 or 35%" />
+            <Text meta={r.dropoutVisitShare} label="Visits a dropout attends" hint="Share of the schedule: 0.5 or 50%" />
           </div>
           {cluster ? <p className="text-sm text-ink-soft">In a cluster design each cluster is a site; the number of sites follows from the clusters needed.</p> : null}
+          {design === "time-to-event" ? <p className="text-sm text-ink-soft">The months this plan takes to enrol are the accrual the power calculation uses.</p> : null}
         </Section>
-
         <Section title="Visit schedule" id="sec-visits">
           {visits.map((v, idx) => {
             const f = v.getFieldset();
@@ -332,14 +472,26 @@ export function ScenarioForm({
       <aside className="flex flex-col gap-4 xl:col-span-2" aria-live="polite">
         <section className="card flex flex-col gap-3" aria-labelledby="live-results" aria-busy={preview.busy}>
           <h2 id="live-results">
-            Results {preview.busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : <span className="text-sm font-normal text-ink-soft">(not saved until you save)</span>}
+            Results {preview.busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : null}
           </h2>
-          {preview.error ? (
-            <p className="alert" role="alert">
-              {preview.error}
-            </p>
-          ) : null}
-          {preview.results ? <ResultsPanel results={preview.results} sponsorCap={sponsorCap} /> : <p className="text-ink-soft">Calculating…</p>}
+          <p className={stale ? "alert" : "notice"} data-testid="results-status" data-state={stale ? "stale" : saved ? "saved" : "preview"}>
+            {blocked
+              ? `Out of date: these figures (and the chart) are for earlier inputs. Fix ${blocked.label} to update them — ${blocked.message}`
+              : preview.error
+                ? `Out of date: these figures (and the chart) are for earlier inputs. ${preview.error}`
+                : saved
+                  ? `Saved as version ${version}.`
+                  : scenarioId
+                    ? `Preview of unsaved changes to version ${version}: save to keep them.`
+                    : "Preview: not saved yet. Create the scenario to keep it."}
+          </p>
+          {preview.results ? (
+            <div className={stale ? "opacity-50" : undefined} data-stale={stale ? "true" : undefined}>
+              <ResultsPanel results={preview.results} sponsorCap={sponsorCap} />
+            </div>
+          ) : (
+            <p className="text-ink-soft">Calculating…</p>
+          )}
         </section>
         <ReachChart source={scenarioId ? { kind: "unsaved", url: `/api/v1/scenarios/${scenarioId}/curve`, inputs: live } : { kind: "unsaved", url: `/api/v1/studies/${studyId}/curve`, inputs: live }} effectName={preview.results?.effectName ?? "effectSize"} />
       </aside>

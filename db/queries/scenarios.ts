@@ -3,7 +3,7 @@ import { getDb } from "@/db";
 import { enforce, forbidden, HttpError, notFound } from "@/lib/auth/errors";
 import { decide, roleMay, type Actor, type Membership } from "@/lib/auth/permissions";
 import type { ScenarioState } from "@/lib/auth/roles";
-import { computeScenario, ScenarioError, type ScenarioResults, type StudyContext } from "@/lib/planning/compute";
+import { computeScenario, ScenarioError, withSettledAccrual, type ScenarioResults, type StudyContext } from "@/lib/planning/compute";
 import { generateJustification } from "@/lib/planning/justification";
 import { checkJustification, describeChange, justificationFigures, parseFigures, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
@@ -178,7 +178,7 @@ export async function createScenario(actor: Actor, studyId: number, input: { nam
         .values({
           study_id: studyId,
           name: input.name,
-          inputs_json: JSON.stringify(input.inputs),
+          inputs_json: JSON.stringify(withSettledAccrual(input.inputs)),
           results_json: JSON.stringify(results),
           rate_edition_id: edition.id,
           created_by: actor.id,
@@ -234,7 +234,8 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
         .set({
           ...(patch.name !== undefined ? { name: patch.name } : {}),
           ...(patch.justification !== undefined ? { justification: patch.justification, justification_figures_json: figures } : {}),
-          inputs_json: JSON.stringify(inputs),
+          // Time to event: the derived accrual is stored with the inputs (lib/planning/accrual.ts).
+          inputs_json: JSON.stringify(patch.inputs || patch.recompute ? withSettledAccrual(inputs) : inputs),
           results_json,
           rate_edition_id: editionId,
           version: row.version + 1,

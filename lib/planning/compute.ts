@@ -4,9 +4,11 @@
  */
 import Decimal from "decimal.js";
 import { computeLedger, largestFitting, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
+import { computeTimeline, TimelineError } from "@/lib/costing/timeline";
 import { buildFunnel } from "@/lib/power/funnel";
-import { solveParsed, powerInputSchema, quantityNames, type PowerResult } from "@/lib/power";
+import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type PowerResult } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
+import { settleAccrual, type AccrualFit } from "./accrual";
 import type { ScenarioInputs } from "./schema";
 
 export type StudyContext = { startDate: string; sponsorCap: string | null };
@@ -19,6 +21,43 @@ export const isCluster = (i: ScenarioInputs) => i.design.design.startsWith("clus
 
 /** The power-engine input for this scenario, with the given quantity left out (or n fixed). */
 export function powerInput(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n?: number): ParsedPowerInput {
+  return powerInputWith(i, solveFor, n, i.design.design === "time-to-event" ? accrualFor(i).accrualMonths : undefined);
+}
+
+const accrualMemo = new WeakMap<ScenarioInputs, AccrualFit>();
+
+/**
+ * Time to event: the accrual the power calculation uses is the enrolment period the timeline computes
+ * for the sample it gives (lib/planning/accrual.ts). Memoised per inputs object: the curve asks often.
+ */
+export function accrualFor(i: ScenarioInputs): AccrualFit {
+  const hit = accrualMemo.get(i);
+  if (hit) return hit;
+  const enrolMonths = (accrual: number) => {
+    try {
+      const sized = solveParsed(powerInputWith(i, "n", undefined, accrual));
+      const enrolled = sized.funnel.total.enrolled;
+      const sites = sitesFor(i, enrolled, null);
+      if (sites === null) return Number.POSITIVE_INFINITY;
+      return computeTimeline({ sites, startupMonths: i.recruitment.startupMonths, staggerMonths: i.recruitment.staggerMonths, ratePerSiteMonth: i.recruitment.ratePerSiteMonth, closeoutMonths: 0 }, enrolled, 0, "2000-01-01").monthsToEnrol;
+    } catch (err) {
+      // Too long to enrol, or no sample reaches the power: longer than any accrual; the sizing itself reports why.
+      if (err instanceof TimelineError || err instanceof UnreachableError) return Number.POSITIVE_INFINITY;
+      throw err;
+    }
+  };
+  const fit = settleAccrual(enrolMonths, i.design.accrualMonths ?? 12);
+  accrualMemo.set(i, fit);
+  return fit;
+}
+
+/** The inputs as stored: a time-to-event scenario keeps the accrual it was computed with, so that its text quotes it. */
+export function withSettledAccrual(i: ScenarioInputs): ScenarioInputs {
+  if (i.design.design !== "time-to-event") return i;
+  return { ...i, design: { ...i.design, accrualMonths: accrualFor(i).accrualMonths } };
+}
+
+function powerInputWith(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n: number | undefined, accrualMonths: number | undefined): ParsedPowerInput {
   const d = i.design;
   const names = quantityNames(d.design);
   const sd = i.pilot && i.pilot.kind === "sd" ? (i.pilot.use === "upper" && i.pilot.upperLimit ? i.pilot.upperLimit : i.pilot.estimate) : d.sd;
@@ -33,12 +72,14 @@ export function powerInput(i: ScenarioInputs, solveFor: "n" | "power" | "effect"
   if (d.design !== "one-mean") raw.allocationRatio = d.allocationRatio;
   if (d.design.endsWith("proportions")) raw.p1 = p1;
   if (d.design.startsWith("cluster-")) Object.assign(raw, { clusterSize: d.clusterSize, icc: d.icc, cv: d.cv ?? 0 });
-  if (d.design === "time-to-event") Object.assign(raw, { controlMedian: d.controlMedian, accrualMonths: d.accrualMonths, followUpMonths: d.followUpMonths });
+  if (d.design === "time-to-event") Object.assign(raw, { controlMedian: d.controlMedian, accrualMonths: accrualMonths ?? d.accrualMonths, followUpMonths: d.followUpMonths });
   if (solveFor !== "power") raw.power = d.power;
   if (solveFor !== "n") raw[names.n] = n;
   if (solveFor !== "effect") {
     if (names.effect === "effectSize") {
-      if (d.meanDifference !== undefined && sd !== undefined) Object.assign(raw, { meanDifference: d.meanDifference, sd });
+      // The form says which of the two is the input; older stored scenarios prefer the difference with its SD.
+      const useDifference = d.effectInput === "difference" || (d.effectInput !== "d" && d.meanDifference !== undefined && sd !== undefined);
+      if (useDifference) Object.assign(raw, { meanDifference: d.meanDifference, sd });
       else raw.effectSize = d.effectSize;
     } else raw[names.effect] = names.effect === "p2" ? d.p2 : d.hazardRatio;
   } else if (names.effect === "p2") raw.direction = (d.p2 ?? 1) < (p1 ?? 0) ? "decrease" : "increase";
@@ -93,7 +134,7 @@ export function sitesFor(i: ScenarioInputs, enrolled: number, clusters: number |
       i.recruitment.maxEnrolmentMonths,
     );
   }
-  return i.recruitment.sites;
+  return i.recruitment.sites ?? null;
 }
 
 /** The parsed power input with the sample size set: validated once, then reused for every n (the curve asks hundreds of times). */
@@ -133,6 +174,8 @@ export type ScenarioResults = {
   ledger: Ledger;
   capBuys: CapBuys;
   warnings: string[];
+  /** Time to event only: the accrual the power calculation used, and the months the timeline takes to enrol. */
+  accrual?: AccrualFit;
 };
 
 export function computeScenario(i: ScenarioInputs, rates: RateBook, study: StudyContext): ScenarioResults {
@@ -140,10 +183,22 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
   const sized = solveParsed(powerInput(i, "n"));
   const n = nOf(sized);
   const at = studyAt(i, study, n);
-  if (!at) throw new ScenarioError("No number of sites up to 500 enrols this sample by the enrolment deadline; relax the deadline or raise the rate.");
+  if (!at) {
+    throw new ScenarioError(
+      i.recruitment.maxEnrolmentMonths || isCluster(i)
+        ? "No number of sites up to 500 enrols this sample by the enrolment deadline; relax the deadline or raise the rate."
+        : "Sites: enter the number of sites, a whole number like 4.",
+    );
+  }
   const ledger = computeLedger(at.cost, rates);
   const mdesResult = solveParsed(powerInput(i, "effect", n));
   const warnings = [...sized.warnings];
+  const accrual = i.design.design === "time-to-event" ? accrualFor(i) : undefined;
+  if (accrual && !accrual.settled) {
+    warnings.push(
+      `The power calculation assumes ${accrual.accrualMonths} months of accrual, but the timeline enrols this sample in ${accrual.enrolMonths} months: in whole months no accrual matches its own enrolment exactly. The longer enrolment only adds follow-up, so the power is at least the target.`,
+    );
+  }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
   return {
     computedAt: new Date().toISOString(),
@@ -157,6 +212,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     ledger,
     capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
     warnings,
+    ...(accrual ? { accrual } : {}),
   };
 }
 

@@ -42,7 +42,7 @@ const cheaper = (a: Alternative, b: Alternative) => new Decimal(a.total).compare
 export function cheapestDesign(i: ScenarioInputs, rates: RateBook, study: StudyContext, opts: { maxSites?: number } = {}): Optimum | null {
   if (i.design.design.startsWith("cluster-")) return cheapestClusterDesign(i, rates, study);
   const alternatives: Alternative[] = [];
-  const maxSites = opts.maxSites ?? Math.max(12, i.recruitment.sites * 3);
+  const maxSites = opts.maxSites ?? Math.max(12, (i.recruitment.sites ?? 4) * 3);
   for (let s = 1; s <= maxSites; s++) {
     const a = priced(i, rates, study, s);
     if (a && (!i.recruitment.maxEnrolmentMonths || a.monthsToEnrol <= i.recruitment.maxEnrolmentMonths)) alternatives.push(a);

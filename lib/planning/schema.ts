@@ -4,7 +4,8 @@
  */
 import { z } from "zod";
 import { COST_CATEGORIES } from "@/lib/costing/types";
-import { DESIGNS } from "@/lib/power/schema";
+import { percentToShare } from "@/lib/format/percent-input";
+import { DESIGNS, type Design } from "@/lib/power/schema";
 
 const n = (label: string) => z.coerce.number({ error: `${label}: enter a number.` }).refine(Number.isFinite, `${label}: enter a number.`);
 const opt = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === "" || v === null ? undefined : v), schema.optional());
@@ -13,43 +14,54 @@ const money = (label: string) =>
     .union([z.string(), z.number()], { error: `${label}: enter dollars, like 1200 or 1,200.50.` })
     .transform((v) => String(v).trim().replace(/[$,\s]/g, ""))
     .pipe(z.string().regex(/^\d{1,11}(\.\d{1,2})?$/, `${label}: enter dollars, like 1200 or 1,200.50.`));
-const share = (label: string) => n(label).min(0, `${label}: from 0 to below 1.`).lt(1, `${label}: from 0 to below 1.`);
+/** A share from 0 to below 1, typed as a fraction (0.35) or as the percentage the page shows (35%). */
+const share = (label: string) =>
+  z.preprocess(percentToShare, n(label).min(0, `${label}: from 0 to below 1, like 0.35 or 35%.`).lt(1, `${label}: from 0 to below 1, like 0.35 or 35%.`));
+const asShare = <T extends z.ZodType>(schema: T) => z.preprocess(percentToShare, schema);
 /** Free text; `missing` is the message when the field comes back empty (the form drops empty values). */
-const text = (label: string, max: number, missing = `${label}: type it in.`) => z.string({ error: missing }).trim().max(max, `${label}: at most ${max} characters.`);
+const text = (label: string, max: number, missing = `${label}: fill this in.`) => z.string({ error: missing }).trim().max(max, `${label}: at most ${max} characters.`);
+
+/** How a means design's effect is given: as a mean difference with its SD, or directly as Cohen's d. */
+export const EFFECT_INPUTS = ["difference", "d"] as const;
 
 export const designSchema = z.object({
-  design: z.enum(DESIGNS, { error: "Choose a design." }),
-  outcome: text("Primary outcome", 300, "Describe the primary outcome.").min(3, "Describe the primary outcome."),
-  alpha: n("Alpha").gt(0, "Alpha: enter a number above 0, like 0.05.").max(0.5, "Alpha: enter at most 0.5, like 0.05."),
-  sides: z.coerce.number({ error: "Test: choose one- or two-sided." }).pipe(z.union([z.literal(1), z.literal(2)], { error: "Test: choose one- or two-sided." })),
-  power: n("Target power").gt(0.5, "Target power: enter a number above 0.5, like 0.80.").lt(1, "Target power: enter a number below 1, like 0.90."),
-  allocationRatio: n("Allocation ratio (n2 / n1)").min(0.1, "Allocation ratio (n2 / n1): enter 0.1 to 10 (1 for equal arms).").max(10, "Allocation ratio (n2 / n1): enter 0.1 to 10 (1 for equal arms)."),
-  effectSize: opt(n("Standardized effect d").gt(0, "Standardized effect d: enter a number above 0, like 0.5.").max(10, "Standardized effect d: enter at most 10.")),
-  meanDifference: opt(n("Target mean difference").refine((v) => v !== 0, "Target mean difference: enter a difference other than 0.")),
-  sd: opt(n("Outcome SD").gt(0, "Outcome SD: enter a number above 0.")),
-  p1: opt(n("Control proportion").gt(0, "Control proportion: enter a number between 0 and 1, like 0.30.").lt(1, "Control proportion: enter a number between 0 and 1, like 0.30.")),
-  p2: opt(n("Target intervention proportion").gt(0, "Target intervention proportion: enter a number between 0 and 1, like 0.45.").lt(1, "Target intervention proportion: enter a number between 0 and 1, like 0.45.")),
-  hazardRatio: opt(n("Target hazard ratio").gt(0, "Target hazard ratio: enter a number above 0, like 0.75.").max(100, "Target hazard ratio: enter at most 100.")),
-  clusterSize: opt(n("Mean cluster size").min(1, "Mean cluster size: enter at least 1.").max(100000, "Mean cluster size: enter at most 100,000.")),
-  icc: opt(n("ICC").min(0, "ICC: enter a number from 0 to below 1, like 0.05.").lt(1, "ICC: enter a number from 0 to below 1, like 0.05.")),
-  cv: opt(n("CV of cluster size").min(0, "CV of cluster size: enter 0 or more (0 for equal clusters).").max(5, "CV of cluster size: enter at most 5.")),
-  controlMedian: opt(n("Control median (months)").gt(0, "Control median (months): enter a number above 0, like 12.")),
-  accrualMonths: opt(n("Accrual (months)").gt(0, "Accrual (months): enter a number above 0, like 24.")),
-  followUpMonths: opt(n("Further follow-up (months)").min(0, "Further follow-up (months): enter 0 or more.")),
+  design: z.enum(DESIGNS, { error: "Design: choose one from the list." }),
+  outcome: text("Primary outcome", 300, "Primary outcome: describe it in a few words.").min(3, "Primary outcome: describe it in a few words."),
+  alpha: asShare(n("Alpha").gt(0, "Alpha must be above 0, like 0.05 or 5%.").max(0.5, "Alpha must be at most 0.5.")),
+  sides: z.coerce.number().pipe(z.union([z.literal(1), z.literal(2)], { error: "Test must be one- or two-sided." })),
+  power: asShare(n("Target power").gt(0.5, "Target power must be above 0.5, like 0.80 or 80%.").lt(1, "Target power must be below 1, like 0.80 or 80%.")),
+  // Two-arm designs only (see designRequirements): one mean has no second arm, and the form hides the field.
+  allocationRatio: opt(n("Allocation ratio (n2 / n1)").min(0.1, "Allocation ratio (n2 / n1): 0.1 to 10.").max(10, "Allocation ratio (n2 / n1): 0.1 to 10.")),
+  // Absent in scenarios stored before the choice existed: then a difference with its SD wins over d.
+  effectInput: opt(z.enum(EFFECT_INPUTS, { error: "Give the effect as: choose a mean difference and SD, or a standardized effect d." })),
+  effectSize: opt(n("Standardized effect d").gt(0, "Standardized effect d must be above 0.").max(10, "Standardized effect d must be at most 10.")),
+  meanDifference: opt(n("Target mean difference").refine((v) => v !== 0, "Target mean difference must not be 0.")),
+  sd: opt(n("Outcome SD").gt(0, "Outcome SD must be above 0.")),
+  p1: opt(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3.")),
+  p2: opt(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45.")),
+  hazardRatio: opt(n("Target hazard ratio").gt(0, "Target hazard ratio must be above 0, like 0.7.").max(100, "Target hazard ratio: at most 100.")),
+  clusterSize: opt(n("Mean cluster size").min(1, "Mean cluster size: at least 1.").max(100000, "Mean cluster size: at most 100,000.")),
+  icc: opt(n("ICC").min(0, "ICC: from 0 to below 1, like 0.05.").lt(1, "ICC: from 0 to below 1, like 0.05.")),
+  cv: opt(n("CV of cluster size").min(0, "CV of cluster size: at least 0.").max(5, "CV of cluster size: at most 5.")),
+  controlMedian: opt(n("Control median (months)").gt(0, "Control median (months) must be above 0.")),
+  // Time to event: derived from the recruitment plan (lib/planning/accrual.ts); a stored value is only the search's starting point.
+  accrualMonths: opt(n("Accrual months").gt(0, "Accrual months must be above 0.")),
+  followUpMonths: opt(n("Further follow-up (months)").min(0, "Further follow-up (months): 0 or more.")),
   targetRationale: text("Where the target effect comes from", 1000).default(""),
   sdSource: text("Where the SD or control proportion comes from", 500).default(""),
 });
 
 export const recruitmentSchema = z.object({
-  sites: n("Sites").int("Sites: a whole number.").min(1, "At least one site.").max(500, "At most 500 sites."),
-  maxEnrolmentMonths: opt(n("Enrolment deadline (months)").int("Enrolment deadline (months): a whole number from 1 to 240, or leave it empty.").min(1, "Enrolment deadline (months): a whole number from 1 to 240, or leave it empty.").max(240, "Enrolment deadline (months): a whole number from 1 to 240, or leave it empty.")),
-  startupMonths: n("Start-up months per site").int("Start-up months per site: a whole number from 0 to 60.").min(0, "Start-up months per site: a whole number from 0 to 60.").max(60, "Start-up months per site: a whole number from 0 to 60."),
-  staggerMonths: n("Months between activations").int("Months between activations: a whole number from 0 to 36.").min(0, "Months between activations: a whole number from 0 to 36.").max(36, "Months between activations: a whole number from 0 to 36."),
-  ratePerSiteMonth: n("Enrolled per site per month").gt(0, "Enrolled per site per month: enter a number above 0, like 1.5.").max(1000, "Enrolled per site per month: enter at most 1,000."),
-  closeoutMonths: n("Close-out months").int("Close-out months: a whole number from 0 to 24.").min(0, "Close-out months: a whole number from 0 to 24.").max(24, "Close-out months: a whole number from 0 to 24."),
+  // Required for individually randomised designs only (see scenarioInputsSchema): in a cluster design each cluster is a site.
+  sites: opt(n("Sites").int("Sites: a whole number.").min(1, "Sites: at least 1.").max(500, "Sites: at most 500.")),
+  maxEnrolmentMonths: opt(n("Enrolment deadline (months)").int("Enrolment deadline (months): a whole number.").min(1, "Enrolment deadline (months): at least 1.").max(240, "Enrolment deadline (months): at most 240.")),
+  startupMonths: n("Start-up months").int("Months: a whole number.").min(0, "0 or more.").max(60, "At most 60."),
+  staggerMonths: n("Months between site activations").int("Months: a whole number.").min(0, "0 or more.").max(36, "At most 36."),
+  ratePerSiteMonth: n("Enrolment rate").gt(0, "Enrolment rate must be above 0.").max(1000, "At most 1,000 per site per month."),
+  closeoutMonths: n("Close-out months").int("Months: a whole number.").min(0, "0 or more.").max(24, "At most 24."),
   attrition: share("Attrition"),
   screenFailure: share("Screen failure"),
-  dropoutVisitShare: share("Share of visits a dropout attends").default(0.5),
+  dropoutVisitShare: share("Visits a dropout attends").default(0.5),
 });
 
 export const visitSchema = z.object({
@@ -106,18 +118,69 @@ export const pilotSchema = z.object({
   fileName: z.string().max(120),
 });
 
-export const scenarioInputsSchema = z.object({
-  design: designSchema,
-  recruitment: recruitmentSchema,
-  visits: z.array(visitSchema).max(60, "At most 60 visits.").default([]),
-  personnel: z.array(personnelSchema).max(40, "At most 40 people.").default([]),
-  other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
-  pilot: pilotSchema.optional(),
-});
+export const isClusterDesign = (design: Design) => design.startsWith("cluster-");
+export const isMeansDesign = (design: Design) => design === "two-means" || design === "one-mean" || design === "cluster-two-means";
+export const isProportionsDesign = (design: Design) => design.endsWith("proportions");
+
+type Issue = { path: (string | number)[]; message: string };
+
+/**
+ * The fields each design needs. The form shows only the chosen design's fields, so what it asks for is
+ * checked here, against the design, and never a field the page hides (a cluster design has no Sites).
+ * Messages name the field as the form labels it. Exported for the unit tests.
+ */
+export function designRequirements(v: { design?: Partial<z.infer<typeof designSchema>>; recruitment?: Partial<z.infer<typeof recruitmentSchema>>; pilot?: { kind: string } }): Issue[] {
+  const d = v.design;
+  if (!d?.design || !DESIGNS.includes(d.design)) return [];
+  const out: Issue[] = [];
+  const need = (field: string, value: unknown, message: string) => {
+    if (value === undefined) out.push({ path: ["design", field], message });
+  };
+  const design = d.design;
+  if (design !== "one-mean") need("allocationRatio", d.allocationRatio, "Allocation ratio (n2 / n1): enter it, like 1 for equal arms.");
+  if (isMeansDesign(design)) {
+    const pilotSd = v.pilot?.kind === "sd";
+    if (d.effectInput === "d") need("effectSize", d.effectSize, "Standardized effect d: enter a number above 0, like 0.4.");
+    else if (d.effectInput === "difference" || d.effectSize === undefined) {
+      need("meanDifference", d.meanDifference, "Target mean difference: enter it in outcome units, like 5.");
+      if (!pilotSd) need("sd", d.sd, "Outcome SD: enter the planning SD, like 10.");
+    }
+  }
+  if (isProportionsDesign(design)) {
+    if (v.pilot?.kind !== "proportion") need("p1", d.p1, "Control proportion (p1): enter a value between 0 and 1, like 0.3.");
+    need("p2", d.p2, "Target intervention proportion (p2): enter a value between 0 and 1, like 0.45.");
+    if (d.p1 !== undefined && d.p1 === d.p2) out.push({ path: ["design", "p2"], message: "Target intervention proportion (p2) must differ from the control proportion (p1)." });
+  }
+  if (isClusterDesign(design)) {
+    need("clusterSize", d.clusterSize, "Mean cluster size: enter the participants per cluster, like 20.");
+    need("icc", d.icc, "ICC: enter a value from 0 to below 1, like 0.05.");
+  } else if (v.recruitment && v.recruitment.sites === undefined) {
+    out.push({ path: ["recruitment", "sites"], message: "Sites: enter the number of sites, a whole number like 4." });
+  }
+  if (design === "time-to-event") {
+    need("hazardRatio", d.hazardRatio, "Target hazard ratio: enter a value above 0, like 0.7.");
+    need("controlMedian", d.controlMedian, "Control median (months): enter the median time to event in the control arm, like 12.");
+    need("followUpMonths", d.followUpMonths, "Further follow-up (months): enter the months of follow-up after the last enrolment, like 12.");
+  }
+  return out;
+}
+
+export const scenarioInputsSchema = z
+  .object({
+    design: designSchema,
+    recruitment: recruitmentSchema,
+    visits: z.array(visitSchema).max(60, "At most 60 visits.").default([]),
+    personnel: z.array(personnelSchema).max(40, "At most 40 people.").default([]),
+    other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
+    pilot: pilotSchema.optional(),
+  })
+  .superRefine((v, ctx) => {
+    for (const issue of designRequirements(v)) ctx.addIssue({ code: "custom", ...issue });
+  });
 
 export type ScenarioInputs = z.infer<typeof scenarioInputsSchema>;
 
 export const scenarioFormSchema = z.object({
-  name: text("Scenario name", 80, "Name the scenario.").min(2, "Name the scenario."),
+  name: z.string({ error: "Scenario name: type a name of 2 to 80 characters." }).trim().max(80, "Scenario name: at most 80 characters.").min(2, "Scenario name: type a name of 2 to 80 characters."),
   inputs: scenarioInputsSchema,
 });

@@ -50,7 +50,7 @@ describe("messages beside their fields", () => {
     await page.close();
   });
 
-  it("an empty scenario name says \"Name the scenario.\" beside the field, never zod's words", async () => {
+  it("an empty scenario name says \"Scenario name: type a name of 2 to 80 characters.\" beside the field, never zod's words", async () => {
     const page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
     await page.getByRole("link", { name: /Walking Better/ }).click();
     await page.getByRole("link", { name: "New scenario" }).click();
@@ -58,8 +58,8 @@ describe("messages beside their fields", () => {
     const name = page.getByLabel("Scenario name");
     expect(await name.inputValue()).toBe("");
     await page.getByRole("button", { name: "Create scenario" }).click();
-    await page.getByText("Name the scenario.").first().waitFor();
-    expect(await describedText(name)).toContain("Name the scenario.");
+    await page.getByText("Scenario name: type a name of 2 to 80 characters.").first().waitFor();
+    expect(await describedText(name)).toContain("Scenario name: type a name of 2 to 80 characters.");
     expect(await page.getByText(MACHINE).count()).toBe(0);
     expect(new URL(page.url()).pathname).toMatch(/\/scenarios\/new$/);
     await screenshot(page, "scenario-name-empty-1440");

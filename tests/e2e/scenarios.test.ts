@@ -34,7 +34,7 @@ describe("the investigator's scenario workspace", () => {
     // A bad value names the field and keeps the text; nothing is saved.
     await page.getByLabel("Attrition").fill("1.5");
     await page.getByRole("button", { name: "Save changes" }).click();
-    await page.getByText("Attrition: from 0 to below 1.").first().waitFor();
+    await page.getByText("Attrition: from 0 to below 1, like 0.35 or 35%.").first().waitFor();
     expect(await page.getByLabel("Attrition").inputValue()).toBe("1.5");
     await page.getByLabel("Attrition").fill("0.30");
     await page.getByRole("button", { name: "Save changes" }).click();

@@ -94,9 +94,9 @@ describe("messages in plain words", () => {
     }
   });
 
-  it("the scenario form: an empty name says \"Name the scenario.\", and every empty or garbled field answers in the page's words", () => {
-    expect(viaForm(scenarioFormSchema, { name: "" })).toContain("Name the scenario.");
-    expect(messagesOf(scenarioFormSchema, { inputs: {} })).toContain("Name the scenario.");
+  it("the scenario form: an empty name says \"Scenario name: type a name of 2 to 80 characters.\", and every empty or garbled field answers in the page's words", () => {
+    expect(viaForm(scenarioFormSchema, { name: "" })).toContain("Scenario name: type a name of 2 to 80 characters.");
+    expect(messagesOf(scenarioFormSchema, { inputs: {} })).toContain("Scenario name: type a name of 2 to 80 characters.");
     const sections = { design: designSchema.shape, recruitment: recruitmentSchema.shape };
     const rows = { visits: visitSchema.shape, personnel: personnelSchema.shape, other: otherCostSchema.shape };
     const formFields = (value: string) => ({

@@ -6,24 +6,21 @@ import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { getScenario, listScenarios } from "@/db/queries/scenarios";
 import { getStudy } from "@/db/queries/studies";
 import { can } from "@/lib/auth/permissions";
-import type { ScenarioInputs } from "@/lib/planning/schema";
+import { scenarioTemplate } from "@/lib/planning/templates";
+import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 
 export const metadata: Metadata = { title: "New scenario" };
 
-/** A neutral starting point when the study has no scenario to start from. */
-const TEMPLATE: ScenarioInputs = {
-  design: { design: "two-means", outcome: "the primary outcome", alpha: 0.05, sides: 2, power: 0.8, allocationRatio: 1, effectSize: 0.5, targetRationale: "", sdSource: "" },
-  recruitment: { sites: 4, startupMonths: 3, staggerMonths: 1, ratePerSiteMonth: 2, closeoutMonths: 3, attrition: 0.1, screenFailure: 0.3, dropoutVisitShare: 0.5 },
-  visits: [{ name: "Baseline", month: 0, procedures: [] }],
-  personnel: [],
-  other: [],
-};
-
-export default async function NewScenarioPage({ params }: { params: Promise<{ studyId: string }> }) {
+/**
+ * A new scenario starts from a blank template for a design (changing the design in the form fills that
+ * design's example values) or from a copy of a scenario the user picks; the page says which.
+ */
+export default async function NewScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string }>; searchParams: Promise<{ from?: string }> }) {
   const user = await requireUser();
   const { studyId } = await params;
+  const { from } = await searchParams;
   const study = await loadOr404(() => getStudy(user, Number(studyId)));
   if (!can(user, "scenario.edit", { membership: study.membership, scenarioState: "draft" })) {
     return (
@@ -35,7 +32,11 @@ export default async function NewScenarioPage({ params }: { params: Promise<{ st
   }
   const edition = await editionInForceOn(user, costingDate(study.startDate, isoDay()));
   const existing = await listScenarios(user, study.id);
-  const start = existing[0] ? (await getScenario(user, existing[0].id)).inputs : TEMPLATE;
+  const picked = from && from !== "template" ? existing.find((s) => String(s.id) === from) : undefined;
+  const start = picked ? (await getScenario(user, picked.id)).inputs : scenarioTemplate("two-means");
+  const startedFrom = picked
+    ? `a copy of “${picked.name}” (version ${picked.version}); change what differs`
+    : `a blank ${DESIGN_NAMES["two-means"]} template (example values, marked “Example:”, to replace); choose another design to fill its fields`;
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -43,7 +44,34 @@ export default async function NewScenarioPage({ params }: { params: Promise<{ st
       </nav>
       <h1>New scenario</h1>
       {!edition ? <p className="alert">No rate-book edition is in force for this study yet; the grants office must publish one before scenarios can be costed.</p> : null}
-      <ScenarioForm studyId={study.id} name="" inputs={start} initialResults={null} sponsorCap={study.sponsorCap} fringeCategories={edition?.fringe.map((f) => f.category) ?? []} />
+      {existing.length ? (
+        <form method="get" className="card flex flex-wrap items-end gap-3" aria-label="Where the new scenario starts">
+          <div className="field min-w-0">
+            <label htmlFor="start-from">Start from</label>
+            <select id="start-from" name="from" defaultValue={picked ? String(picked.id) : "template"} className="input">
+              <option value="template">a blank template for the design you choose</option>
+              {existing.map((s) => (
+                <option key={s.id} value={s.id}>
+                  a copy of “{s.name}”
+                </option>
+              ))}
+            </select>
+          </div>
+          <button type="submit" className="btn btn-quiet">
+            Use this start
+          </button>
+        </form>
+      ) : null}
+      <ScenarioForm
+        key={picked ? `copy-${picked.id}` : "template"}
+        studyId={study.id}
+        name=""
+        inputs={start}
+        initialResults={null}
+        sponsorCap={study.sponsorCap}
+        fringeCategories={edition?.fringe.map((f) => f.category) ?? []}
+        startedFrom={startedFrom}
+      />
     </div>
   );
 }
