@@ -1,5 +1,6 @@
 "use client";
 
+import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { useEffect, useMemo, useRef, useState } from "react";
 import type { PowerResult } from "@/lib/power/schema";
 import { TableHead } from "@/components/table-head";
@@ -8,14 +9,7 @@ type Design = PowerResult["design"];
 type SolveFor = "n" | "power" | "effect";
 type Values = Record<string, string>;
 
-const DESIGN_LABELS: Record<Design, string> = {
-  "two-means": "Two independent means",
-  "one-mean": "One mean or paired differences",
-  "two-proportions": "Two proportions",
-  "cluster-two-means": "Cluster-randomised, means",
-  "cluster-two-proportions": "Cluster-randomised, proportions",
-  "time-to-event": "Time to event (log-rank)",
-};
+const DESIGN_LABELS: Record<Design, string> = DESIGN_NAMES;
 
 type FieldSpec = { name: string; label: string; hint?: string; kind?: "number" | "select"; options?: [string, string][] };
 

@@ -7,6 +7,7 @@ import type { Optimum } from "@/lib/planning/optimiser";
 import type { SensitivityRow } from "@/lib/planning/sensitivity";
 import { formatMoney } from "@/lib/format/money";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -50,7 +51,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </p>
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
-              <div className="mt-2 relative overflow-x-auto">
+              <ScrollRegion label="Alternatives priced" className="mt-2">
               <table className="table text-sm">
                 <TableHead columns={[data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites", { label: "n per arm", num: true }, { label: "Months", num: true }, { label: "Total", num: true }]} />
                 <tbody>
@@ -64,7 +65,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
                   ))}
                 </tbody>
               </table>
-              </div>
+              </ScrollRegion>
             </details>
           </>
         ) : (
@@ -85,7 +86,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </BarChart>
           </ResponsiveContainer>
         </div>
-        <div className="mt-2 relative overflow-x-auto">
+        <ScrollRegion label="Sensitivity of the sample size, cost and months to each assumption" className="mt-2">
         <table className="table text-sm" data-testid="sensitivity-table">
           <TableHead columns={["Assumption", "Low", "Base", "High"]} />
           <tbody>
@@ -102,7 +103,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             ))}
           </tbody>
         </table>
-        </div>
+        </ScrollRegion>
       </section>
     </div>
   );

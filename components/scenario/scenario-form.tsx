@@ -1,5 +1,6 @@
 "use client";
 
+import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { getFormProps, getInputProps, getSelectProps, getTextareaProps, useForm, type FieldMetadata } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState, useEffect, useRef, useState, type ReactNode } from "react";
@@ -15,14 +16,7 @@ import { PilotUpload } from "./pilot-upload";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
 
-const DESIGN_LABELS: Record<string, string> = {
-  "two-means": "Two independent means",
-  "one-mean": "One mean or paired differences",
-  "two-proportions": "Two proportions",
-  "cluster-two-means": "Cluster-randomised, means",
-  "cluster-two-proportions": "Cluster-randomised, proportions",
-  "time-to-event": "Time to event (log-rank)",
-};
+const DESIGN_LABELS: Record<string, string> = DESIGN_NAMES;
 
 const SIDES = [
   ["2", "Two-sided"],

@@ -5,6 +5,7 @@ import { listEditions } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate book" };
 
@@ -34,7 +35,7 @@ export default async function RateBookPage() {
           ) : null}
         </div>
       </div>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Rate-book editions">
         <table className="table">
           <TableHead columns={["Edition", "Effective from", "Status", "Published"]} />
           <tbody>
@@ -52,7 +53,7 @@ export default async function RateBookPage() {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       {editor ? (
         <section className="card" aria-labelledby="new-draft">
           <h2 id="new-draft" className="mb-3">

@@ -19,6 +19,7 @@ import {
   updateSettingAction,
 } from "../actions";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate-book edition" };
 
@@ -53,10 +54,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
       ) : null}
       {e.status === "published" ? <p className="notice">This edition is published and read-only. To change rates, start a new draft from the rate book page.</p> : null}
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="settings">
+      <section className="card p-0" aria-labelledby="settings">
         <h2 id="settings" className="px-5 pt-4">
           Rates and settings
         </h2>
+        <ScrollRegion label="Rates and settings">
         <table className="table">
           <TableHead columns={["Setting", { label: "Value", num: true }, editable && "Change"]} />
           <tbody>
@@ -84,12 +86,14 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
       </section>
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="fringe">
+      <section className="card p-0" aria-labelledby="fringe">
         <h2 id="fringe" className="px-5 pt-4">
           Fringe rates by staff category
         </h2>
+        <ScrollRegion label="Fringe rates by staff category">
         <table className="table">
           <TableHead columns={["Category", { label: "Rate", num: true }, editable && "Change"]} />
           <tbody>
@@ -107,6 +111,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
         {editable ? (
           <div className="border-t border-rule p-4">
             <p className="mb-2 text-sm font-medium">Add a staff category</p>
@@ -123,10 +128,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         ) : null}
       </section>
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="procedures">
+      <section className="card p-0" aria-labelledby="procedures">
         <h2 id="procedures" className="px-5 pt-4">
           Procedure catalogue
         </h2>
+        <ScrollRegion label="Procedure catalogue">
         <table className="table">
           <TableHead columns={["Code", "Procedure", "Category", { label: "Unit cost", num: true }, editable && "Change"]} />
           <tbody>
@@ -155,6 +161,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
         {editable ? (
           <div className="border-t border-rule p-4">
             <p className="mb-2 text-sm font-medium">Add a procedure</p>
