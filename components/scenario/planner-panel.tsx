@@ -8,6 +8,7 @@ import type { SensitivityRow } from "@/lib/planning/sensitivity";
 import { formatMoney } from "@/lib/format/money";
 import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
+import { formatEffect } from "@/lib/power/effect-units";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -21,7 +22,7 @@ const fetcher = async (url: string): Promise<Planner> => {
 const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents: false }));
 
 /** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
-export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; capLabel: string | null }) {
+export function PlannerPanel({ scenarioId, capLabel, effectName = "effectSize" }: { scenarioId: number; capLabel: string | null; effectName?: string }) {
   const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/planner`, fetcher, { revalidateOnFocus: false });
   if (error) return <p className="alert">{(error as Error).message}</p>;
   if (isLoading || !data) return <p className="text-ink-soft">Working out what the budget buys…</p>;
@@ -34,7 +35,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
             {data.capBuys.sites} sites ({data.capBuys.monthsToEnrol} months to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
-            <strong className="num">{data.capBuys.effect.toFixed(3)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
+            <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
         ) : (
           <p className="mt-2 text-ink-soft">{capLabel ? "Even the smallest viable study costs more than the cap." : "The study has no sponsor cap."}</p>

@@ -118,7 +118,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
       </div>
       {x === "budget" && (markers.length || leftOut.length) ? (
         <p className="text-xs text-ink-soft" data-testid="reach-markers-note">
-          {markers.length ? `Dots: the study's scenarios whose effect is a ${unit.noun} (${markers.map((m) => m.name).join("; ")}). ` : ""}
+          {markers.length ? `Dots: the study's scenarios measured as the ${unit.noun} (${markers.map((m) => m.name).join("; ")}). ` : ""}
           {leftOut.length
             ? `Not drawn, because their effects are in another unit and cannot share this axis: ${leftOut.map((m) => `${m.name} (${effectUnit(m.effectName).noun})`).join("; ")}. `
             : ""}

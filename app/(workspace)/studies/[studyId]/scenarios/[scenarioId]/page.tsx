@@ -99,7 +99,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           </div>
         </div>
       )}
-      <PlannerPanel scenarioId={s.id} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
+      <PlannerPanel scenarioId={s.id} effectName={s.results.effectName} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
       <JustificationEditor ids={ids} text={s.justification} edited={s.justificationEdited} editable={editable} />
       <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
     </div>
