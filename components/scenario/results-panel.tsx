@@ -70,7 +70,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       {/* Periods run down the rows, so the table keeps four columns however many periods there are and
           its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
       <ScrollRegion label="Cost by budget period" testId="budget-table">
-        <table className="table" aria-label="Cost by budget period">
+        <table className="table text-sm [&_td]:px-2 [&_th]:px-2" aria-label="Cost by budget period">
           <thead>
             <tr>
               <th scope="col">Period</th>
@@ -92,7 +92,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
                 <th scope="row" className="font-normal normal-case tracking-normal whitespace-nowrap text-ink">
                   <span className="sr-only">Budget period </span>
                   <span className="num">{per.index + 1}</span>{" "}
-                  <span className="num text-xs text-ink-soft">
+                  <span className="num block text-xs text-ink-soft">
                     {per.startDate.slice(0, 7)}
                     {per.months < 12 ? (
                       <>

@@ -94,6 +94,7 @@ describe("effects with their units, designs by name", () => {
     const page = await investigator(1440);
     await openStudy(page);
     await page.getByRole("link", { name: "Walking goal reached" }).click();
+    expect(await page.getByTestId("scenario-design").textContent()).toBe("Two proportions");
     const chart = page.getByTestId("reach-chart");
     await expect.poll(async () => Number(await chart.getAttribute("data-points")), { timeout: 30_000 }).toBeGreaterThan(0);
     expect(await chart.getAttribute("data-unit")).toBe("p2");

@@ -58,7 +58,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         <h2 id="settings" className="px-5 pt-4">
           Rates and settings
         </h2>
-        <ScrollRegion label="Rates and settings">
+        <ScrollRegion label="Table of rates and settings">
         <table className="table">
           <TableHead columns={["Setting", { label: "Value", num: true }, editable && "Change"]} />
           <tbody>
@@ -93,7 +93,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         <h2 id="fringe" className="px-5 pt-4">
           Fringe rates by staff category
         </h2>
-        <ScrollRegion label="Fringe rates by staff category">
+        <ScrollRegion label="Table of fringe rates">
         <table className="table">
           <TableHead columns={["Category", { label: "Rate", num: true }, editable && "Change"]} />
           <tbody>
@@ -132,7 +132,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         <h2 id="procedures" className="px-5 pt-4">
           Procedure catalogue
         </h2>
-        <ScrollRegion label="Procedure catalogue">
+        <ScrollRegion label="Table of procedures">
         <table className="table">
           <TableHead columns={["Code", "Procedure", "Category", { label: "Unit cost", num: true }, editable && "Change"]} />
           <tbody>

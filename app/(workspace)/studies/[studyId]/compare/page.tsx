@@ -11,7 +11,7 @@ import { effectUnit, formatEffect, sameUnit } from "@/lib/power/effect-units";
 
 export const metadata: Metadata = { title: "Compare scenarios" };
 
-type Row = { label: string; values: (s: ScenarioDetail) => string };
+type Row = { label: string; values: (s: ScenarioDetail) => string; nowrap?: boolean };
 
 const pct = (v: number) => `${Math.round(v * 100)}%`;
 const STATE_LABEL: Record<string, string> = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" };
@@ -22,7 +22,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
       { label: "Design", values: (s) => designName(s.inputs.design.design) },
       { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
       { label: "Target power", values: (s) => String(s.inputs.design.power) },
-      { label: "Target effect", values: (s) => formatEffect(s.results.effectName, s.results.targetEffect) },
+      { label: "Target effect", values: (s) => formatEffect(s.results.effectName, s.results.targetEffect), nowrap: true },
       { label: "Attrition", values: (s) => pct(s.inputs.recruitment.attrition) },
       { label: "Screen failure", values: (s) => pct(s.inputs.recruitment.screenFailure) },
       { label: "Enrolled per site per month", values: (s) => String(s.inputs.recruitment.ratePerSiteMonth) },
@@ -43,7 +43,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
   {
     section: "What it buys",
     rows: [
-      { label: "MDES at the planned n", values: (s) => formatEffect(s.results.effectName, s.results.mdes) },
+      { label: "MDES at the planned n", values: (s) => formatEffect(s.results.effectName, s.results.mdes), nowrap: true },
       { label: "Power at the target", values: (s) => s.results.powerAtTarget.toFixed(3) },
     ],
   },
@@ -134,7 +134,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
                       {row.label}
                     </th>
                     {values.map((v, k) => (
-                      <td key={k} className={`num ${differs ? "bg-brass-tint font-semibold" : ""}`} data-differs={differs || undefined}>
+                      <td key={k} className={`num ${row.nowrap ? "whitespace-nowrap" : ""} ${differs ? "bg-brass-tint font-semibold" : ""}`} data-differs={differs || undefined}>
                         {v}
                       </td>
                     ))}

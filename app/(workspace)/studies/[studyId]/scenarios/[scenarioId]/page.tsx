@@ -10,6 +10,7 @@ import { getEdition } from "@/db/queries/rate-book";
 import { getScenario } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
+import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { notFound } from "next/navigation";
@@ -42,7 +43,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             </span>
           </h1>
           <p className="text-sm text-ink-soft">
-            Costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
+            <span data-testid="scenario-design">{designName(s.inputs.design.design)}</span> · costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
           </p>
         </div>
         <div className="flex flex-wrap items-start gap-2">
