@@ -1,9 +1,9 @@
 "use client";
 
+import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { useEffect, useMemo, useRef, useState } from "react";
 import type { PowerResult } from "@/lib/power/schema";
 import { POWER_LABELS as L } from "@/lib/power/schema";
-import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { TableHead } from "@/components/table-head";
 
 type Design = PowerResult["design"];

@@ -7,6 +7,8 @@ import type { Optimum } from "@/lib/planning/optimiser";
 import type { SensitivityRow } from "@/lib/planning/sensitivity";
 import { formatMoney } from "@/lib/format/money";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
+import { formatEffect } from "@/lib/power/effect-units";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -20,7 +22,7 @@ const fetcher = async (url: string): Promise<Planner> => {
 const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents: false }));
 
 /** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
-export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; capLabel: string | null }) {
+export function PlannerPanel({ scenarioId, capLabel, effectName = "effectSize" }: { scenarioId: number; capLabel: string | null; effectName?: string }) {
   const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/planner`, fetcher, { revalidateOnFocus: false });
   if (error) return <p className="alert">{(error as Error).message}</p>;
   if (isLoading || !data) return <p className="text-ink-soft">Working out what the budget buys…</p>;
@@ -33,7 +35,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
             {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
-            <strong className="num">{data.capBuys.effect.toFixed(3)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
+            <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
         ) : (
           <p className="mt-2 text-ink-soft">{capLabel ? "Even the smallest viable study costs more than the cap." : "The study has no sponsor cap."}</p>
@@ -50,7 +52,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </p>
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
-              <div className="mt-2 relative overflow-x-auto">
+              <ScrollRegion label="Alternatives priced" className="mt-2">
               <table className="table text-sm">
                 <TableHead columns={[data.cheapest.best.clusterSize !== undefined ? "Cluster size" : "Sites", { label: "n per arm", num: true }, { label: "Months", num: true }, { label: "Total", num: true }]} />
                 <tbody>
@@ -64,7 +66,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
                   ))}
                 </tbody>
               </table>
-              </div>
+              </ScrollRegion>
             </details>
           </>
         ) : (
@@ -85,7 +87,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             </BarChart>
           </ResponsiveContainer>
         </div>
-        <div className="mt-2 relative overflow-x-auto">
+        <ScrollRegion label="Sensitivity of the sample size, cost and months to each assumption" className="mt-2">
         <table className="table text-sm" data-testid="sensitivity-table">
           <TableHead columns={["Assumption", "Low", "Base", "High"]} />
           <tbody>
@@ -102,7 +104,7 @@ export function PlannerPanel({ scenarioId, capLabel }: { scenarioId: number; cap
             ))}
           </tbody>
         </table>
-        </div>
+        </ScrollRegion>
       </section>
     </div>
   );

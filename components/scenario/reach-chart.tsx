@@ -5,6 +5,7 @@ import { CartesianGrid, ComposedChart, Line, ReferenceArea, ReferenceLine, Respo
 import useSWR from "swr";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
+import { effectUnit, formatEffect } from "@/lib/power/effect-units";
 
 type Source = { kind: "saved"; scenarioId: number } | { kind: "unsaved"; url: string; inputs: ScenarioInputs };
 
@@ -24,7 +25,13 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
   const key: [string, string | null] =
     source.kind === "saved" ? [`/api/v1/scenarios/${source.scenarioId}/curve?points=96`, null] : [source.url, JSON.stringify({ inputs: source.inputs, points: 96 })];
   const { data, error, isLoading } = useSWR(key, fetchCurve, { keepPreviousData: true, revalidateOnFocus: false });
-  const standardized = effectName === "effectSize";
+  // The curve's own unit (it follows the assumptions it was drawn for), else the caller's.
+  const unit = effectUnit(data?.effectName ?? effectName);
+  const standardized = unit.name === "effectSize";
+  // Only scenarios whose effect is in this curve's unit are drawn: a proportion or a hazard ratio is not a
+  // point on a scale of d (issue 13). The others are named below the chart.
+  const markers = (data?.markers ?? []).filter((m) => effectUnit(m.effectName).name === unit.name);
+  const leftOut = (data?.markers ?? []).filter((m) => effectUnit(m.effectName).name !== unit.name);
   const yKey = view === "mdes" ? "mdes" : "powerAtTarget";
   const points = data?.points ?? [];
   const maxY = view === "mdes" ? Math.min(2, Math.max(0.1, ...(points.length ? [points[Math.min(points.length - 1, 3)]!.mdes] : [1]))) : 1;
@@ -50,12 +57,16 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
         </div>
       </div>
       <p className="text-sm text-ink-soft">
-        {view === "mdes" ? "The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power." : "Power to detect the target effect for each budget."}
+        {view === "mdes"
+          ? `The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power, as the ${unit.noun}.`
+          : `Power to detect the target effect (${formatEffect(unit.name, data?.targetEffect)}) for each budget.`}
       </p>
       {error ? <p className="alert">{(error as Error).message}</p> : null}
       <div
         className="h-80 w-full"
         data-testid="reach-chart"
+        data-unit={unit.symbol}
+        data-markers={markers.length}
         data-points={points.length}
         data-signature={points.length ? `${points.length}:${Math.round(points[0]!.budget)}:${Math.round(points[points.length - 1]!.mdes * 1e4)}` : ""}
         aria-busy={isLoading}
@@ -71,7 +82,14 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
                 ]
               : null}
             <XAxis dataKey={x} type="number" domain={["dataMin", "dataMax"]} tickFormatter={money} label={{ value: x === "budget" ? "Total budget" : "Direct costs", position: "insideBottom", offset: -10 }} />
-            <YAxis type="number" domain={[0, maxY]} allowDataOverflow tickFormatter={(v: number) => v.toFixed(2)} width={50} />
+            <YAxis
+              type="number"
+              domain={[0, maxY]}
+              allowDataOverflow
+              tickFormatter={(v: number) => v.toFixed(2)}
+              width={58}
+              label={{ value: view === "mdes" ? `MDES (${unit.symbol})` : "Power", angle: -90, position: "insideLeft", offset: 4, style: { textAnchor: "middle" } }}
+            />
             <Tooltip
               content={({ active, payload }) => {
                 const p = active && payload?.[0]?.payload;
@@ -83,7 +101,9 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
                       n per arm {p.n1}
                       {p.n2 !== null ? ` + ${p.n2}` : ""} · {p.sites} sites · {p.monthsToEnrol} months
                     </div>
-                    <div className="num">MDES {p.mdes.toFixed(3)} · power at target {p.powerAtTarget.toFixed(3)}</div>
+                    <div className="num">
+                      MDES {formatEffect(unit.name, p.mdes)} · power at target {p.powerAtTarget.toFixed(3)}
+                    </div>
                   </div>
                 );
               }}
@@ -92,12 +112,18 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
             {data?.cap ? <ReferenceLine x={data.cap} stroke="#a6461f" strokeDasharray="4 3" label={{ value: "cap", position: "top", fill: "#a6461f" }} /> : null}
             {view === "mdes" && data ? <ReferenceLine y={data.targetEffect} stroke="#8a6a1f" strokeDasharray="2 3" label={{ value: "target", position: "right", fill: "#8a6a1f" }} /> : null}
             {view === "power" ? <ReferenceLine y={0.8} stroke="#8a6a1f" strokeDasharray="2 3" /> : null}
-            {x === "budget" ? <Scatter data={(data?.markers ?? []).map((m) => ({ budget: m.budget, [yKey]: view === "mdes" ? m.mdes : m.power, name: m.name }))} dataKey={yKey} fill="#1c2430" /> : null}
+            {x === "budget" ? <Scatter data={markers.map((m) => ({ budget: m.budget, [yKey]: view === "mdes" ? m.mdes : m.power, name: m.name }))} dataKey={yKey} fill="#1c2430" /> : null}
           </ComposedChart>
         </ResponsiveContainer>
       </div>
-      {data?.markers?.length && x === "budget" ? (
-        <p className="text-xs text-ink-soft">Dots: the study&apos;s scenarios ({data.markers.map((m) => m.name).join("; ")}). Dashed lines: the sponsor&apos;s cap and the target effect. Bands: Cohen&apos;s small, medium and large.</p>
+      {x === "budget" && (markers.length || leftOut.length) ? (
+        <p className="text-xs text-ink-soft" data-testid="reach-markers-note">
+          {markers.length ? `Dots: the study's scenarios measured as the ${unit.noun} (${markers.map((m) => m.name).join("; ")}). ` : ""}
+          {leftOut.length
+            ? `Not drawn, because their effects are in another unit and cannot share this axis: ${leftOut.map((m) => `${m.name} (${effectUnit(m.effectName).noun})`).join("; ")}. `
+            : ""}
+          Dashed lines: the sponsor&apos;s cap and the target effect.{standardized ? " Bands: Cohen's small, medium and large." : ""}
+        </p>
       ) : null}
     </section>
   );

@@ -1,7 +1,9 @@
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
+import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
+import { formatEffect } from "@/lib/power/effect-units";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
@@ -45,12 +47,12 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Target ({effectLabel(results.effectName)})</dt>
-          <dd className="num text-lg">{fmt(results.targetEffect)}</dd>
+          <dd className="num text-lg">{formatEffect(results.effectName, results.targetEffect)}</dd>
         </div>
         <div>
           <dt className="text-sm text-ink-soft">MDES at this n</dt>
           <dd className="num text-lg" data-testid="result-mdes">
-            {fmt(results.mdes)}
+            {formatEffect(results.effectName, results.mdes)}
           </dd>
         </div>
         <div>
@@ -65,40 +67,69 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
             : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
         </p>
       ) : null}
-      <div className="relative overflow-x-auto">
-        <table className="table" aria-label="Cost by budget period">
+      {/* Periods run down the rows, so the table keeps four columns however many periods there are and
+          its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
+      <ScrollRegion label="Cost by budget period" testId="budget-table">
+        <table className="table text-sm [&_td]:px-2 [&_th]:px-2" aria-label="Cost by budget period">
           <thead>
             <tr>
-              <th scope="col">Budget period</th>
-              {l.periods.map((per) => (
-                <th key={per.index} scope="col" className="num">
-                  {per.index + 1}
-                  <span className="block text-[10px] font-normal normal-case">{per.months < 12 ? `${per.months} mo` : per.startDate.slice(0, 7)}</span>
-                </th>
-              ))}
+              <th scope="col">Period</th>
               <th scope="col" className="num">
+                Direct
+                <span className="sr-only"> costs</span>
+              </th>
+              <th scope="col" className="num">
+                F&amp;A
+              </th>
+              <th scope="col" className="num" data-testid="budget-total-heading">
                 Total
               </th>
             </tr>
           </thead>
           <tbody>
-            {(["direct", "fa", "total"] as const).map((k) => (
-              <tr key={k} className={k === "total" ? "font-semibold" : ""}>
-                <td>{k === "direct" ? "Direct costs" : k === "fa" ? `F&A (${formatRate(l.faRate)} of ${l.faBase === "mtdc" ? "MTDC" : "TDC"})` : "Total"}</td>
-                {l.byPeriod[k].map((v, i) => (
-                  <td key={i} className="num">
-                    {formatMoney(v, { cents: false })}
-                  </td>
-                ))}
-                <td className="num">{formatMoney(l.totals[k], { cents: false })}</td>
+            {l.periods.map((per, i) => (
+              <tr key={per.index}>
+                <th scope="row" className="font-normal normal-case tracking-normal whitespace-nowrap text-ink">
+                  <span className="sr-only">Budget period </span>
+                  <span className="num">{per.index + 1}</span>{" "}
+                  <span className="num block text-xs text-ink-soft">
+                    {per.startDate.slice(0, 7)}
+                    {per.months < 12 ? (
+                      <>
+                        {" "}
+                        · {per.months}
+                        <span aria-hidden="true"> mo</span>
+                        <span className="sr-only"> months</span>
+                      </>
+                    ) : null}
+                  </span>
+                </th>
+                <td className="num">{formatMoney(l.byPeriod.direct[i], { cents: false })}</td>
+                <td className="num">{formatMoney(l.byPeriod.fa[i], { cents: false })}</td>
+                <td className="num font-semibold">{formatMoney(l.byPeriod.total[i], { cents: false })}</td>
               </tr>
             ))}
           </tbody>
+          <tfoot>
+            <tr className="font-semibold">
+              <th scope="row" className="normal-case tracking-normal text-ink">
+                All periods
+              </th>
+              <td className="num">{formatMoney(l.totals.direct, { cents: false })}</td>
+              <td className="num">{formatMoney(l.totals.fa, { cents: false })}</td>
+              <td className="num" data-testid="budget-grand-total">
+                {formatMoney(l.totals.total, { cents: false })}
+              </td>
+            </tr>
+          </tfoot>
         </table>
-      </div>
+      </ScrollRegion>
+      <p className="-mt-2 text-xs text-ink-soft">
+        F&amp;A at {formatRate(l.faRate)} of the {l.faBase === "mtdc" ? "MTDC" : "TDC"} base. Each period is 12 months from the month shown, unless a shorter length is given.
+      </p>
       <details>
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
-        <div className="mt-2 relative overflow-x-auto">
+        <ScrollRegion label="Cost lines" className="mt-2">
           <table className="table text-sm">
             <TableHead columns={["Line", "Category", { label: "Total", num: true }]} />
             <tbody>
@@ -111,7 +142,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       </details>
       {results.warnings.length ? (
         <ul className="notice flex flex-col gap-1" data-testid="scenario-warnings">

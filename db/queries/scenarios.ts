@@ -8,7 +8,7 @@ import { generateJustification } from "@/lib/planning/justification";
 import { checkJustification, describeChange, justificationFigures, parseFigures, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { TimelineError, CostingError } from "@/lib/costing";
-import { PowerInputError, UnreachableError } from "@/lib/power";
+import { PowerInputError, UnreachableError, type Design } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
 import { enqueueMail, kickMailSender } from "./outbox";
 import { reviewedMail, submittedMail } from "@/lib/mail/templates";
@@ -25,7 +25,7 @@ export type ScenarioSummary = {
   version: number;
   updatedAt: string;
   editionId: number;
-  headline: { n1: number; n2: number | null; nTotal: number; clusters1?: number; total: string; mdes: number; effectName: string; power: number; monthsToEnrol: number; sites: number };
+  headline: { design: Design; n1: number; n2: number | null; nTotal: number; clusters1?: number; total: string; mdes: number; effectName: string; power: number; monthsToEnrol: number; sites: number };
 };
 
 export type ScenarioDetail = ScenarioSummary & {
@@ -69,6 +69,7 @@ function summaryOf(r: NonNullable<Row> | { id: number; study_id: number; name: s
     updatedAt: r.updated_at,
     editionId: r.rate_edition_id,
     headline: {
+      design: res.power.design,
       n1: res.power.n1,
       n2: res.power.n2,
       nTotal: res.power.nTotal,
@@ -354,7 +355,7 @@ export async function scenarioContext(
 
 /** Markers for the reach curve: every scenario of the study the actor may see. */
 export async function scenarioMarkers(actor: Actor, studyId: number) {
-  return (await listScenarios(actor, studyId)).map((s) => ({ id: s.id, name: s.name, budget: Number(s.headline.total), mdes: s.headline.mdes, power: s.headline.power, state: s.state }));
+  return (await listScenarios(actor, studyId)).map((s) => ({ id: s.id, name: s.name, budget: Number(s.headline.total), mdes: s.headline.mdes, effectName: s.headline.effectName, power: s.headline.power, state: s.state }));
 }
 
 export async function studyContextFor(actor: Actor, studyId: number): Promise<{ study: StudyContext; rates: ReturnType<typeof editionToRateBook> }> {

@@ -11,6 +11,8 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
 import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
+import { designName } from "@/lib/power/design-names";
+import { effectUnit } from "@/lib/power/effect-units";
 import { col, quoteSheet, safeText, sheetName } from "./text";
 
 export type WorkbookScenario = {
@@ -101,12 +103,12 @@ function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Worksheet {
   r++;
   const d = s.inputs.design;
   const entered = "Investigator's entry";
-  add("Design", d.design, undefined, undefined, entered);
+  add("Design", designName(d.design), undefined, undefined, entered);
   add("Primary outcome", d.outcome, undefined, undefined, entered);
   add("Alpha", d.alpha, undefined, undefined, entered);
   add("Sides", d.sides, undefined, undefined, entered);
   add("Target power", d.power, undefined, undefined, entered);
-  add("Target effect", s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
+  add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
   if (s.results.power.sdUsed !== undefined) add("Planning SD", s.results.power.sdUsed, undefined, undefined, s.inputs.pilot ? `Pilot data (${s.inputs.pilot.fileName})` : d.sdSource || entered);
   if (d.p1 !== undefined) add("Control proportion", d.p1, undefined, undefined, d.sdSource || entered);
   const rc = s.inputs.recruitment;
@@ -311,7 +313,7 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
     ["Scenario", safeText(s.name)],
     ["Review state", s.state],
     ["Rate-book edition", safeText(`${s.rates.label} (effective ${s.rates.effectiveDate})`)],
-    ["Design", s.inputs.design.design],
+    ["Design", designName(s.inputs.design.design)],
     ["Method", p.method],
     ["Evaluable, arm 1", p.n1],
     ["Evaluable, arm 2", p.n2 ?? "—"],
@@ -319,7 +321,7 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
     ["Screened (all arms)", p.funnel.total.screened],
     ["Sites", s.results.sites],
     ["Months to enrol", l.timeline.monthsToEnrol],
-    ["Minimum detectable effect at this n", Number(s.results.mdes.toFixed(6))],
+    [`Minimum detectable effect at this n (${effectUnit(s.results.effectName).noun})`, Number(s.results.mdes.toFixed(6))],
     ["Power at the target effect", Number(s.results.powerAtTarget.toFixed(6))],
   ];
   let r = 4;
@@ -412,10 +414,12 @@ function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list: Workb
   ws.getRow(4).values = ["", ...list.map((s) => safeText(s.name))];
   ws.getRow(4).font = { bold: true };
   const rows: [string, (s: WorkbookScenario) => ExcelJS.CellValue][] = [
-    ["Design", (s) => s.inputs.design.design],
+    ["Design", (s) => designName(s.inputs.design.design)],
+    // Scenarios of different designs measure effects in different units: each column says its own.
+    ["Effect measured as", (s) => effectUnit(s.results.effectName).noun],
     ["Alpha", (s) => s.inputs.design.alpha],
     ["Target power", (s) => s.inputs.design.power],
-    ["Target effect", (s) => Number(s.results.targetEffect.toFixed(6))],
+    ["Target effect (in the unit above)", (s) => Number(s.results.targetEffect.toFixed(6))],
     ["Attrition", (s) => s.inputs.recruitment.attrition],
     ["Screen failure", (s) => s.inputs.recruitment.screenFailure],
     ["Evaluable, total", (s) => s.results.power.nTotal],
@@ -423,7 +427,7 @@ function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list: Workb
     ["Screened", (s) => s.results.power.funnel.total.screened],
     ["Sites", (s) => s.results.sites],
     ["Months to enrol", (s) => s.results.ledger.timeline.monthsToEnrol],
-    ["MDES at this n", (s) => Number(s.results.mdes.toFixed(6))],
+    ["MDES at this n (in the unit above)", (s) => Number(s.results.mdes.toFixed(6))],
     ["Power at the target", (s) => Number(s.results.powerAtTarget.toFixed(6))],
   ];
   let r = 5;

@@ -1,12 +1,21 @@
-/** axe-core on the main pages: serious or critical violations fail the test. */
+/**
+ * axe-core on every main page, in the states people meet them in: the demo scenarios (and one of every
+ * design), the comparison of four scenarios, the rate book with an open draft and a previewed import,
+ * the admin pages; at 1280 and 390 pixels; after the page has settled (network idle, the results,
+ * curve and planner loaded) and again after the page's main interaction. Serious and critical
+ * violations fail; moderate ones are printed so they can be read. Every scroll area must also be a
+ * named region a keyboard can reach.
+ */
 import fs from "node:fs";
 import { createRequire } from "node:module";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { launchBrowser, pageAs as signedInPage } from "./browser";
+import { ensureDesignStudy } from "./design-study";
 
 const baseUrl = inject("baseUrl");
 const axeSource = fs.readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
+const WIDTHS = [1280, 390] as const;
 let browser: Browser;
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -17,65 +26,233 @@ afterAll(async () => {
 
 type Violation = { id: string; impact: string | null; help: string; nodes: { target: string[] }[] };
 
-async function audit(page: Page): Promise<Violation[]> {
+const describeViolations = (vs: Violation[]) => vs.map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join(", ")}`).join("\n");
+
+/** Waits until the page has settled: no network for 500 ms and no client panel still loading. */
+async function settle(page: Page): Promise<void> {
+  await page.waitForLoadState("networkidle");
+  await page.waitForFunction(
+    () => {
+      if (document.querySelector('[aria-busy="true"]')) return false;
+      const text = document.body.textContent ?? "";
+      if (text.includes("Working out what the budget buys") || text.includes("Calculating…")) return false;
+      // The reach curve has drawn its points (or said why it could not).
+      for (const chart of Array.from(document.querySelectorAll('[data-testid="reach-chart"]'))) {
+        if (chart.getAttribute("data-points") === "0" && !chart.closest("section")?.querySelector(".alert")) return false;
+      }
+      return true;
+    },
+    null,
+    { timeout: 45_000, polling: 250 },
+  );
+  await page.waitForLoadState("networkidle");
+  // ScrollRegion measures its content after layout.
+  await page.waitForTimeout(250);
+}
+
+/** Scroll areas that a keyboard cannot reach or that have no name (stricter than axe, which accepts a focusable child). */
+async function unreachableScrollAreas(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const bad: string[] = [];
+    for (const el of Array.from(document.querySelectorAll<HTMLElement>("body *"))) {
+      const style = getComputedStyle(el);
+      const scrollsX = /(auto|scroll)/.test(style.overflowX) && el.scrollWidth > el.clientWidth + 1;
+      const scrollsY = /(auto|scroll)/.test(style.overflowY) && el.scrollHeight > el.clientHeight + 1 && el.tagName !== "TEXTAREA";
+      if (!scrollsX && !scrollsY) continue;
+      const named = el.getAttribute("aria-label") || el.getAttribute("aria-labelledby");
+      if (el.tabIndex < 0 || !named) bad.push(`${el.tagName.toLowerCase()}.${el.className} (${el.textContent?.slice(0, 40)})`);
+    }
+    return bad;
+  });
+}
+
+const failures: string[] = [];
+const moderate: string[] = [];
+
+/** Runs axe and the scroll-area check; records serious and critical findings as failures, prints moderate ones. */
+async function audit(page: Page, where: string): Promise<void> {
   await page.evaluate(axeSource);
   const result = (await page.evaluate(() => (window as unknown as { axe: { run: (ctx: Document, o: object) => Promise<{ violations: Violation[] }> } }).axe.run(document, { resultTypes: ["violations"] }))) as {
     violations: Violation[];
   };
-  return result.violations.filter((v) => v.impact === "serious" || v.impact === "critical");
+  const serious = result.violations.filter((v) => v.impact === "serious" || v.impact === "critical");
+  const mod = result.violations.filter((v) => v.impact === "moderate");
+  if (serious.length) failures.push(`${where}\n${describeViolations(serious)}`);
+  if (mod.length) moderate.push(`${where}\n${describeViolations(mod)}`);
+  const scroll = await unreachableScrollAreas(page);
+  if (scroll.length) failures.push(`${where}\nscroll area not reachable by keyboard or not named: ${scroll.join("; ")}`);
 }
 
-const describeViolations = (vs: Violation[]) => vs.map((v) => `${v.id} (${v.impact}): ${v.help} at ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join(", ")}`).join("\n");
+/** Ends a test: moderate findings printed, serious ones fail with every page they were found on. */
+function report(): void {
+  if (moderate.length) console.log(`axe, moderate (not failing):\n${moderate.join("\n\n")}`);
+  const found = failures.splice(0);
+  moderate.splice(0);
+  expect(found, found.join("\n\n")).toEqual([]);
+}
 
 // Playwright's evaluate is not subject to the page's CSP; bypassCSP keeps axe's own helpers working too.
-const pageAs = (email: string | null) => signedInPage(browser, baseUrl, email, { bypassCSP: true });
+const pageAs = (email: string | null, width: number) => signedInPage(browser, baseUrl, email, { bypassCSP: true, width });
 
-describe("accessibility (axe-core, serious and critical)", () => {
+async function visit(page: Page, path: string, where: string): Promise<void> {
+  await page.goto(`${baseUrl}${path}`);
+  await settle(page);
+  await audit(page, where);
+}
+
+async function scenarioIds(page: Page, studyId: number): Promise<{ id: number; name: string; state: string }[]> {
+  return page.evaluate(async (id) => (await (await fetch(`/api/v1/studies/${id}/scenarios`)).json()).scenarios, studyId);
+}
+
+/** The scenario form's main interaction: the target power changes and the results are recomputed. */
+async function changePowerAndWait(page: Page): Promise<void> {
+  const power = page.locator('input[name="inputs.design.power"]');
+  const before = await page.getByTestId("result-n").first().textContent();
+  await power.fill((await power.inputValue()) === "0.85" ? "0.8" : "0.85");
+  await page.waitForFunction((b) => document.querySelector('[data-testid="result-n"]')?.textContent !== b, before, { timeout: 30_000 });
+  await settle(page);
+}
+
+describe("accessibility (axe-core: serious and critical fail, moderate printed)", () => {
   it("sign-in page", async () => {
-    const page = await pageAs(null);
-    await page.goto(`${baseUrl}/sign-in`);
-    const v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-  });
-
-  it("studies list, scenario page and comparison", async () => {
-    const page = await pageAs("pi@demo.test");
-    await page.goto(`${baseUrl}/studies`);
-    let v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-    await page.getByRole("link", { name: /Walking Better/ }).click();
-    await page.getByRole("link", { name: "Clinic clusters" }).click();
-    await page.getByTestId("result-enrolled").waitFor();
-    await page.waitForTimeout(1500);
-    v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-    const studyUrl = page.url().replace(/\/scenarios\/\d+$/, "");
-    const ids = await page.evaluate(async (u) => {
-      const id = u.split("/").pop();
-      const res = await fetch(`/api/v1/studies/${id}/scenarios`);
-      return (await res.json()).scenarios.slice(0, 2).map((s: { id: number }) => s.id);
-    }, studyUrl);
-    await page.goto(`${studyUrl}/compare?ids=${ids.join("&ids=")}`);
-    v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-  });
-
-  it("rate book (grants officer) and admin pages", async () => {
-    const page = await pageAs("grants@demo.test");
-    await page.goto(`${baseUrl}/rate-book`);
-    let v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-    await page.getByRole("link", { name: "2027 rates" }).click();
-    await page.waitForURL(/\/rate-book\/\d+$/);
-    v = await audit(page);
-    expect(v, describeViolations(v)).toEqual([]);
-    const admin = await pageAs("admin@demo.test");
-    for (const path of ["/admin/accounts", "/admin/outbox"]) {
-      await admin.goto(`${baseUrl}${path}`);
-      v = await audit(admin);
-      expect(v, `${path}\n${describeViolations(v)}`).toEqual([]);
+    for (const w of WIDTHS) {
+      const page = await pageAs(null, w);
+      await visit(page, "/sign-in", `sign-in @${w}`);
+      await page.close();
     }
+    report();
   });
+
+  it("the investigator's pages: studies, study, calculator, new scenario, every demo scenario and one of every design, before and after a change", async () => {
+    const setup = await pageAs("pi@demo.test", 1280);
+    const designs = await ensureDesignStudy(setup, baseUrl);
+    const seeded = await scenarioIds(setup, 1);
+    for (const w of WIDTHS) {
+      const page = await pageAs("pi@demo.test", w);
+      for (const path of ["/studies", "/studies/1", `/studies/${designs.studyId}`, "/studies/1/calculator", "/studies/1/scenarios/new"]) await visit(page, path, `investigator ${path} @${w}`);
+      const all = [...seeded.map((s) => ({ ...s, studyId: 1 })), ...designs.scenarios.map((s) => ({ ...s, studyId: designs.studyId, state: "draft" }))];
+      for (const s of all) {
+        const where = `investigator scenario “${s.name}” @${w}`;
+        await visit(page, `/studies/${s.studyId}/scenarios/${s.id}`, where);
+        // The main interaction: a changed assumption and the results recomputed (at 390 px on the demo study's only).
+        // Not yet on cluster designs: their form refuses every change while the hidden Sites field is required
+        // (issue 13, item 1, fixed on the scenario form's own branch); drop the condition once that is merged.
+        const cluster = /clusters|Clinics/.test(s.name);
+        if (s.state === "draft" && !cluster && (w === 1280 || s.studyId === 1)) {
+          await changePowerAndWait(page);
+          await audit(page, `${where}, after a change recomputed the results`);
+        }
+      }
+      await page.close();
+    }
+    await setup.close();
+    report();
+  }, 1_500_000);
+
+  it("the co-investigator's read-only scenario page, before and after posting a comment", async () => {
+    const setup = await pageAs("pi@demo.test", 1280);
+    const seeded = await scenarioIds(setup, 1);
+    for (const w of WIDTHS) {
+      const page = await pageAs("coi@demo.test", w);
+      for (const s of seeded) await visit(page, `/studies/1/scenarios/${s.id}`, `co-investigator “${s.name}” @${w}`);
+      const s = seeded.find((x) => x.name === "Three sites, longer enrolment") ?? seeded[0]!;
+      await page.goto(`${baseUrl}/studies/1/scenarios/${s.id}`);
+      await settle(page);
+      await page.getByLabel("Add a comment").fill(`Accessibility check at ${w} pixels: is the enrolment rate realistic?`);
+      await page.getByRole("button", { name: "Post" }).click();
+      await page.getByTestId("comment-body").filter({ hasText: `Accessibility check at ${w} pixels` }).waitFor({ timeout: 15_000 });
+      await settle(page);
+      await audit(page, `co-investigator “${s.name}” @${w}, after posting a comment`);
+      await page.close();
+    }
+    await setup.close();
+    report();
+  }, 600_000);
+
+  it("the comparison of four scenarios (the demo study's, and four designs in three units)", async () => {
+    const setup = await pageAs("pi@demo.test", 1280);
+    const designs = await ensureDesignStudy(setup, baseUrl);
+    for (const w of WIDTHS) {
+      const page = await pageAs("pi@demo.test", w);
+      for (const studyId of [1, designs.studyId]) {
+        await page.goto(`${baseUrl}/studies/${studyId}`);
+        const boxes = page.getByRole("checkbox", { name: /^Compare / });
+        for (let k = 0; k < 4; k++) await boxes.nth(studyId === 1 ? k : k + 1).check();
+        await page.getByRole("button", { name: "Compare the chosen scenarios" }).click();
+        await page.waitForURL(/\/compare\?/);
+        await settle(page);
+        await audit(page, `comparison of four in study ${studyId} @${w}`);
+      }
+      await page.close();
+    }
+    await setup.close();
+    report();
+  }, 600_000);
+
+  it("the rate book with an open draft, and a rate sheet previewed; finance's view", async () => {
+    const grants = await pageAs("grants@demo.test", 1280);
+    // An open draft (back-dated, so that it never becomes the newest edition other tests compare with).
+    const draftId = await grants.evaluate(async () => {
+      const list = (await (await fetch("/api/v1/rate-book/editions")).json()).editions as { id: number; label: string; status: string }[];
+      const open = list.find((e) => e.label === "Accessibility check draft" && e.status === "draft");
+      if (open) return open.id;
+      const res = await fetch("/api/v1/rate-book/editions", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ label: "Accessibility check draft", effectiveDate: "2026-07-01" }) });
+      const body = await res.json();
+      if (!res.ok) throw new Error(JSON.stringify(body));
+      return (body.edition?.id ?? body.id) as number;
+    });
+    for (const w of WIDTHS) {
+      const page = await pageAs("grants@demo.test", w);
+      for (const path of ["/rate-book", "/rate-book/1", `/rate-book/${draftId}`, "/rate-book/compare", "/rate-book/audit", "/studies", "/studies/1"]) await visit(page, path, `grants officer ${path} @${w}`);
+      // The main interaction: a rate sheet uploaded and previewed.
+      await page.goto(`${baseUrl}/rate-book/${draftId}`);
+      await page.locator('input[type="file"][name="file"]').setInputFiles({
+        name: "rates.csv",
+        mimeType: "text/csv",
+        buffer: Buffer.from("section,key,name,value,category\r\nsetting,faRate,,0.57,\r\nprocedure,LAB-CBC,Complete blood count,28.50,laboratory\r\n"),
+      });
+      await page.getByRole("button", { name: "Upload and preview" }).click();
+      await page.waitForURL(/\/import\/\d+$/);
+      await settle(page);
+      await audit(page, `grants officer rate-sheet preview @${w}`);
+      await page.close();
+    }
+    await grants.close();
+    const finance = await pageAs("finance@demo.test", 1280);
+    for (const path of ["/rate-book", "/studies"]) await visit(finance, path, `finance ${path} @1280`);
+    report();
+  }, 600_000);
+
+  it("the admin pages", async () => {
+    for (const w of WIDTHS) {
+      const admin = await pageAs("admin@demo.test", w);
+      for (const path of ["/admin/accounts", "/admin/outbox"]) await visit(admin, path, `admin ${path} @${w}`);
+      await admin.close();
+    }
+    report();
+  }, 120_000);
+
+  it("the audit catches a scroll area a keyboard cannot reach (the budget table's wrapper before issue 21)", async () => {
+    const page = await pageAs("coi@demo.test", 1280);
+    const s = (await scenarioIds(page, 1)).find((x) => x.name === "Three sites, longer enrolment")!;
+    await page.goto(`${baseUrl}/studies/1/scenarios/${s.id}`);
+    await settle(page);
+    // The old markup beside the new: a bare overflow wrapper, no focus, no name, around a table wider than it.
+    await page.getByTestId("budget-table").evaluate((el) => {
+      const old = document.createElement("div");
+      old.className = "relative overflow-x-auto";
+      old.style.width = "392px";
+      old.innerHTML = el.innerHTML;
+      (old.querySelector("table") as HTMLElement).style.minWidth = "900px";
+      document.body.appendChild(old);
+    });
+    await audit(page, "old budget table wrapper");
+    const found = failures.splice(0);
+    moderate.splice(0);
+    expect(found.join("\n")).toMatch(/scrollable-region-focusable \(serious\)/);
+    expect(found.join("\n")).toMatch(/scroll area not reachable by keyboard or not named/);
+    await page.close();
+  }, 120_000);
 
   it("every main page fits a 390-pixel phone screen: only a table's own scroll area is wider", async () => {
     const sideways = async (page: Page, path: string) => {
@@ -96,10 +273,10 @@ describe("accessibility (axe-core, serious and critical)", () => {
     for (const path of ["/rate-book", "/rate-book/1", "/rate-book/compare", "/rate-book/audit"]) expect(await sideways(grants, path), path).toBeLessThanOrEqual(0);
     const admin = await signedInPage(browser, baseUrl, "admin@demo.test", { width: 390 });
     for (const path of ["/admin/accounts", "/admin/outbox"]) expect(await sideways(admin, path), path).toBeLessThanOrEqual(0);
-  }, 90_000);
+  }, 300_000);
 
   it("the sign-in form works by keyboard alone", async () => {
-    const page = await pageAs(null);
+    const page = await pageAs(null, 1280);
     await page.goto(`${baseUrl}/sign-in`);
     for (let k = 0; k < 6; k++) {
       await page.keyboard.press("Tab");

@@ -114,6 +114,11 @@ describe("read back with exceljs", () => {
     const summary = wb.getWorksheet("Summary")!;
     const scenarioCell = summary.getColumn(2).values.find((v) => typeof v === "string" && v.includes("HYPERLINK"));
     expect(scenarioCell).toBe(`'=HYPERLINK("http://evil.example","click")`);
+    // The design by its name, and the effect with its unit (issue 13), never the design's identifier.
+    const summaryText = (summary.getColumn(1).values as unknown[]).concat(summary.getColumn(2).values as unknown[]).map(String).join("\n");
+    expect(summaryText).toContain("Two independent means");
+    expect(summaryText).toContain("Minimum detectable effect at this n (standardized effect d)");
+    expect(summaryText).not.toMatch(/\btwo-means\b/);
     expect(budget.views[0]).toMatchObject({ state: "frozen" });
     expect(budget.pageSetup.orientation).toBe("landscape");
   });

@@ -7,6 +7,7 @@ import { isoDay } from "@/lib/rate-book/in-force";
 import { standingNote } from "@/lib/rate-book/standing-text";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate book" };
 
@@ -69,7 +70,7 @@ export default async function RateBookPage() {
           the study&apos;s planned start, or today if the study starts earlier.
         </p>
       </section>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Rate-book editions">
         <table className="table">
           <TableHead columns={["Edition", "Effective from", "Status", "Published"]} />
           <tbody>
@@ -87,7 +88,7 @@ export default async function RateBookPage() {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       {editor ? (
         <section className="card" aria-labelledby="new-draft">
           <h2 id="new-draft" className="mb-3">

@@ -6,6 +6,7 @@ import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Studies" };
 
@@ -28,7 +29,7 @@ export default async function StudiesPage() {
         <h1>Studies</h1>
         <p className="text-ink-soft">{scope}</p>
       </div>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Studies">
         {studies.length === 0 ? (
           <p className="p-5">No studies yet.</p>
         ) : (
@@ -54,7 +55,7 @@ export default async function StudiesPage() {
             </tbody>
           </table>
         )}
-      </div>
+      </ScrollRegion>
       {can(user, "study.create") ? (
         <section className="card" aria-labelledby="new-study">
           <h2 id="new-study" className="mb-3">

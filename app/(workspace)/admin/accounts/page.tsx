@@ -5,6 +5,7 @@ import { can } from "@/lib/auth/permissions";
 import { ROLE_LABELS } from "@/lib/auth/roles";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Accounts" };
 
@@ -25,7 +26,7 @@ export default async function AccountsPage() {
         <h1>Accounts</h1>
         <p className="text-ink-soft">Who can sign in, and in which role. Changes take effect on the person&apos;s next request.</p>
       </div>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Accounts">
         <table className="table">
           <TableHead columns={["Name", "E-mail", "Role", "Status", "Change"]} />
           <tbody>
@@ -44,7 +45,7 @@ export default async function AccountsPage() {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <section className="card" aria-labelledby="new-account">
         <h2 id="new-account" className="mb-3">
           New account

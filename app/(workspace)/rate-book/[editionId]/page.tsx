@@ -22,6 +22,7 @@ import {
   updateSettingAction,
 } from "../actions";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate-book edition" };
 
@@ -97,10 +98,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         </section>
       ) : null}
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="settings">
+      <section className="card p-0" aria-labelledby="settings">
         <h2 id="settings" className="px-5 pt-4">
           Rates and settings
         </h2>
+        <ScrollRegion label="Table of rates and settings">
         <table className="table">
           <TableHead columns={["Setting", { label: "Value", num: true }, editable && "Change"]} />
           <tbody>
@@ -132,12 +134,14 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
       </section>
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="fringe">
+      <section className="card p-0" aria-labelledby="fringe">
         <h2 id="fringe" className="px-5 pt-4">
           Fringe rates by staff category
         </h2>
+        <ScrollRegion label="Table of fringe rates">
         <table className="table">
           <TableHead columns={["Category", { label: "Rate", num: true }, editable && "Change"]} />
           <tbody>
@@ -155,6 +159,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
         {editable ? (
           <div className="border-t border-rule p-4">
             <p className="mb-2 text-sm font-medium">Add a staff category</p>
@@ -171,10 +176,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         ) : null}
       </section>
 
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="procedures">
+      <section className="card p-0" aria-labelledby="procedures">
         <h2 id="procedures" className="px-5 pt-4">
           Procedure catalogue
         </h2>
+        <ScrollRegion label="Table of procedures">
         <table className="table">
           <TableHead columns={["Code", "Procedure", "Category", { label: "Unit cost", num: true }, editable && "Change"]} />
           <tbody>
@@ -203,6 +209,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
         {editable ? (
           <div className="border-t border-rule p-4">
             <p className="mb-2 text-sm font-medium">Add a procedure</p>

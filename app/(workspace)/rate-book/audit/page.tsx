@@ -4,6 +4,7 @@ import { listRateBookAudit } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate-book change history" };
 
@@ -25,7 +26,7 @@ export default async function AuditPage() {
       </nav>
       <h1>Change history</h1>
       <p className="text-ink-soft">Every change to a rate-book edition: who, when, which field, the old and the new value.</p>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Rate-book changes">
         <table className="table" data-testid="audit">
           <TableHead columns={["When (UTC)", "Who", "Edition", "What", "Field", { label: "Old", num: true }, { label: "New", num: true }]} />
           <tbody>
@@ -44,7 +45,7 @@ export default async function AuditPage() {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
     </div>
   );
 }

@@ -7,6 +7,7 @@ import { SETTING_FIELDS } from "@/lib/rate-book/fields";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Compare editions" };
 
@@ -52,7 +53,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
         </button>
       </form>
       <p className="text-sm text-ink-soft">Changed values are highlighted.</p>
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Rates of the two editions">
         <table className="table">
           <TableHead columns={["Rate", { label: a.label, num: true }, { label: b.label, num: true }]} />
           <tbody>
@@ -92,7 +93,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             })}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
     </div>
   );
 }

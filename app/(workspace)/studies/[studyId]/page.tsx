@@ -8,7 +8,10 @@ import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
+import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
+import { designName } from "@/lib/power/design-names";
+import { formatEffect } from "@/lib/power/effect-units";
 
 export const metadata: Metadata = { title: "Study" };
 
@@ -53,7 +56,7 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
           The scenario was deleted.
         </p>
       ) : null}
-      <section className="card relative overflow-x-auto p-0" aria-labelledby="scenarios-heading">
+      <section className="card p-0" aria-labelledby="scenarios-heading">
         <div className="flex flex-wrap items-center justify-between gap-3 px-5 pt-4">
           <h2 id="scenarios-heading">Scenarios</h2>
           {mayCreate ? (
@@ -66,30 +69,35 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
           <p className="p-5 text-ink-soft">{user.role === "finance" ? "No scenario of this study is in review or cleared yet." : "No scenarios yet."}</p>
         ) : (
           <form action={`/studies/${study.id}/compare`} method="get">
-            <table className="table">
-              <TableHead columns={[<span key="c" className="sr-only">Compare</span>, "Scenario", "State", { label: "Evaluable", num: true }, { label: "Sites · months", num: true }, { label: "MDES", num: true }, { label: "Total", num: true }]} />
-              <tbody>
-                {scenarios.map((sc) => (
-                  <tr key={sc.id}>
-                    <td>
-                      <input type="checkbox" name="ids" value={sc.id} aria-label={`Compare ${sc.name}`} />
-                    </td>
-                    <td>
-                      <Link href={`/studies/${study.id}/scenarios/${sc.id}`}>{sc.name}</Link>
-                    </td>
-                    <td>
-                      <span className={sc.state === "cleared" ? "badge" : "badge badge-muted"}>{STATE[sc.state]}</span>
-                    </td>
-                    <td className="num">{sc.headline.nTotal}</td>
-                    <td className="num">
-                      {sc.headline.sites} · {sc.headline.monthsToEnrol}
-                    </td>
-                    <td className="num">{sc.headline.mdes.toFixed(3)}</td>
-                    <td className="num">{formatMoney(sc.headline.total, { cents: false })}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <ScrollRegion label="Scenarios of this study">
+              <table className="table" data-testid="scenario-list">
+                <TableHead columns={[<span key="c" className="sr-only">Compare</span>, "Scenario", "Design", "State", { label: "Evaluable", num: true }, { label: "Sites · months", num: true }, { label: "MDES", num: true }, { label: "Total", num: true }]} />
+                <tbody>
+                  {scenarios.map((sc) => (
+                    <tr key={sc.id}>
+                      <td>
+                        <input type="checkbox" name="ids" value={sc.id} aria-label={`Compare ${sc.name}`} />
+                      </td>
+                      <td>
+                        <Link href={`/studies/${study.id}/scenarios/${sc.id}`}>{sc.name}</Link>
+                      </td>
+                      <td className="text-sm">{designName(sc.headline.design)}</td>
+                      <td>
+                        <span className={sc.state === "cleared" ? "badge" : "badge badge-muted"}>{STATE[sc.state]}</span>
+                      </td>
+                      <td className="num">{sc.headline.nTotal}</td>
+                      <td className="num">
+                        {sc.headline.sites} · {sc.headline.monthsToEnrol}
+                      </td>
+                      <td className="num whitespace-nowrap" data-testid="scenario-mdes">
+                        {formatEffect(sc.headline.effectName, sc.headline.mdes)}
+                      </td>
+                      <td className="num">{formatMoney(sc.headline.total, { cents: false })}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
             {scenarios.length > 1 ? (
               <div className="p-4">
                 <button type="submit" className="btn btn-quiet">

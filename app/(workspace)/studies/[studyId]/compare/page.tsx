@@ -6,13 +6,15 @@ import { formatMoney } from "@/lib/format/money";
 import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
+import { ScrollRegion } from "@/components/scroll-region";
+import { effectUnit, formatEffect, sameUnit } from "@/lib/power/effect-units";
 
 export const metadata: Metadata = { title: "Compare scenarios" };
 
-type Row = { label: string; values: (s: ScenarioDetail) => string };
+type Row = { label: string; values: (s: ScenarioDetail) => string; nowrap?: boolean };
 
 const pct = (v: number) => `${Math.round(v * 100)}%`;
-const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
+const STATE_LABEL: Record<string, string> = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" };
 const ROWS: { section: string; rows: Row[] }[] = [
   {
     section: "Assumptions",
@@ -20,7 +22,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
       { label: "Design", values: (s) => designName(s.inputs.design.design) },
       { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
       { label: "Target power", values: (s) => String(s.inputs.design.power) },
-      { label: "Target effect", values: (s) => s.results.targetEffect.toFixed(3) },
+      { label: "Target effect", values: (s) => formatEffect(s.results.effectName, s.results.targetEffect), nowrap: true },
       { label: "Attrition", values: (s) => pct(s.inputs.recruitment.attrition) },
       { label: "Screen failure", values: (s) => pct(s.inputs.recruitment.screenFailure) },
       { label: "Enrolled per site per month", values: (s) => String(s.inputs.recruitment.ratePerSiteMonth) },
@@ -41,7 +43,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
   {
     section: "What it buys",
     rows: [
-      { label: "MDES at the planned n", values: (s) => s.results.mdes.toFixed(3) },
+      { label: "MDES at the planned n", values: (s) => formatEffect(s.results.effectName, s.results.mdes), nowrap: true },
       { label: "Power at the target", values: (s) => s.results.powerAtTarget.toFixed(3) },
     ],
   },
@@ -95,7 +97,13 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
           Download the comparison workbook
         </a>
       </div>
-      <div className="card relative overflow-x-auto p-0">
+      {!sameUnit(list.map((s) => s.results.effectName)) ? (
+        <p className="notice" data-testid="mixed-units">
+          These scenarios measure their effects in different units ({[...new Set(list.map((s) => effectUnit(s.results.effectName).noun))].join(", ")}). Each effect is shown with its unit; compare
+          effects only between scenarios that share one.
+        </p>
+      ) : null}
+      <ScrollRegion className="card p-0" label="Comparison of the chosen scenarios">
         <table className="table" data-testid="comparison">
           <thead>
             <tr>
@@ -105,7 +113,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
               {list.map((s) => (
                 <th key={s.id} scope="col" className="num normal-case tracking-normal">
                   <Link href={`/studies/${studyId}/scenarios/${s.id}`}>{s.name}</Link>
-                  <span className="block text-[10px] font-normal normal-case">{STATE_LABEL[s.state]}</span>
+                  <span className="block text-[10px] font-normal normal-case">{STATE_LABEL[s.state] ?? s.state}</span>
                 </th>
               ))}
             </tr>
@@ -126,7 +134,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
                       {row.label}
                     </th>
                     {values.map((v, k) => (
-                      <td key={k} className={`num ${differs ? "bg-brass-tint font-semibold" : ""}`} data-differs={differs || undefined}>
+                      <td key={k} className={`num ${row.nowrap ? "whitespace-nowrap" : ""} ${differs ? "bg-brass-tint font-semibold" : ""}`} data-differs={differs || undefined}>
                         {v}
                       </td>
                     ))}
@@ -136,7 +144,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
             </tbody>
           ))}
         </table>
-      </div>
+      </ScrollRegion>
       <p className="text-xs text-ink-soft">The figures support, and do not replace, review by a statistician and by the grants office.</p>
     </div>
   );

@@ -8,6 +8,7 @@ import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { finishImportAction } from "../../../actions";
 import { TableHead } from "@/components/table-head";
+import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate-sheet preview" };
 
@@ -50,7 +51,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
           </ul>
         </section>
       ) : null}
-      <div className="card relative overflow-x-auto p-0">
+      <ScrollRegion className="card p-0" label="Changes the rate sheet would make">
         <table className="table">
           <TableHead columns={["Row", "Section", "Key", { label: "Now", num: true }, { label: "From the sheet", num: true }, "Effect"]} />
           <tbody>
@@ -71,7 +72,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <form action={finishImportAction} className="flex gap-3">
         <input type="hidden" name="importId" value={view.id} />
         <button type="submit" name="decision" value="commit" className="btn" disabled={view.errors.length > 0}>

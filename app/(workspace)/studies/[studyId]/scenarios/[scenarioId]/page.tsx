@@ -11,6 +11,7 @@ import { getScenario } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { mismatchLines } from "@/lib/planning/justification-figures";
+import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { notFound } from "next/navigation";
@@ -50,7 +51,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             </span>
           </h1>
           <p className="text-sm text-ink-soft">
-            Costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
+            <span data-testid="scenario-design">{designName(s.inputs.design.design)}</span> · costed with “{edition.label}” (effective {edition.effectiveDate}) · sponsor cap {formatMoney(s.study.sponsorCap, { cents: false })} · version {s.version}
           </p>
         </div>
         <div className="flex flex-wrap items-start gap-2">
@@ -113,7 +114,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           </div>
         </div>
       )}
-      <PlannerPanel scenarioId={s.id} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
+      <PlannerPanel scenarioId={s.id} effectName={s.results.effectName} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
       <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
     </div>
