@@ -54,6 +54,8 @@ export type Visit = {
   /** Months after enrolment (0 = the enrolment visit). */
   month: number;
   procedures: { code: string; unitCost?: string }[];
+  /** Procedures not in the rate book, each with its own cost per visit attended; the grants office reviews them. */
+  oneOff?: { name: string; unitCost: string }[];
 };
 
 export type Timeline = {
