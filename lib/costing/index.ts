@@ -1,6 +1,6 @@
 /** The costing engine: pure, decimal.js for every amount. */
 export * from "./types";
-export { computeLedger, CostingError, ONE_OFF_MARK, type Ledger, type LedgerLine, type CapChecks } from "./ledger";
+export { computeLedger, CostingError, type Ledger, type LedgerLine, type CapChecks } from "./ledger";
 export { computeTimeline, sitesNeeded, budgetPeriods, allocate, TimelineError, type Period, type TimelineResult } from "./timeline";
 export { faBaseByLine, faBaseOfAmounts } from "./fa";
 export { approximateTotals, buildCostStructure, priceStructure, type CostStructure } from "./ledger";

@@ -10,11 +10,11 @@ import { cents, D, sum, toCents, ZERO, type Money } from "./money";
 import { allocate, computeTimeline, periodOfMonth, type Period, type TimelineResult } from "./timeline";
 import { approximate, exact, type Arith } from "./arith";
 import { faBaseByLine } from "./fa";
-import type { CostCategory, CostInputs, RateBook } from "./types";
+import { ONE_OFF_MARK, type CostCategory, type CostInputs, type RateBook } from "./types";
 
 export class CostingError extends Error {
   readonly code = "costing";
-  /** The scenario input the message is about, where one is (e.g. "inputs.visits[0].procedures"). */
+  /** The scenario input the message is about, where one is (as the API names it: "inputs.visits.0.procedures"). */
   constructor(
     message: string,
     readonly field?: string,
@@ -75,9 +75,6 @@ export type CapChecks = {
   directPerYear: { cap: string; byPeriod: { direct: string; within: boolean }[]; within: boolean } | null;
   modular: { eligible: boolean; modulesByPeriod: number[]; requestedByPeriod: string[]; reason: string | null } | null;
 };
-
-/** How a one-off procedure's line is marked wherever it is shown: the ledger, the page, the workbook. */
-export const ONE_OFF_MARK = "(one-off, for the grants office's review)";
 
 /** A code the rate book does not have: only the API can send one (the page offers the rate book's list). */
 function unknownProcedure(visit: string, code: string, rates: RateBook): string {
@@ -201,7 +198,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     byPeriod.forEach((q, p) => (attendance[p]! += q));
     for (const proc of visit.procedures) {
       const entry = catalogue.get(proc.code);
-      if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits[${inputs.visits.indexOf(visit)}].procedures`);
+      if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
       const unit = proc.unitCost ?? entry!.unitCost;
       count(`${proc.code}@${unit}`, unit, `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, false, byPeriod);
     }

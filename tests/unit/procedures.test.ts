@@ -111,6 +111,6 @@ describe("pricing one-off procedures (worked by hand)", () => {
     expect((err as CostingError).message).toBe(
       'Visit "Month 6": the procedure code MRI is not in the rate book\'s edition "2027 rates". Pick a procedure from the rate book, or add it as a one-off procedure with its name and cost per visit.',
     );
-    expect((err as CostingError).field).toBe("inputs.visits[1].procedures");
+    expect((err as CostingError).field).toBe("inputs.visits.1.procedures");
   });
 });

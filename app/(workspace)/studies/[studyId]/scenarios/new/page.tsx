@@ -42,7 +42,9 @@ export default async function NewScenarioPage({ params }: { params: Promise<{ st
       </nav>
       <h1>New scenario</h1>
       {!edition ? <p className="alert">No rate-book edition is published yet; the grants office must publish one before scenarios can be costed.</p> : null}
-      <ScenarioForm studyId={study.id} name="" inputs={start} initialResults={null} sponsorCap={study.sponsorCap} fringeCategories={edition?.fringe.map((f) => f.category) ?? []} />
+      <ScenarioForm studyId={study.id} name="" inputs={start} initialResults={null} sponsorCap={study.sponsorCap} fringeCategories={edition?.fringe.map((f) => f.category) ?? []}
+        procedureCatalogue={edition?.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost })) ?? []}
+      />
     </div>
   );
 }
