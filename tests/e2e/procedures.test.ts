@@ -5,14 +5,17 @@
  * pricing of one-off procedures is worked by hand in tests/unit/procedures.test.ts), and the one-off is
  * marked for the grants office's review, which the grants officer sees too.
  */
+import fs from "node:fs";
+import path from "node:path";
 import Database from "better-sqlite3";
+import Decimal from "decimal.js";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Locator, Page } from "playwright-core";
 import { formatMoney } from "@/lib/format/money";
 import { computeScenario } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { demoRateBook } from "@/scripts/demo-data";
-import { launchBrowser, pageAs, screenshot } from "./browser";
+import { launchBrowser, pageAs, screenshot, SCREENSHOT_DIR } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -20,6 +23,7 @@ const SCENARIO = "Three sites, longer enrolment";
 let browser: Browser;
 let page: Page;
 let url = "";
+let originalTotal = "";
 let stored: { inputs: ScenarioInputs; editionId: number; startDate: string; sponsorCap: string | null };
 
 beforeAll(async () => {
@@ -44,6 +48,15 @@ const visit = (n: number): Locator => page.getByRole("group", { name: `Visit ${n
 const picker = (n: number) => visit(n).getByRole("combobox", { name: "Rate-book procedures" });
 const chips = (n: number) => visit(n).getByRole("list", { name: `Rate-book procedures chosen for Visit ${n}` });
 
+/** A close look at one part of the page, with room below it for an open list. */
+async function closeUp(p: Page, l: Locator, name: string, below = 0): Promise<void> {
+  await l.scrollIntoViewIfNeeded();
+  const box = (await l.boundingBox())!;
+  const viewport = p.viewportSize()!;
+  fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  await p.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), clip: { x: 0, y: Math.max(0, box.y - 8), width: viewport.width, height: Math.min(viewport.height - Math.max(0, box.y - 8), box.height + 16 + below) } });
+}
+
 describe("procedures on a visit", () => {
   it("adds a rate-book procedure with the picker, typing part of its name", async () => {
     await page.getByRole("link", { name: /Walking Better/ }).click();
@@ -52,7 +65,8 @@ describe("procedures on a visit", () => {
     url = page.url();
     await page.getByTestId("result-total").waitFor();
     // The page's figures are the engine's for the stored inputs.
-    expect(await page.getByTestId("result-total").textContent()).toBe(formatMoney(expectedTotal((v) => v)));
+    originalTotal = (await page.getByTestId("result-total").textContent())!;
+    expect(originalTotal).toBe(formatMoney(expectedTotal((v) => v)));
     expect(await chips(1).getByRole("listitem").count()).toBe(stored.inputs.visits[0]!.procedures.length);
 
     await picker(1).click();
@@ -61,7 +75,7 @@ describe("procedures on a visit", () => {
     await option.waitFor();
     expect(await visit(1).getByRole("option").count()).toBe(1);
     expect(await option.textContent()).toContain("$75.00");
-    await screenshot(page, "procedure-picker-1440");
+    await closeUp(page, visit(1), "procedure-picker-1440", 120);
     await option.click();
     await chips(1).getByText("Walking coach session").waitFor();
     expect(await option.getAttribute("aria-selected")).toBe("true");
@@ -97,6 +111,9 @@ describe("procedures on a visit", () => {
     await page.keyboard.press("Enter");
     await chips(2).getByText("Gait and walking-speed assessment").waitFor({ state: "detached" });
     expect(await picker(2).evaluate((el) => el === document.activeElement)).toBe(true);
+    // The search text stays after a choice (so a neighbour can be chosen too); select it and type anew.
+    expect(await picker(2).inputValue()).toBe("gait");
+    await page.keyboard.press("Control+A");
     await page.keyboard.type("GAIT");
     await page.keyboard.press("Enter");
     await chips(2).getByText("Gait and walking-speed assessment").waitFor();
@@ -117,7 +134,6 @@ describe("procedures on a visit", () => {
   });
 
   it("saves; the total moves by the expected amount and the one-off is marked for review", async () => {
-    const before = await page.getByTestId("result-total").textContent();
     const version = await page.getByText(/· version \d+/).textContent();
     await page.getByRole("button", { name: "Save changes" }).click();
     await page.waitForFunction((v) => ![...document.querySelectorAll("p")].some((p) => p.textContent === v), version);
@@ -128,8 +144,13 @@ describe("procedures on a visit", () => {
       visits[1]!.procedures.push("GAIT");
       return visits;
     });
-    expect(before).toBe(formatMoney(expectedTotal((v) => v)));
-    expect(await page.getByTestId("result-total").textContent()).toBe(formatMoney(expected));
+    const saved = (await page.getByTestId("result-total").textContent())!;
+    expect(saved).toBe(formatMoney(expected));
+    // The change the person sees is the engine's change for the three additions.
+    const dollars = (t: string) => new Decimal(t.replace(/[$,]/g, ""));
+    const moved = dollars(saved).minus(dollars(originalTotal));
+    expect(moved.toFixed(2)).toBe(new Decimal(expected).minus(expectedTotal((v) => v)).toFixed(2));
+    expect(moved.greaterThan(0)).toBe(true);
     // What was saved is what the form shows again.
     await chips(1).getByText("Walking coach session").waitFor();
     await chips(2).getByText("Gait and walking-speed assessment").waitFor();
@@ -141,6 +162,8 @@ describe("procedures on a visit", () => {
     await page.getByText(/^Cost lines/).click();
     await page.getByRole("cell", { name: /Wound photograph \(one-off, for the grants office's review\)/ }).waitFor();
     await screenshot(page, "procedures-saved-1440");
+    await closeUp(page, visit(1), "procedures-visit-saved-1440");
+    await closeUp(page, page.getByTestId("one-off-review"), "procedures-review-note-1440");
   });
 
   it("the grants officer sees the one-off marked for review", async () => {
@@ -160,8 +183,8 @@ describe("procedures on a visit", () => {
     await phone.goto(url);
     await phone.getByRole("group", { name: "Visit 1", exact: true }).getByRole("combobox", { name: "Rate-book procedures" }).click();
     await phone.keyboard.type("lab");
+    await closeUp(phone, phone.getByRole("group", { name: "Visit 1", exact: true }), "procedure-picker-390", 160);
     expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
-    await screenshot(phone, "procedure-picker-390");
     await phone.close();
   });
 });
