@@ -114,11 +114,17 @@ export function ProcedurePicker({
           {chosen.map((code) => {
             const p = byCode.get(code);
             return (
-              <li key={code} className={`flex items-center gap-1 rounded-full border py-0.5 pl-2.5 pr-1 text-sm ${p ? "border-rule bg-ledger-tint" : "border-signal bg-signal-tint"}`}>
-                <span className="num text-xs">{code}</span>
-                <span>{p ? p.name : "not in this rate-book edition"}</span>
-                {p ? <span className="num text-xs text-ink-soft">{formatMoney(p.unitCost)}</span> : null}
-                <button type="button" className="rounded-full px-1.5 leading-none text-ink-soft hover:bg-white hover:text-signal" aria-label={`Remove ${p ? p.name : code} (${code}) from ${visitLabel}`} onClick={() => remove(code)}>
+              <li key={code} className={`flex max-w-full items-center gap-1 rounded-2xl border py-0.5 pr-0.5 pl-2.5 text-sm ${p ? "border-rule bg-ledger-tint" : "border-signal bg-signal-tint"}`}>
+                <span className="min-w-0">
+                  <span className="num text-xs whitespace-nowrap">{code}</span> {p ? p.name : "not in this rate-book edition"}{" "}
+                  {p ? <span className="num text-xs whitespace-nowrap text-ink-soft">{formatMoney(p.unitCost)}</span> : null}
+                </span>
+                <button
+                  type="button"
+                  className="flex h-6 w-6 shrink-0 items-center justify-center rounded-full leading-none text-ink-soft hover:bg-white hover:text-signal"
+                  aria-label={`Remove ${p ? p.name : code} (${code}) from ${visitLabel}`}
+                  onClick={() => remove(code)}
+                >
                   ×
                 </button>
               </li>
@@ -178,7 +184,7 @@ export function ProcedurePicker({
                 <span aria-hidden="true" className="w-3 text-ledger">
                   {selected ? "✓" : ""}
                 </span>
-                <span className="num w-28 shrink-0 text-xs">{p.code}</span>
+                <span className="num w-24 shrink-0 text-xs break-all sm:w-28">{p.code}</span>
                 <span className="min-w-0 flex-1">{p.name}</span>
                 <span className="num text-xs">{formatMoney(p.unitCost)}</span>
               </li>
