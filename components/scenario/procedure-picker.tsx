@@ -157,7 +157,7 @@ export function ProcedurePicker({
           setActive(0);
           setOpen(true);
         }}
-        onFocus={() => setOpen(true)}
+        // Opens on a click, on typing or on ↓, not on focus: tabbing through the form does not pop the list up.
         onClick={() => setOpen(true)}
         onKeyDown={onKeyDown}
       />
