@@ -1,4 +1,6 @@
 import type { ScenarioResults } from "@/lib/planning/compute";
+import type { LedgerLine } from "@/lib/costing";
+import { ONE_OFF_MARK } from "@/lib/costing/types";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
 import { ScrollRegion } from "@/components/scroll-region";
@@ -7,6 +9,30 @@ import { formatEffect } from "@/lib/power/effect-units";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
+
+/**
+ * One-off procedures are priced by the investigator, not the rate book: a short note beside the ledger
+ * lists them for the grants office's review (the lines themselves say so too).
+ */
+function OneOffNote({ lines }: { lines: LedgerLine[] }) {
+  const oneOffs = lines.filter((x) => x.review === "one-off");
+  if (!oneOffs.length) return null;
+  return (
+    <div className="notice" data-testid="one-off-review">
+      <p className="font-medium">For the grants office&apos;s review: {oneOffs.length === 1 ? "a one-off procedure" : `${oneOffs.length} one-off procedures`} not in the rate book</p>
+      <ul className="mt-1 flex flex-col gap-0.5">
+        {oneOffs.map((x) => (
+          <li key={x.key} className="flex flex-wrap justify-between gap-x-3">
+            <span>
+              {x.label.replace(` ${ONE_OFF_MARK}`, "")}, {formatMoney(x.unitCost)} a visit
+            </span>
+            <span className="num">{formatMoney(x.total)}</span>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
 
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
 export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
@@ -127,6 +153,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       <p className="-mt-2 text-xs text-ink-soft">
         F&amp;A at {formatRate(l.faRate)} of the {l.faBase === "mtdc" ? "MTDC" : "TDC"} base. Each period is 12 months from the month shown, unless a shorter length is given.
       </p>
+      <OneOffNote lines={l.lines} />
       <details>
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
         <ScrollRegion label="Cost lines" className="mt-2">
@@ -134,8 +161,11 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
             <TableHead columns={["Line", "Category", { label: "Total", num: true }]} />
             <tbody>
               {l.lines.map((line) => (
-                <tr key={line.key}>
-                  <td>{line.label}</td>
+                <tr key={line.key} data-review={line.review}>
+                  <td>
+                    {line.label}
+                    {line.review === "one-off" ? <span className="badge badge-muted ml-1.5">review</span> : null}
+                  </td>
                   <td>{line.category}</td>
                   <td className="num">{formatMoney(line.total)}</td>
                 </tr>

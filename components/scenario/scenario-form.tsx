@@ -6,7 +6,7 @@ import { useActionState, useEffect, useRef, useState, type ChangeEvent, type Rea
 import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
-import { designSchema, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { designSchema, PROCEDURE_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { designTemplate } from "@/lib/planning/templates";
 import { DESIGN_NAMES } from "@/lib/power/design-names";
 import type { Design } from "@/lib/power/schema";
@@ -15,6 +15,7 @@ import { snapshotField } from "../form/field-snapshot";
 import { keptSubmit } from "../form/kept-submit";
 import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { PilotUpload } from "./pilot-upload";
+import { ProcedurePicker, type CatalogueProcedure } from "./procedure-picker";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
 
@@ -36,12 +37,23 @@ function effectInputOf(d: ScenarioInputs["design"]): "difference" | "d" {
   return d.effectInput ?? (d.meanDifference === undefined && d.effectSize !== undefined ? "d" : "difference");
 }
 
+/** A visit as the form's values: the picker's codes, and one-off procedures as name and cost. */
+function visitFormValues(v: ScenarioInputs["visits"][number]) {
+  return { name: v.name, month: String(v.month), procedures: v.procedures.join(", "), oneOffProcedures: (v.oneOffProcedures ?? []).map((o) => ({ name: o.name, cost: o.cost })) };
+}
+
+/** The picker's codes from the form's initial value of a visit ("A, B" from toFormValues; nothing for a new visit). */
+function codesOf(initial: unknown): string[] {
+  const parts = Array.isArray(initial) ? initial.map(String) : typeof initial === "string" ? initial.split(/[\s,;]+/) : [];
+  return parts.map((c) => c.trim()).filter(Boolean);
+}
+
 /** The stored inputs as the form's strings. */
 function toFormValues(i: ScenarioInputs) {
   return {
     design: { ...strings(i.design), effectInput: effectInputOf(i.design) },
     recruitment: strings(i.recruitment),
-    visits: i.visits.map((v) => ({ name: v.name, month: str(v.month), procedures: v.procedures.join(", ") })),
+    visits: i.visits.map(visitFormValues),
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
   };
@@ -151,6 +163,7 @@ export function ScenarioForm({
   sponsorCap,
   fringeCategories,
   startedFrom,
+  procedureCatalogue,
 }: {
   studyId: number;
   scenarioId?: number;
@@ -162,6 +175,8 @@ export function ScenarioForm({
   fringeCategories: string[];
   /** New scenarios: what the form was filled from, said on the page ("a blank … template", "a copy of …"). */
   startedFrom?: string;
+  /** The rate book's procedures of the scenario's edition (or the edition in force, for a new scenario). */
+  procedureCatalogue: CatalogueProcedure[];
 }) {
   const [lastResult, action, pending] = useActionState(saveScenarioAction, undefined);
   const [form, fields] = useForm({
@@ -400,18 +415,48 @@ export function ScenarioForm({
         <Section title="Visit schedule" id="sec-visits">
           {visits.map((v, idx) => {
             const f = v.getFieldset();
+            const oneOffs = f.oneOffProcedures.getFieldList();
+            const visitLabel = `Visit ${idx + 1}`;
             return (
-              <div key={v.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-[1fr_6rem_2fr_auto]">
-                <Text meta={f.name} label={`Visit ${idx + 1}`} />
-                <Text meta={f.month} label="Month" />
-                <Text meta={f.procedures} label="Procedures (codes)" hint="From the rate book, comma-separated" />
-                <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger justify-self-start py-1">
-                  Remove
+              <div key={v.key} role="group" aria-label={visitLabel} className="flex flex-col gap-3 border-b border-rule pb-4">
+                <div className="grid items-end gap-3 sm:grid-cols-[1fr_6rem_auto]">
+                  <Text meta={f.name} label={visitLabel} />
+                  <Text meta={f.month} label="Month" />
+                  <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger justify-self-start py-1">
+                    Remove
+                  </button>
+                </div>
+                <ProcedurePicker
+                  name={f.procedures.name}
+                  label={PROCEDURE_LABELS.picker}
+                  visitLabel={visitLabel}
+                  catalogue={procedureCatalogue}
+                  defaultCodes={codesOf(f.procedures.initialValue)}
+                  errors={f.procedures.errors}
+                />
+                {oneOffs.map((o, k) => {
+                  const g = o.getFieldset();
+                  return (
+                    <div key={o.key} className="grid items-end gap-3 rounded-md border border-brass/40 bg-brass-tint/40 p-3 sm:grid-cols-[2fr_1fr_auto]">
+                      <Text meta={g.name} label={PROCEDURE_LABELS.oneOffName} hint="Not in the rate book: for the grants office's review" />
+                      <Text meta={g.cost} label={PROCEDURE_LABELS.oneOffCost} hint="Dollars per participant visit" />
+                      <button
+                        {...form.remove.getButtonProps({ name: f.oneOffProcedures.name, index: k })}
+                        className="btn btn-danger justify-self-start py-1"
+                        aria-label={`Remove one-off procedure ${k + 1} from ${visitLabel}`}
+                      >
+                        Remove
+                      </button>
+                    </div>
+                  );
+                })}
+                <button {...form.insert.getButtonProps({ name: f.oneOffProcedures.name, defaultValue: { name: "", cost: "" } })} className="btn btn-quiet self-start py-1 text-sm">
+                  Add a one-off procedure
                 </button>
               </div>
             );
           })}
-          <button {...form.insert.getButtonProps({ name: i.visits.name, defaultValue: { name: "", month: "", procedures: "" } })} className="btn btn-quiet self-start">
+          <button {...form.insert.getButtonProps({ name: i.visits.name, defaultValue: { name: "", month: "", procedures: "", oneOffProcedures: [] } })} className="btn btn-quiet self-start">
             Add a visit
           </button>
         </Section>

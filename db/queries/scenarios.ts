@@ -110,7 +110,8 @@ function compute(inputs: ScenarioInputs, rates: Parameters<typeof computeScenari
     return computeScenario(inputs, rates, study);
   } catch (err) {
     if (err instanceof ScenarioError || err instanceof UnreachableError || err instanceof PowerInputError || err instanceof TimelineError || err instanceof CostingError) {
-      throw new HttpError(422, "cannot-compute", err.message);
+      const field = err instanceof CostingError ? err.field : undefined;
+      throw new HttpError(422, "cannot-compute", err.message, field ? { [field]: [err.message] } : undefined);
     }
     throw err;
   }

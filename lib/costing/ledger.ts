@@ -10,10 +10,17 @@ import { cents, D, sum, toCents, ZERO, type Money } from "./money";
 import { allocate, computeTimeline, periodOfMonth, type Period, type TimelineResult } from "./timeline";
 import { approximate, exact, type Arith } from "./arith";
 import { faBaseByLine } from "./fa";
-import type { CostCategory, CostInputs, RateBook } from "./types";
+import { ONE_OFF_MARK, type CostCategory, type CostInputs, type RateBook } from "./types";
 
 export class CostingError extends Error {
   readonly code = "costing";
+  /** The scenario input the message is about, where one is (as the API names it: "inputs.visits.0.procedures"). */
+  constructor(
+    message: string,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
 }
 
 export type LineGroup = "personnel" | "participants" | "sites" | "other";
@@ -45,6 +52,8 @@ export type LedgerLine = {
   };
   fringeOf?: string;
   subawardId?: string;
+  /** "one-off": a procedure the investigator priced, not the rate book; the grants office reviews it. */
+  review?: "one-off";
 };
 
 export type Ledger = {
@@ -66,6 +75,12 @@ export type CapChecks = {
   directPerYear: { cap: string; byPeriod: { direct: string; within: boolean }[]; within: boolean } | null;
   modular: { eligible: boolean; modulesByPeriod: number[]; requestedByPeriod: string[]; reason: string | null } | null;
 };
+
+/** A code the rate book does not have: only the API can send one (the page offers the rate book's list). */
+function unknownProcedure(visit: string, code: string, rates: RateBook): string {
+  const edition = rates.label ? `the rate book's edition "${rates.label}"` : "the rate book";
+  return `Visit "${visit}": the procedure code ${code} is not in ${edition}. Pick a procedure from the rate book, or add it as a one-off procedure with its name and cost per visit.`;
+}
 
 const MODULE = new D(25000);
 const MODULAR_MAX_PER_YEAR = new D(250000);
@@ -165,7 +180,15 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
   const attendance = perPeriod();
   const procedureQ = new Map<string, number[]>();
   const catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
-  const procedureUnit = new Map<string, { unit: string; name: string }>();
+  const procedureUnit = new Map<string, { unit: string; name: string; oneOff: boolean }>();
+  // Rate-book procedures and one-off procedures are priced alike: a quantity line per procedure and unit
+  // cost, counting each visit attended in the period it happens, escalated and rounded like any quantity line.
+  const count = (key: string, unit: string, name: string, oneOff: boolean, byPeriod: number[]) => {
+    if (!procedureUnit.has(key)) procedureUnit.set(key, { unit, name, oneOff });
+    const q = procedureQ.get(key) ?? perPeriod();
+    byPeriod.forEach((n, p) => (q[p]! += n));
+    procedureQ.set(key, q);
+  };
   visits.forEach((visit, i) => {
     const byPeriod = perPeriod();
     cohorts.forEach((n, m) => {
@@ -175,18 +198,21 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     byPeriod.forEach((q, p) => (attendance[p]! += q));
     for (const proc of visit.procedures) {
       const entry = catalogue.get(proc.code);
-      if (!entry && proc.unitCost === undefined) throw new CostingError(`Procedure ${proc.code} is not in the rate book; give its cost.`);
+      if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
       const unit = proc.unitCost ?? entry!.unitCost;
-      const key = `${proc.code}@${unit}`;
-      procedureUnit.set(key, { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}` });
-      const q = procedureQ.get(key) ?? perPeriod();
-      byPeriod.forEach((n, p) => (q[p]! += n));
-      procedureQ.set(key, q);
+      count(`${proc.code}@${unit}`, unit, `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, false, byPeriod);
+    }
+    for (const extra of visit.oneOff ?? []) {
+      const name = extra.name.trim();
+      // The same one-off at several visits, at the same cost, is one line (as a rate-book code is).
+      count(`one-off:${name.toLowerCase()}@${new D(extra.unitCost).toFixed(2)}`, extra.unitCost, `${name} ${ONE_OFF_MARK}`, true, byPeriod);
     }
   });
   for (const [key, q] of procedureQ) {
-    const { unit, name } = procedureUnit.get(key)!;
-    quantityLine(`procedure:${key}`, "participants", "procedures", name, unit, q);
+    const { unit, name, oneOff } = procedureUnit.get(key)!;
+    const lineKey = oneOff ? key : `procedure:${key}`;
+    quantityLine(lineKey, "participants", "procedures", name, unit, q);
+    if (oneOff && specs.at(-1)?.key === lineKey) specs.at(-1)!.review = "one-off";
   }
   quantityLine("incentives", "participants", "participant", "Participant incentives, per completed visit", inputs.incentivePerVisit ?? rates.participant.incentivePerVisit, attendance);
 

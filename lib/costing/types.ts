@@ -49,11 +49,16 @@ export type RateBook = {
   procedures: { code: string; name: string; unitCost: string; category: string }[];
 };
 
+/** How a one-off procedure's line is marked wherever it is shown: the ledger, the page, the workbook. */
+export const ONE_OFF_MARK = "(one-off, for the grants office's review)";
+
 export type Visit = {
   name: string;
   /** Months after enrolment (0 = the enrolment visit). */
   month: number;
   procedures: { code: string; unitCost?: string }[];
+  /** Procedures not in the rate book, each with its own cost per visit attended; the grants office reviews them. */
+  oneOff?: { name: string; unitCost: string }[];
 };
 
 export type Timeline = {

@@ -113,7 +113,12 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
       ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
       closeoutMonths: i.recruitment.closeoutMonths,
     },
-    visits: i.visits.map((v) => ({ name: v.name, month: v.month, procedures: v.procedures.map((code) => ({ code })) })),
+    visits: i.visits.map((v) => ({
+      name: v.name,
+      month: v.month,
+      procedures: v.procedures.map((code) => ({ code })),
+      oneOff: (v.oneOffProcedures ?? []).map((o) => ({ name: o.name, unitCost: o.cost })),
+    })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
     personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
     other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),

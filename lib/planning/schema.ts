@@ -64,14 +64,43 @@ export const recruitmentSchema = z.object({
   dropoutVisitShare: share("Visits a dropout attends").default(0.5),
 });
 
+/** Labels of the visit rows on the scenario page; messages use the same words. */
+export const PROCEDURE_LABELS = { picker: "Rate-book procedures", oneOffName: "One-off procedure", oneOffCost: "Cost per visit" } as const;
+
+/**
+ * A procedure that is not in the rate book, with its own name and cost per visit attended. Priced like a
+ * rate-book procedure and marked for the grants office's review in the ledger and the workbook.
+ */
+const ONE_OFF_NAME_HELP = `${PROCEDURE_LABELS.oneOffName}: name it, like "Wound photograph".`;
+const ONE_OFF_COST_HELP = `${PROCEDURE_LABELS.oneOffCost}: enter dollars above 0, like 45 or 1,200.50.`;
+export const oneOffProcedureSchema = z.object({
+  // Own messages for an empty box: the form sends an empty field as nothing at all.
+  name: z
+    .string({ error: ONE_OFF_NAME_HELP })
+    .trim()
+    .min(2, ONE_OFF_NAME_HELP)
+    .max(80, `${PROCEDURE_LABELS.oneOffName}: at most 80 characters.`),
+  cost: z
+    .union([z.string(), z.number()], { error: ONE_OFF_COST_HELP })
+    .transform((v) => String(v).trim().replace(/[$,\s]/g, ""))
+    .pipe(z.string().refine((v) => /^\d{1,9}(\.\d{1,2})?$/.test(v) && Number(v) > 0, ONE_OFF_COST_HELP)),
+});
+
+const CODES_HELP = `${PROCEDURE_LABELS.picker}: a list of rate-book codes, like ["NURSE-VISIT", "LAB-PANEL"].`;
+
 export const visitSchema = z.object({
   name: text("Visit name", 60, "Name the visit.").min(1, "Name the visit."),
   month: n("Month").int("Month: a whole number from 0 (enrolment) to 240.").min(0, "Month: a whole number from 0 (enrolment) to 240.").max(240, "Month: a whole number from 0 (enrolment) to 240."),
-  // Typed as "CODE, CODE" in the form; stored (and accepted over the API) as a list.
-  procedures: z
-    .union([z.string().max(400, "At most 400 characters."), z.array(z.string().max(24)).max(40, "At most 40 procedures a visit.")])
-    .default("")
-    .transform((v) => (Array.isArray(v) ? v : v.split(/[\s,;]+/)).map((c) => c.trim().toUpperCase()).filter(Boolean)),
+  // The rate book's procedure codes. The picker sends a list; the API also takes the older "CODE, CODE" text.
+  procedures: z.preprocess(
+    (v) => (v === undefined || v === null ? [] : typeof v === "string" ? v.split(/[\s,;]+/) : v),
+    z
+      .array(z.string({ error: CODES_HELP }).max(24, `${PROCEDURE_LABELS.picker}: a code has at most 24 characters.`), { error: CODES_HELP })
+      .max(40, `${PROCEDURE_LABELS.picker}: at most 40 a visit.`)
+      .transform((codes) => codes.map((c) => c.trim().toUpperCase()).filter(Boolean)),
+  ),
+  // Optional: stored inputs from before one-off procedures have none.
+  oneOffProcedures: z.array(oneOffProcedureSchema).max(20, "At most 20 one-off procedures a visit.").optional(),
 });
 
 const EFFORT_HELP = "Effort: a percent, or one per budget period like 20, 20, 10.";

@@ -6,7 +6,7 @@
  * and compare every subtotal and total to the ledger, to the cent.
  */
 import ExcelJS from "exceljs";
-import type { LedgerLine, RateBook } from "@/lib/costing";
+import { ONE_OFF_MARK, type LedgerLine, type RateBook } from "@/lib/costing";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
 import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
@@ -40,6 +40,9 @@ const SOURCES = [
   "Cost-optimal cluster size: Raudenbush (1997), Psychological Methods 2, 173–185.",
   "MTDC: 2 CFR 200.1 (Uniform Guidance as revised in 2024).",
 ];
+
+/** One-off procedures: their label says "for the grants office's review", and the cell is shaded as well. */
+const REVIEW_FILL: ExcelJS.Fill = { type: "pattern", pattern: "solid", fgColor: { argb: "FFF4ECD6" } };
 
 /** A formula cell value (exceljs wants the object form). */
 function fx(formula: string): ExcelJS.CellFormulaValue {
@@ -143,6 +146,7 @@ function quantitySheet(ctx: Ctx, label: string, lines: LedgerLine[], periods: nu
   lines.forEach((line, k) => {
     const r = 5 + k;
     ws.getCell(`A${r}`).value = safeText(line.label);
+    if (line.review) ws.getCell(`A${r}`).fill = REVIEW_FILL;
     ws.getCell(`B${r}`).value = Number(line.unitCost);
     ws.getCell(`B${r}`).numFmt = MONEY;
     ws.getCell(`C${r}`).value = escalationCell(ctx, line.escalation, rates);
@@ -230,6 +234,7 @@ function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, LineRef>, 
     for (const line of lines) {
       ws.getCell(`A${r}`).value = line.category;
       ws.getCell(`B${r}`).value = safeText(line.label);
+      if (line.review) ws.getCell(`B${r}`).fill = REVIEW_FILL;
       const fullyIn = line.inBase.every((b, p) => b === line.amounts[p]);
       const isSubaward = line.category === "subaward";
       ws.getCell(`C${r}`).value = isSubaward ? 0 : fullyIn && line.amounts.some((a) => Number(a) !== 0) ? 1 : line.inBase.every((b) => Number(b) === 0) ? 0 : 1;
@@ -324,6 +329,8 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
     [`Minimum detectable effect at this n (${effectUnit(s.results.effectName).noun})`, Number(s.results.mdes.toFixed(6))],
     ["Power at the target effect", Number(s.results.powerAtTarget.toFixed(6))],
   ];
+  const oneOffs = l.lines.filter((x) => x.review === "one-off");
+  if (oneOffs.length) rows.push(["One-off procedures, for the grants office's review", safeText(oneOffs.map((x) => x.label.replace(` ${ONE_OFF_MARK}`, "")).join("; "))]);
   let r = 4;
   for (const [k, v, fmt] of rows) {
     ws.getCell(`A${r}`).value = k;

@@ -10,6 +10,8 @@ import * as sessionRoute from "@/app/api/v1/session/route";
 import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
 import * as studyWorkbookRoute from "@/app/api/v1/studies/[studyId]/workbook/route";
 import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
+import * as scenariosRoute from "@/app/api/v1/studies/[studyId]/scenarios/route";
+import { DEMO_SCENARIOS } from "@/scripts/demo-data";
 import { createAccount } from "@/db/queries/accounts";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { dropDatabase, useFreshDatabase } from "../support/db";
@@ -178,6 +180,33 @@ describe("recalculated with LibreOffice", () => {
     } finally {
       for (const r of saved) await getDb().updateTable("scenarios").set({ name: r.name }).where("id", "=", r.id).execute();
     }
+  });
+
+  it("a one-off procedure's line is marked for the grants office's review and reconciles to the cent", async () => {
+    const base = DEMO_SCENARIOS[0]!.inputs;
+    const inputs = { ...base, visits: base.visits.map((v, k) => (k === 2 ? { ...v, oneOffProcedures: [{ name: "Wound photograph", cost: "33.33" }] } : v)) };
+    const created = await scenariosRoute.POST(request("POST", `/api/v1/studies/${studyId}/scenarios`, { cookie: c.pi, body: { name: "With a one-off", inputs } }), params({ studyId: String(studyId) }));
+    expect(created.status).toBe(201);
+    const id = (await created.json()).scenario.id as number;
+    const results = await resultsOf(id);
+    const label = "Wound photograph (one-off, for the grants office's review)";
+    expect(results.ledger.lines.filter((l) => l.review === "one-off").map((l) => l.label)).toEqual([label]);
+    const recalculated = await load(recalculate(Buffer.from(await (await one("grants", id)).arrayBuffer())));
+    checkAgainstLedger(recalculated.getWorksheet("Budget by period")!, results);
+    // Marked the same way on the participants sheet, shaded, and listed on the summary.
+    const participants = recalculated.getWorksheet("Participants")!;
+    let marked: ExcelJS.Cell | undefined;
+    participants.eachRow((row) => {
+      if (row.getCell(1).value === label) marked = row.getCell(1);
+    });
+    expect(marked).toBeDefined();
+    expect((marked!.fill as ExcelJS.FillPattern).fgColor?.argb).toBe("FFF4ECD6");
+    const summary = recalculated.getWorksheet("Summary")!;
+    let listed: ExcelJS.CellValue = null;
+    summary.eachRow((row) => {
+      if (row.getCell(1).value === "One-off procedures, for the grants office's review") listed = row.getCell(2).value;
+    });
+    expect(listed).toBe("Wound photograph");
   }, 120_000);
 
   it("changing the F&A rate cell moves the totals by the engine's formula", async () => {

@@ -100,6 +100,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           initialResults={s.results}
           sponsorCap={s.study.sponsorCap}
           fringeCategories={edition.fringe.map((f) => f.category)}
+          procedureCatalogue={edition.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost }))}
         />
       ) : (
         <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">

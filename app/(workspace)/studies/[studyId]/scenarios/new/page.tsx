@@ -71,6 +71,7 @@ export default async function NewScenarioPage({ params, searchParams }: { params
         sponsorCap={study.sponsorCap}
         fringeCategories={edition?.fringe.map((f) => f.category) ?? []}
         startedFrom={startedFrom}
+        procedureCatalogue={edition?.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost })) ?? []}
       />
     </div>
   );
