@@ -11,7 +11,8 @@ export default defineConfig({
   resolve: { alias },
   test: {
     projects: [
-      { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
+      // scrypt at OWASP cost and the property tests take seconds on a loaded 2-core machine: a guard against hangs, not a speed check.
+      { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node", testTimeout: 30_000 } },
       {
         resolve: { alias },
         test: {
@@ -19,7 +20,7 @@ export default defineConfig({
           include: ["tests/integration/**/*.test.ts"],
           environment: "node",
           testTimeout: 30_000,
-          hookTimeout: 20_000,
+          hookTimeout: 60_000,
           // One file at a time: LibreOffice, the crash writer and the SMTP server are heavy on two cores, and a
           // worker that lingers after its file (seen when files ran side by side) is not waited for.
           pool: "forks",

@@ -10,7 +10,7 @@ describe("the demo seed stores only states a user could save", () => {
   });
   it("refuses a demo scenario the schema refuses, naming it and the field", () => {
     const bad = { ...DEMO_SCENARIOS[0]!.inputs, recruitment: { ...DEMO_SCENARIOS[0]!.inputs.recruitment, attrition: 1.5 } };
-    expect(() => validDemoInputs("Broken", bad)).toThrow(/Demo scenario "Broken".*recruitment\.attrition: Attrition: from 0 to below 1\./);
+    expect(() => validDemoInputs("Broken", bad)).toThrow(/Demo scenario "Broken".*recruitment\.attrition: Attrition: from 0 to below 1, like 0\.35 or 35%\./);
     expect(scenarioInputsSchema.safeParse(bad).success).toBe(false);
   });
 });

@@ -53,8 +53,8 @@ function expectPlain(messages: string[], where: string) {
     expect(m, where).not.toMatch(/\bexpected\b/i);
     expect(m, where).not.toMatch(/\breceived\b/i);
     expect(m, where).not.toMatch(/^Invalid\b/);
-    // The scenario form labels its allocation ratio "(n2 / n1)": a page label, not a key.
-    const words = m.replace("Allocation ratio (n2 / n1)", "Allocation ratio");
+    // The scenario form labels its allocation ratio "(n2 / n1)" and its proportions "(p1)", "(p2)": page labels, not keys.
+    const words = m.replace("Allocation ratio (n2 / n1)", "Allocation ratio").replace(/ \((p1|p2)\)/g, "");
     expect(words, `${where}: names an internal key`).not.toMatch(KEY_PATTERN);
     expect(m.trim().length, where).toBeGreaterThan(3);
   }
