@@ -180,7 +180,7 @@ describe("recalculated with LibreOffice", () => {
     } finally {
       for (const r of saved) await getDb().updateTable("scenarios").set({ name: r.name }).where("id", "=", r.id).execute();
     }
-  });
+  }, 120_000);
 
   it("a one-off procedure's line is marked for the grants office's review and reconciles to the cent", async () => {
     const base = DEMO_SCENARIOS[0]!.inputs;
