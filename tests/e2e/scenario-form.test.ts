@@ -9,6 +9,8 @@ import type { Browser, Page } from "playwright-core";
 import { launchBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
+/** Each journey saves twice and waits for previews and curves; on a loaded two-core machine that can pass a minute. */
+const JOURNEY = 180_000;
 let browser: Browser;
 let page: Page;
 let studyUrl = "";
@@ -16,6 +18,7 @@ let studyUrl = "";
 beforeAll(async () => {
   browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  page.setDefaultTimeout(60_000);
   await signIn(page, baseUrl, "pi@demo.test");
   await page.getByRole("link", { name: /Walking Better/ }).click();
   await page.waitForURL(/\/studies\/\d+$/);
@@ -80,7 +83,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       () => field("Outcome SD").fill("8"),
     );
     await screenshot(page, "scenario-form-two-means");
-  });
+  }, JOURNEY);
 
   it("one mean or paired differences, with the effect given as d", async () => {
     await createAndEdit(
@@ -96,7 +99,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("Target power").fill("90%"),
     );
-  });
+  }, JOURNEY);
 
   it("two proportions", async () => {
     await createAndEdit(
@@ -109,7 +112,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("Target intervention proportion (p2)").fill("0.45"),
     );
-  });
+  }, JOURNEY);
 
   it("cluster-randomised, means: no Sites asked, costed at its clusters", async () => {
     await createAndEdit(
@@ -123,7 +126,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       () => field("ICC").fill("0.06"),
     );
     await screenshot(page, "scenario-form-cluster");
-  });
+  }, JOURNEY);
 
   it("cluster-randomised, proportions", async () => {
     await createAndEdit(
@@ -137,7 +140,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("ICC").fill("0.06"),
     );
-  });
+  }, JOURNEY);
 
   it("time to event: the accrual is computed from the recruitment plan", async () => {
     await createAndEdit(
@@ -160,7 +163,7 @@ describe("a scenario of each design, created and edited from the form", () => {
     // Either the accrual is the months to enrol, or the page says by how much they differ.
     if (hint.includes("no accrual matches")) expect(hint).toContain(`enrolment takes ${months} months`);
     else expect(shown).toBe(months);
-  });
+  }, JOURNEY);
 });
 
 describe("the seeded cluster scenario and shares typed as percentages", () => {
@@ -178,7 +181,7 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
     await waitForSaved(version + 1);
     expect(await total()).not.toBe(before);
     expect(await field("ICC").inputValue()).toBe("0.06");
-  });
+  }, JOURNEY);
 
   it("types 20% for screen failure: the preview and the saved figures use 0.2", async () => {
     await openStudy();
@@ -201,7 +204,7 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
     await waitForSaved(version + 1);
     await page.reload();
     expect(await field("Screen failure").inputValue()).toBe("0.2");
-  });
+  }, JOURNEY);
 });
 
 describe("a refused submit", () => {
@@ -240,7 +243,7 @@ describe("a refused submit", () => {
     await page.getByRole("button", { name: "Create scenario" }).click();
     await page.waitForURL(/\/scenarios\/\d+\?saved=1$/);
     await waitForSaved(1);
-  });
+  }, JOURNEY);
 
   it("starts a new scenario from a copy of a chosen scenario, and says so", async () => {
     await openStudy();
@@ -251,7 +254,7 @@ describe("a refused submit", () => {
     await page.getByTestId("started-from").filter({ hasText: "a copy of “Clinic clusters”" }).waitFor();
     expect(await designSelect().inputValue()).toBe("cluster-two-means");
     expect(await field("ICC").inputValue()).toBe("0.06");
-  });
+  }, JOURNEY);
 
   it("reads well on a phone", async () => {
     const phone = await browser.newPage({ viewport: { width: 390, height: 844 } });
@@ -263,5 +266,5 @@ describe("a refused submit", () => {
     expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await screenshot(phone, "scenario-form-refused-390");
     await phone.close();
-  });
+  }, JOURNEY);
 });
