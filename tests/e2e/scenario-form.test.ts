@@ -13,6 +13,8 @@ const baseUrl = inject("baseUrl");
 const JOURNEY = 180_000;
 let browser: Browser;
 let page: Page;
+/** The seeded demo study, and a study this file creates for its new scenarios (so that other files' counts of the demo study's scenarios hold). */
+let demoUrl = "";
 let studyUrl = "";
 
 beforeAll(async () => {
@@ -22,8 +24,17 @@ beforeAll(async () => {
   await signIn(page, baseUrl, "pi@demo.test");
   await page.getByRole("link", { name: /Walking Better/ }).click();
   await page.waitForURL(/\/studies\/\d+$/);
+  demoUrl = page.url();
+  await page.goto(`${baseUrl}/studies`);
+  await page.getByLabel("Short code").fill("FORM-01");
+  await page.getByLabel("Sponsor", { exact: true }).fill("Invented Health Foundation");
+  await page.getByLabel("Title").fill("Scenario form journeys");
+  await page.getByLabel("Sponsor cap (total, USD)").fill("2,400,000");
+  await page.getByLabel("Planned start").fill("2027-07-01");
+  await page.getByRole("button", { name: "Create study" }).click();
+  await page.waitForURL(/\/studies\/\d+$/);
   studyUrl = page.url();
-});
+}, 120_000);
 afterAll(async () => {
   await browser?.close();
 });
@@ -33,8 +44,8 @@ const designSelect = () => page.getByRole("combobox", { name: "Design", exact: t
 const total = () => page.getByTestId("result-total").textContent();
 const versionLine = () => page.getByText(/· version \d+/).textContent();
 
-async function openStudy() {
-  await page.goto(studyUrl);
+async function openStudy(url = studyUrl) {
+  await page.goto(url);
   await page.getByRole("link", { name: "New scenario" }).waitFor();
 }
 
@@ -168,7 +179,7 @@ describe("a scenario of each design, created and edited from the form", () => {
 
 describe("the seeded cluster scenario and shares typed as percentages", () => {
   it("edits Clinic clusters' ICC and saves it: the version goes up and the figures change", async () => {
-    await openStudy();
+    await openStudy(demoUrl);
     await page.getByRole("link", { name: "Clinic clusters" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     await page.getByTestId("result-total").waitFor();
@@ -184,7 +195,7 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
   }, JOURNEY);
 
   it("types 20% for screen failure: the preview and the saved figures use 0.2", async () => {
-    await openStudy();
+    await openStudy(demoUrl);
     await page.getByRole("link", { name: "Three sites, longer enrolment" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     const enrolled = page.getByTestId("result-enrolled");
@@ -249,9 +260,9 @@ describe("a refused submit", () => {
     await openStudy();
     await page.getByRole("link", { name: "New scenario" }).click();
     await page.waitForURL(/\/scenarios\/new/);
-    await page.getByLabel("Start from").selectOption({ label: "a copy of “Clinic clusters”" });
+    await page.getByLabel("Start from").selectOption({ label: "a copy of “Form: cluster means”" });
     await page.getByRole("button", { name: "Use this start" }).click();
-    await page.getByTestId("started-from").filter({ hasText: "a copy of “Clinic clusters”" }).waitFor();
+    await page.getByTestId("started-from").filter({ hasText: "a copy of “Form: cluster means”" }).waitFor();
     expect(await designSelect().inputValue()).toBe("cluster-two-means");
     expect(await field("ICC").inputValue()).toBe("0.06");
   }, JOURNEY);
