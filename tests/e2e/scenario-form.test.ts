@@ -9,18 +9,32 @@ import type { Browser, Page } from "playwright-core";
 import { launchBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
+/** Each journey saves twice and waits for previews and curves; on a loaded two-core machine that can pass a minute. */
+const JOURNEY = 180_000;
 let browser: Browser;
 let page: Page;
+/** The seeded demo study, and a study this file creates for its new scenarios (so that other files' counts of the demo study's scenarios hold). */
+let demoUrl = "";
 let studyUrl = "";
 
 beforeAll(async () => {
   browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  page.setDefaultTimeout(60_000);
   await signIn(page, baseUrl, "pi@demo.test");
   await page.getByRole("link", { name: /Walking Better/ }).click();
   await page.waitForURL(/\/studies\/\d+$/);
+  demoUrl = page.url();
+  await page.goto(`${baseUrl}/studies`);
+  await page.getByLabel("Short code").fill("FORM-01");
+  await page.getByLabel("Sponsor", { exact: true }).fill("Invented Health Foundation");
+  await page.getByLabel("Title").fill("Scenario form journeys");
+  await page.getByLabel("Sponsor cap (total, USD)").fill("2,400,000");
+  await page.getByLabel("Planned start").fill("2027-07-01");
+  await page.getByRole("button", { name: "Create study" }).click();
+  await page.waitForURL(/\/studies\/\d+$/);
   studyUrl = page.url();
-});
+}, 120_000);
 afterAll(async () => {
   await browser?.close();
 });
@@ -30,8 +44,8 @@ const designSelect = () => page.getByRole("combobox", { name: "Design", exact: t
 const total = () => page.getByTestId("result-total").textContent();
 const versionLine = () => page.getByText(/· version \d+/).textContent();
 
-async function openStudy() {
-  await page.goto(studyUrl);
+async function openStudy(url = studyUrl) {
+  await page.goto(url);
   await page.getByRole("link", { name: "New scenario" }).waitFor();
 }
 
@@ -80,7 +94,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       () => field("Outcome SD").fill("8"),
     );
     await screenshot(page, "scenario-form-two-means");
-  });
+  }, JOURNEY);
 
   it("one mean or paired differences, with the effect given as d", async () => {
     await createAndEdit(
@@ -96,7 +110,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("Target power").fill("90%"),
     );
-  });
+  }, JOURNEY);
 
   it("two proportions", async () => {
     await createAndEdit(
@@ -109,7 +123,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("Target intervention proportion (p2)").fill("0.45"),
     );
-  });
+  }, JOURNEY);
 
   it("cluster-randomised, means: no Sites asked, costed at its clusters", async () => {
     await createAndEdit(
@@ -123,7 +137,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       () => field("ICC").fill("0.06"),
     );
     await screenshot(page, "scenario-form-cluster");
-  });
+  }, JOURNEY);
 
   it("cluster-randomised, proportions", async () => {
     await createAndEdit(
@@ -137,7 +151,7 @@ describe("a scenario of each design, created and edited from the form", () => {
       },
       () => field("ICC").fill("0.06"),
     );
-  });
+  }, JOURNEY);
 
   it("time to event: the accrual is computed from the recruitment plan", async () => {
     await createAndEdit(
@@ -160,12 +174,12 @@ describe("a scenario of each design, created and edited from the form", () => {
     // Either the accrual is the months to enrol, or the page says by how much they differ.
     if (hint.includes("no accrual matches")) expect(hint).toContain(`enrolment takes ${months} months`);
     else expect(shown).toBe(months);
-  });
+  }, JOURNEY);
 });
 
 describe("the seeded cluster scenario and shares typed as percentages", () => {
   it("edits Clinic clusters' ICC and saves it: the version goes up and the figures change", async () => {
-    await openStudy();
+    await openStudy(demoUrl);
     await page.getByRole("link", { name: "Clinic clusters" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     await page.getByTestId("result-total").waitFor();
@@ -178,10 +192,10 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
     await waitForSaved(version + 1);
     expect(await total()).not.toBe(before);
     expect(await field("ICC").inputValue()).toBe("0.06");
-  });
+  }, JOURNEY);
 
   it("types 20% for screen failure: the preview and the saved figures use 0.2", async () => {
-    await openStudy();
+    await openStudy(demoUrl);
     await page.getByRole("link", { name: "Three sites, longer enrolment" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     const enrolled = page.getByTestId("result-enrolled");
@@ -201,7 +215,7 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
     await waitForSaved(version + 1);
     await page.reload();
     expect(await field("Screen failure").inputValue()).toBe("0.2");
-  });
+  }, JOURNEY);
 });
 
 describe("a refused submit", () => {
@@ -240,18 +254,18 @@ describe("a refused submit", () => {
     await page.getByRole("button", { name: "Create scenario" }).click();
     await page.waitForURL(/\/scenarios\/\d+\?saved=1$/);
     await waitForSaved(1);
-  });
+  }, JOURNEY);
 
   it("starts a new scenario from a copy of a chosen scenario, and says so", async () => {
     await openStudy();
     await page.getByRole("link", { name: "New scenario" }).click();
     await page.waitForURL(/\/scenarios\/new/);
-    await page.getByLabel("Start from").selectOption({ label: "a copy of “Clinic clusters”" });
+    await page.getByLabel("Start from").selectOption({ label: "a copy of “Form: cluster means”" });
     await page.getByRole("button", { name: "Use this start" }).click();
-    await page.getByTestId("started-from").filter({ hasText: "a copy of “Clinic clusters”" }).waitFor();
+    await page.getByTestId("started-from").filter({ hasText: "a copy of “Form: cluster means”" }).waitFor();
     expect(await designSelect().inputValue()).toBe("cluster-two-means");
     expect(await field("ICC").inputValue()).toBe("0.06");
-  });
+  }, JOURNEY);
 
   it("reads well on a phone", async () => {
     const phone = await browser.newPage({ viewport: { width: 390, height: 844 } });
@@ -263,5 +277,5 @@ describe("a refused submit", () => {
     expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await screenshot(phone, "scenario-form-refused-390");
     await phone.close();
-  });
+  }, JOURNEY);
 });
