@@ -31,7 +31,8 @@ async function run(
     throw err;
   }
   revalidatePath("/admin/accounts");
-  return submission.reply({ resetForm: resetOnSuccess });
+  // conform's reset reply carries no status; the form says "Account created." from it.
+  return resetOnSuccess ? { ...submission.reply({ resetForm: true }), status: "success" } : submission.reply();
 }
 
 export async function createAccountAction(_prev: unknown, formData: FormData) {
