@@ -308,7 +308,7 @@ export function PowerCalculator() {
             <ul className="mt-1 list-disc pl-5">
               {flagged.map(([k, m]) => (
                 <li key={k}>
-                  <a href={`#calc-${k}`}>{labelOf(k)}</a>: {m.join(" ")}
+                  <a href={`#calc-${k}`}>{labelOf(k)}</a>: {m.map((x) => (x.startsWith(`${labelOf(k)}: `) ? x.slice(`${labelOf(k)}: `.length) : x)).join(" ")}
                 </li>
               ))}
               {unplaced.map((m) => (

@@ -100,7 +100,7 @@ export function StudyMembers({ studyId, members, invitations, manage }: { studyI
               </button>
             </div>
             {error ? (
-              <span id="invite-error" className="error text-sm" role="alert">
+              <span id="invite-error" className="error text-sm text-signal" role="alert">
                 {error}
               </span>
             ) : null}

@@ -16,7 +16,8 @@ afterAll(async () => {
 });
 
 describe("confirm before it cannot be undone, then say what happened", () => {
-  it("the investigator deletes a draft scenario: Keep leaves it, Delete removes it and the study page says so", async () => {
+  // Generous limits: each test signs in, builds pages and waits for several server round trips on a shared machine.
+  it("the investigator deletes a draft scenario: Keep leaves it, Delete removes it and the study page says so", { timeout: 180_000 }, async () => {
     const page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
     let dialogs = 0;
     page.on("dialog", (d) => {
@@ -57,7 +58,7 @@ describe("confirm before it cannot be undone, then say what happened", () => {
     await page.close();
   });
 
-  it("the admin creates an account and deactivates it: asked first, then told", async () => {
+  it("the admin creates an account and deactivates it: asked first, then told", { timeout: 180_000 }, async () => {
     const page = await pageAs(browser, baseUrl, "admin@demo.test", { width: 1440 });
     await page.goto(`${baseUrl}/admin/accounts`);
     await page.getByLabel("Name", { exact: true }).fill("Dr Invented Leaver");
