@@ -80,6 +80,8 @@ function Composer({ url, parentId, onDone, label, withField }: { url: string; pa
         if (problem) setError(problem);
         else {
           setText("");
+          // The next comment starts about the scenario as a whole, not silently about the last one's field.
+          setField("");
           setError(null);
           onDone();
         }

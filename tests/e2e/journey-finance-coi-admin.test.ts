@@ -85,6 +85,8 @@ describe("the co-investigator", () => {
     await mine.waitFor();
     expect(await mine.textContent()).toContain("ICC");
     expect(await coi.getByLabel("Add a comment").inputValue()).toBe("");
+    // The composer starts afresh, about the scenario as a whole.
+    await waitForText(coi.getByLabel("About").locator("option:checked"), "the scenario as a whole");
 
     // The investigator sees the badge beside the ICC field and replies.
     const pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
@@ -180,6 +182,11 @@ describe("the administrator", () => {
     expect(await item.textContent()).toMatch(/delivered/);
     await item.getByText("Text and links").click();
     await item.getByRole("link", { name: /\/invitations\// }).waitFor();
+    // A long link wraps inside its card on a phone instead of widening the page.
+    await admin.setViewportSize({ width: 390, height: 900 });
+    await admin.waitForTimeout(200);
+    expect(await admin.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    await admin.setViewportSize({ width: 1440, height: 1000 });
     await screenshotWidths(admin, "journey-admin-outbox");
     await admin.close();
   }, 300_000);

@@ -68,10 +68,11 @@ describe("the grants officer's journey", () => {
     await pi.getByText(`Returned by the grants office: ${REASON}`).waitFor();
     expect(await pi.getByTestId("scenario-state").textContent()).toBe("Returned");
     await screenshotWidths(pi, "journey-pi-returned");
+    const before = Number(/version (\d+)$/.exec((await pi.getByText(/· version \d+$/).textContent()) ?? "")?.[1]);
     await textField(pi, "Attrition").fill("0.36");
     await waitForText(pi.getByTestId("result-total"), "$87,170.50");
     await pi.getByRole("button", { name: "Save changes" }).click();
-    await pi.getByText(/· version 2$/).waitFor();
+    await pi.getByText(new RegExp(`· version ${before + 1}$`)).waitFor();
     await pi.getByText("Saved, with its results.").waitFor();
     await waitForText(pi.getByTestId("result-total"), "$87,170.50");
     await clickAndConfirm(pi, pi.getByTestId("submit-review"));
@@ -80,7 +81,8 @@ describe("the grants officer's journey", () => {
     // The grants officer sees the new figures and clears it.
     await grants.reload();
     await grants.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
-    await grants.getByText(/· version 2$/).waitFor();
+    // Saved once, then resubmitted: each change of state is a new version.
+    await grants.getByText(new RegExp(`· version ${before + 2}$`)).waitFor();
     await waitForText(grants.getByTestId("result-total"), "$87,170.50");
     await waitForText(grants.getByTestId("result-enrolled"), "200 / 250");
     await clickAndConfirm(grants, grants.getByTestId("clear-review"));

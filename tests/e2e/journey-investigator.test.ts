@@ -225,7 +225,8 @@ describe("the investigator's journey", () => {
     await guest.getByRole("heading", { level: 1, name: STUDY.title }).waitFor();
     await guest.getByRole("link", { name: "Hand-worked, one site", exact: true }).waitFor();
     // The new member is listed as a co-investigator; the same link cannot be used twice.
-    await guest.getByText("Rowan Achterberg").waitFor();
+    await guest.getByRole("region", { name: "Members" }).getByText("Rowan Achterberg").waitFor();
+    expect(await guest.getByRole("region", { name: "Members" }).textContent()).toMatch(/Rowan Achterberg\s*Co-investigator/);
     await guest.context().clearCookies();
     await guest.goto(link!);
     await guest.getByText("This invitation has already been used.").waitFor();

@@ -36,8 +36,8 @@ export default async function OutboxPage() {
             </p>
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Text and links</summary>
-              <pre className="mt-2 whitespace-pre-wrap text-sm">{m.text}</pre>
-              <ul className="mt-1 text-sm">
+              <pre className="mt-2 whitespace-pre-wrap text-sm [overflow-wrap:anywhere]">{m.text}</pre>
+              <ul className="mt-1 text-sm [overflow-wrap:anywhere]">
                 {m.links.map((l) => (
                   <li key={l}>
                     <a href={l}>{l}</a>
