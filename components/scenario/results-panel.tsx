@@ -96,7 +96,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       {/* Periods run down the rows, so the table keeps four columns however many periods there are and
           its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
       <ScrollRegion label="Cost by budget period" testId="budget-table">
-        <table className="table text-sm [&_td]:px-2 [&_th]:px-2" aria-label="Cost by budget period">
+        <table className="table text-[0.8rem] [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Cost by budget period">
           <thead>
             <tr>
               <th scope="col">Period</th>

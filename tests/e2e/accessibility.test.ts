@@ -36,14 +36,11 @@ async function settle(page: Page): Promise<void> {
       if (document.querySelector('[aria-busy="true"]')) return false;
       const text = document.body.textContent ?? "";
       if (text.includes("Working out what the budget buys") || text.includes("Calculating…")) return false;
-      // The reach curve has drawn its points (or said why it could not).
-      for (const chart of Array.from(document.querySelectorAll('[data-testid="reach-chart"]'))) {
-        if (chart.getAttribute("data-points") === "0" && !chart.closest("section")?.querySelector(".alert")) return false;
-      }
-      return true;
+      // The reach curve has its data (aria-busy above covers it while loading; its points may be none).
+      return Array.from(document.querySelectorAll('[data-testid="reach-chart"]')).every((chart) => chart.getAttribute("aria-busy") === "false");
     },
     null,
-    { timeout: 45_000, polling: 250 },
+    { timeout: 90_000, polling: 250 },
   );
   await page.waitForLoadState("networkidle");
   // ScrollRegion measures its content after layout.

@@ -96,7 +96,9 @@ describe("effects with their units, designs by name", () => {
     await page.getByRole("link", { name: "Walking goal reached" }).click();
     expect(await page.getByTestId("scenario-design").textContent()).toBe("Two proportions");
     const chart = page.getByTestId("reach-chart");
-    await expect.poll(async () => Number(await chart.getAttribute("data-points")), { timeout: 30_000 }).toBeGreaterThan(0);
+    // The curve's data (markers included) has arrived; its points may be none (see the report on empty curves).
+    await expect.poll(() => chart.getAttribute("aria-busy"), { timeout: 60_000 }).toBe("false");
+    await page.getByTestId("reach-markers-note").waitFor({ timeout: 30_000 });
     expect(await chart.getAttribute("data-unit")).toBe("p2");
     // This study has two scenarios measured as a proportion (this one and the cluster one): only they are dots.
     expect(await chart.getAttribute("data-markers")).toBe("2");
