@@ -3,7 +3,7 @@ import Link from "next/link";
 import { getImport } from "@/db/queries/rate-book";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
-import { finishImportAction } from "../../../actions";
+import { FinishImportForm } from "@/components/rate-book/finish-import-form";
 import { TableHead } from "@/components/table-head";
 
 export const metadata: Metadata = { title: "Rate-sheet preview" };
@@ -60,15 +60,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
           </tbody>
         </table>
       </div>
-      <form action={finishImportAction} className="flex gap-3">
-        <input type="hidden" name="importId" value={view.id} />
-        <button type="submit" name="decision" value="commit" className="btn" disabled={view.errors.length > 0}>
-          Apply to the draft
-        </button>
-        <button type="submit" name="decision" value="cancel" className="btn btn-quiet">
-          Cancel
-        </button>
-      </form>
+      <FinishImportForm importId={view.id} hasErrors={view.errors.length > 0} />
     </div>
   );
 }
