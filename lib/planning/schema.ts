@@ -4,7 +4,7 @@
  */
 import { z } from "zod";
 import { COST_CATEGORIES } from "@/lib/costing/types";
-import { DESIGNS } from "@/lib/power/schema";
+import { ALPHA_MIN, DESIGNS } from "@/lib/power/schema";
 
 const n = (label: string) => z.coerce.number({ error: `${label}: enter a number.` }).refine(Number.isFinite, `${label}: enter a number.`);
 const opt = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === "" || v === null ? undefined : v), schema.optional());
@@ -19,7 +19,7 @@ const text = (label: string, max: number) => z.string().trim().max(max, `${label
 export const designSchema = z.object({
   design: z.enum(DESIGNS, { error: "Choose a design." }),
   outcome: text("Primary outcome", 300).min(3, "Describe the primary outcome."),
-  alpha: n("Alpha").gt(0, "Alpha must be above 0.").max(0.5, "Alpha must be at most 0.5."),
+  alpha: n("Alpha").min(ALPHA_MIN, "Alpha must be at least 0.0000000001 (1e-10); type a larger value, such as 0.05.").max(0.5, "Alpha must be at most 0.5."),
   sides: z.coerce.number().pipe(z.union([z.literal(1), z.literal(2)], { error: "Test must be one- or two-sided." })),
   power: n("Target power").gt(0.5, "Target power must be above 0.5.").lt(1, "Target power must be below 1."),
   allocationRatio: n("Allocation ratio").min(0.1, "Allocation ratio: 0.1 to 10.").max(10, "Allocation ratio: 0.1 to 10."),

@@ -20,8 +20,16 @@ const count = (what: string, min: number) =>
     .min(min, `${what} must be at least ${min}.`)
     .max(MAX_N_PER_ARM, `${what} must be at most ${MAX_N_PER_ARM.toLocaleString("en-US")}.`);
 
+/**
+ * The smallest alpha accepted. Below about 1e-15 the critical values need 1 − alpha, which double
+ * precision cannot hold, and answers went silently wrong; 1e-10 leaves a wide margin and still covers
+ * the strictest thresholds in use (genome-wide significance is 5e-8, common practice).
+ */
+export const ALPHA_MIN = 1e-10;
+const alphaFloor = `alpha must be at least 0.0000000001 (1e-10); type a larger value, such as 0.05.`;
+
 const common = {
-  alpha: num("alpha").gt(0, "alpha must be above 0.").max(0.5, "alpha must be at most 0.5.").default(0.05),
+  alpha: num("alpha").min(ALPHA_MIN, alphaFloor).max(0.5, "alpha must be at most 0.5.").default(0.05),
   sides: z.union([z.literal(1), z.literal(2)], { error: "sides must be 1 or 2." }).default(2),
   power: num("power").optional(),
   attrition: rate("attrition").default(0),
