@@ -4,6 +4,7 @@ import * as rateBook from "./2026-12-01-0002-rate-book";
 import * as scenarios from "./2026-12-01-0003-scenarios";
 import * as collaboration from "./2026-12-01-0004-collaboration";
 import * as effortByPeriod from "./2026-12-02-0005-effort-by-period";
+import * as studyCodePerOwner from "./2026-12-02-0008-study-code-per-owner";
 import * as outboxPendingSecret from "./2026-12-02-0009-outbox-pending-secret";
 
 /**
@@ -16,5 +17,6 @@ export const migrations: Record<string, Migration> = {
   "2026-12-01-0003-scenarios": scenarios,
   "2026-12-01-0004-collaboration": collaboration,
   "2026-12-02-0005-effort-by-period": effortByPeriod,
+  "2026-12-02-0008-study-code-per-owner": studyCodePerOwner,
   "2026-12-02-0009-outbox-pending-secret": outboxPendingSecret,
 };
