@@ -20,7 +20,8 @@ export default defineConfig({
           include: ["tests/integration/**/*.test.ts"],
           environment: "node",
           testTimeout: 30_000,
-          hookTimeout: 60_000,
+          // Set-up hooks sign in several accounts (scrypt, N = 2^17): on a busy two-core machine that took over 20 s.
+          hookTimeout: 120_000,
           // One file at a time: LibreOffice, the crash writer and the SMTP server are heavy on two cores, and a
           // worker that lingers after its file (seen when files ran side by side) is not waited for.
           pool: "forks",

@@ -6,6 +6,7 @@ import * as collaboration from "./2026-12-01-0004-collaboration";
 import * as effortByPeriod from "./2026-12-02-0005-effort-by-period";
 import * as installation from "./2026-12-02-0006-installation";
 import * as justificationFigures from "./2026-12-02-0007-justification-figures";
+import * as studyCodePerOwner from "./2026-12-02-0008-study-code-per-owner";
 import * as outboxPendingSecret from "./2026-12-02-0009-outbox-pending-secret";
 
 /**
@@ -20,5 +21,6 @@ export const migrations: Record<string, Migration> = {
   "2026-12-02-0005-effort-by-period": effortByPeriod,
   "2026-12-02-0006-installation": installation,
   "2026-12-02-0007-justification-figures": justificationFigures,
+  "2026-12-02-0008-study-code-per-owner": studyCodePerOwner,
   "2026-12-02-0009-outbox-pending-secret": outboxPendingSecret,
 };

@@ -92,9 +92,11 @@ export async function getStudy(actor: Actor, studyId: number): Promise<StudyDeta
 export async function createStudy(actor: Actor, input: StudyCreateInput): Promise<number> {
   enforce(decide(actor, "study.create"));
   const db = getDb();
-  const taken = await db.selectFrom("studies").select("id").where("code", "=", input.code).executeTakeFirst();
-  if (taken) throw new HttpError(409, "conflict", "Another study uses that code.", { code: ["Another study uses that code."] });
   return db.transaction().execute(async (trx) => {
+    // Codes are unique per investigator (migration 0008): only the user's own studies can conflict,
+    // so the answer says nothing about studies the user cannot see.
+    const taken = await trx.selectFrom("studies").select("id").where("owner_id", "=", actor.id).where("code", "=", input.code).executeTakeFirst();
+    if (taken) throw new HttpError(409, "conflict", "You already have a study with that code; choose another.", { code: ["You already have a study with that code; choose another."] });
     const { institution_id } = await trx.selectFrom("users").select("institution_id").where("id", "=", actor.id).executeTakeFirstOrThrow();
     const now = new Date().toISOString();
     const { id } = await trx

@@ -25,7 +25,8 @@ export type Action =
   | "scenario.review"
   | "ratebook.edit"
   | "ratebook.read"
-  | "workbook.download";
+  | "workbook.download"
+  | "power.use";
 
 export type Context = { membership?: Membership; scenarioState?: ScenarioState };
 
@@ -93,6 +94,8 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
       if (role === "admin") return "forbidden";
       return scenarioVisibility(actor, ctx);
     }
+    case "power.use":
+      return role === "admin" ? "forbidden" : "allow";
   }
 }
 

@@ -10,6 +10,11 @@ import { normalQuantile } from "@/lib/power/special";
 
 export const PILOT_MAX_BYTES = 512 * 1024;
 export const PILOT_MAX_ROWS = 10000;
+/**
+ * No measurement in a pilot is this large: values beyond it are typing or unit errors, and near the
+ * limits of double precision (1e308) the squares overflow and the SD comes out as Infinity or NaN.
+ */
+export const PILOT_MAX_ABS = 1e12;
 
 export class PilotError extends Error {
   readonly code = "bad-pilot";
@@ -45,11 +50,15 @@ export function estimatePilot(bytes: Uint8Array, kind: "sd" | "proportion", conf
   const header = rows[0]!.map((h) => h.toLowerCase());
   const groups = new Map<string, number[]>();
   const bad: number[] = [];
+  const absurd: { row: number; raw: string }[] = [];
+  let extreme = { row: 0, abs: -1 };
   const push = (g: string, raw: string, row: number) => {
     if (raw === "") return;
     const v = Number(raw);
     if (!Number.isFinite(v)) bad.push(row);
+    else if (Math.abs(v) > PILOT_MAX_ABS) absurd.push({ row, raw });
     else {
+      if (Math.abs(v) > extreme.abs) extreme = { row, abs: Math.abs(v) };
       if (!groups.has(g)) groups.set(g, []);
       groups.get(g)!.push(v);
     }
@@ -62,6 +71,17 @@ export function estimatePilot(bytes: Uint8Array, kind: "sd" | "proportion", conf
     rows.slice(1).forEach((r, k) => rows[0]!.forEach((name, c) => push(name || `arm ${c + 1}`, r[c] ?? "", k + 2)));
   }
   if (bad.length) throw new PilotError(`Rows ${bad.slice(0, 5).join(", ")}${bad.length > 5 ? "…" : ""} hold values that are not numbers.`);
+  if (absurd.length) {
+    const first = absurd[0]!;
+    throw new PilotError(
+      `Row ${first.row} holds ${first.raw.slice(0, 30)}, larger than any pilot measurement can be (at most 1,000,000,000,000 either side of 0)${absurd.length > 1 ? `, and so do ${absurd.length - 1} more rows` : ""}. Check the value and its units, then upload the file again.`,
+    );
+  }
+  // A safety net: whatever the values, never answer a number that is not one.
+  const finite = (x: number) => {
+    if (!Number.isFinite(x)) throw new PilotError(`The pilot values cannot be summarised (the largest, in row ${extreme.row}, is too far from the others). Check the value and its units.`);
+    return x;
+  };
   const arms = [...groups.entries()].map(([name, xs]) => {
     const mean = xs.reduce((a, b) => a + b, 0) / xs.length;
     const variance = xs.length > 1 ? xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (xs.length - 1) : 0;
@@ -80,7 +100,7 @@ export function estimatePilot(bytes: Uint8Array, kind: "sd" | "proportion", conf
     const centre = p + (z * z) / (2 * control.n);
     const half = z * Math.sqrt((p * (1 - p)) / control.n + (z * z) / (4 * control.n * control.n));
     const upper = Math.min(0.999, (centre + half) / denom);
-    return { kind, arms: arms.map(({ xs: _xs, ...a }) => a), n: control.n, estimate: p, upperLimit: upper, confidence };
+    return { kind, arms: arms.map(({ xs: _xs, ...a }) => ({ ...a, mean: finite(a.mean), sd: finite(a.sd) })), n: control.n, estimate: finite(p), upperLimit: finite(upper), confidence };
   }
   const df = arms.reduce((a, b) => a + b.n - 1, 0);
   if (df < 2) throw new PilotError("At least three pilot values are needed to estimate an SD.");
@@ -88,5 +108,5 @@ export function estimatePilot(bytes: Uint8Array, kind: "sd" | "proportion", conf
   if (!(pooled > 0)) throw new PilotError("The pilot values do not vary, so no SD can be estimated.");
   // Browne's factor uses df = pilot n − 1; with several arms the pooled df is Σ(n_i − 1).
   const { upperLimit } = pilotSdUpperLimit(pooled, df + 1, confidence);
-  return { kind, arms: arms.map(({ xs: _xs, ...a }) => a), n, estimate: pooled, upperLimit, confidence };
+  return { kind, arms: arms.map(({ xs: _xs, ...a }) => ({ ...a, mean: finite(a.mean), sd: finite(a.sd) })), n, estimate: finite(pooled), upperLimit: finite(upperLimit), confidence };
 }

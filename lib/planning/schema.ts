@@ -5,7 +5,7 @@
 import { z } from "zod";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import { percentToShare } from "@/lib/format/percent-input";
-import { DESIGNS, type Design } from "@/lib/power/schema";
+import { ALPHA_MIN, DESIGNS, type Design } from "@/lib/power/schema";
 
 const n = (label: string) => z.coerce.number({ error: `${label}: enter a number.` }).refine(Number.isFinite, `${label}: enter a number.`);
 const opt = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === "" || v === null ? undefined : v), schema.optional());
@@ -27,7 +27,7 @@ export const EFFECT_INPUTS = ["difference", "d"] as const;
 export const designSchema = z.object({
   design: z.enum(DESIGNS, { error: "Design: choose one from the list." }),
   outcome: text("Primary outcome", 300, "Primary outcome: describe it in a few words.").min(3, "Primary outcome: describe it in a few words."),
-  alpha: asShare(n("Alpha").gt(0, "Alpha must be above 0, like 0.05 or 5%.").max(0.5, "Alpha must be at most 0.5.")),
+  alpha: asShare(n("Alpha").min(ALPHA_MIN, "Alpha must be at least 0.0000000001 (1e-10); type a larger value, like 0.05 or 5%.").max(0.5, "Alpha must be at most 0.5.")),
   sides: z.coerce.number().pipe(z.union([z.literal(1), z.literal(2)], { error: "Test must be one- or two-sided." })),
   power: asShare(n("Target power").gt(0.5, "Target power must be above 0.5, like 0.80 or 80%.").lt(1, "Target power must be below 1, like 0.80 or 80%.")),
   // Two-arm designs only (see designRequirements): one mean has no second arm, and the form hides the field.

@@ -65,8 +65,16 @@ const count = (label: string, min: number) =>
     .min(min, `${label}: enter at least ${min}.`)
     .max(MAX_N_PER_ARM, `${label}: enter at most ${MAX_N_PER_ARM.toLocaleString("en-US")}.`);
 
+/**
+ * The smallest alpha accepted. Below about 1e-15 the critical values need 1 − alpha, which double
+ * precision cannot hold, and answers went silently wrong; 1e-10 leaves a wide margin and still covers
+ * the strictest thresholds in use (genome-wide significance is 5e-8, common practice).
+ */
+export const ALPHA_MIN = 1e-10;
+const alphaFloor = "Alpha: enter at least 0.0000000001 (1e-10), like 0.05.";
+
 const common = {
-  alpha: num(L.alpha, "0.05").gt(0, "Alpha: enter a number above 0 and at most 0.5, like 0.05.").max(0.5, "Alpha: enter a number above 0 and at most 0.5, like 0.05.").default(0.05),
+  alpha: num(L.alpha, "0.05").min(ALPHA_MIN, alphaFloor).max(0.5, "Alpha: enter a number above 0 and at most 0.5, like 0.05.").default(0.05),
   sides: z.union([z.literal(1), z.literal(2)], { error: "Test: choose one-sided (1) or two-sided (2)." }).default(2),
   power: num(L.power, "0.80").optional(),
   attrition: share(L.attrition, "0.10").default(0),

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { setAccountActive, changeRole } from "@/db/queries/accounts";
+import { createAccount, setAccountActive, changeRole } from "@/db/queries/accounts";
 import * as sessionRoute from "@/app/api/v1/session/route";
 import * as studiesRoute from "@/app/api/v1/studies/route";
 import * as studyRoute from "@/app/api/v1/studies/[studyId]/route";
@@ -203,6 +203,30 @@ describe("studies and membership", () => {
       request("POST", "/api/v1/studies", { cookie: coi, body: { code: "NOPE-1", title: "Not allowed", sponsor: "X Fund", startDate: "2028-01-01" } }),
     );
     expect(res.status).toBe(403);
+  });
+
+  it("a code used by another investigator's hidden study is free for a new study: the answer reveals nothing; one's own codes conflict", async () => {
+    const admin = { id: await userId("admin@demo.test"), role: "admin" as const };
+    await createAccount(admin, { email: "second.pi@demo.test", name: "Dr Invented Second", role: "investigator", password: "demo-pass-2026" });
+    const second = await signInAs(sessionRoute, "second.pi@demo.test");
+    const create = (cookie: string, code: string) =>
+      studiesRoute.POST(request("POST", "/api/v1/studies", { cookie, body: { code, title: "An invented study", sponsor: "Invented Fund", startDate: "2028-01-01" } }));
+    // WALK-KNEE belongs to pi@demo.test and is hidden from this investigator: taking its code is answered as any new code.
+    const taken = await create(second, "WALK-KNEE");
+    expect(taken.status).toBe(201);
+    const fresh = await create(second, "NEVER-USED-1");
+    expect(fresh.status).toBe(201);
+    const list = await (await studiesRoute.GET(request("GET", "/api/v1/studies", { cookie: second }))).json();
+    expect(list.studies.map((s: { code: string }) => s.code).sort()).toEqual(["NEVER-USED-1", "WALK-KNEE"]);
+    // One's own code conflicts, with a message about one's own studies only.
+    const again = await create(second, "WALK-KNEE");
+    expect(again.status).toBe(409);
+    expect((await again.json()).error.fields.code).toEqual(["You already have a study with that code; choose another."]);
+    const pi = await signInAs(sessionRoute, "pi@demo.test");
+    expect((await create(pi, "WALK-KNEE")).status).toBe(409);
+    // Two parallel creations of one code by one investigator: one study, one clean 409.
+    const both = await Promise.all([create(second, "RACE-1"), create(second, "RACE-1")]);
+    expect(both.map((r) => r.status).sort()).toEqual([201, 409]);
   });
 
   it("validation names the field and saves nothing", async () => {

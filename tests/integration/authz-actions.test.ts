@@ -150,7 +150,7 @@ const CASES: Case[] = [
   { name: "start a rate-book draft", call: (f) => rateBook.createDraftAction(null, f), form: async () => ({ label: "Matrix second draft", effectiveDate: "2032-01-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "change a draft's F&A rate", call: (f) => rateBook.updateSettingAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), key: "faRate", value: "0.55" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "add a fringe category", call: (f) => rateBook.addFringeAction(null, f), form: async () => ({ editionId: ids.draftEdition, category: "matrix-staff", rate: "0.2" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
-  { name: "commit an imported rate sheet", call: (f) => rateBook.finishImportAction(f), form: async () => ({ importId: ids.sheet, decision: "commit" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
+  { name: "commit an imported rate sheet", call: (f) => rateBook.finishImportAction(null, f), form: async () => ({ importId: ids.sheet, decision: "commit" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "change a draft's label and effective date", call: (f) => rateBook.updateEditionDetailsAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), label: "Matrix draft, renamed", effectiveDate: "2031-02-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "publish the draft", call: (f) => rateBook.publishAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!) }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
 ];
@@ -191,6 +191,25 @@ describe("authorization matrix over server actions, from DESIGN.md's roles table
       expect(got, cs.name).toEqual({ outcome: "other", detail: "redirect /sign-in" });
       expect(await snapshot(), cs.name).toBe(before);
     }
+  });
+
+  it("finishing a rate-sheet import answers a message, never a throw (a 500): a role that may not import, an unknown or foreign import id", async () => {
+    const refused = ACTORS.filter((a) => expected(a.role, true, "edit and publish rate-book editions, import a rate sheet") === 403);
+    expect(refused.length).toBeGreaterThan(0);
+    for (const a of refused) {
+      jar.cookie = cookies[a.key]!;
+      const before = await snapshot();
+      for (const form of [{ importId: ids.sheet, decision: "commit" }, { importId: ids.sheet, decision: "cancel" }, {}]) {
+        await expect(rateBook.finishImportAction(null, formOf(form)), `${a.key} ${JSON.stringify(form)}`).resolves.toEqual({ error: "Your role may not do this." });
+      }
+      expect(await snapshot()).toBe(before);
+    }
+    jar.cookie = cookies.grants!;
+    const before = await snapshot();
+    for (const form of [{ importId: 987654, decision: "commit" }, { importId: "nonsense", decision: "cancel" }, {}]) {
+      await expect(rateBook.finishImportAction(null, formOf(form)), JSON.stringify(form)).resolves.toEqual({ error: "That import was not found; it may have been committed or cancelled." });
+    }
+    expect(await snapshot()).toBe(before);
   });
 
   it("a tampered cookie is treated as signed out", async () => {

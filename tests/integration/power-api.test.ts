@@ -35,6 +35,29 @@ describe("POST /api/v1/power", () => {
     expect(error.fields.alpha[0]).toBe("Alpha: enter a number above 0 and at most 0.5, like 0.05.");
     expect(error.message).toBe("Alpha: enter a number above 0 and at most 0.5, like 0.05.");
   });
+  it("an alpha below the floor (1e-10) gets a field error in plain words, never a null or NaN; the floor itself solves", async () => {
+    for (const body of [
+      { design: "two-means", alpha: 1e-20, effectSize: 0.5, power: 0.8 },
+      { design: "two-means", alpha: 1e-20, effectSize: 0.5, n1: 100 },
+      { design: "two-proportions", alpha: 1e-16, p1: 0.3, p2: 0.5, power: 0.8 },
+      { design: "one-mean", alpha: 5e-11, effectSize: 0.3, n1: 200 },
+    ]) {
+      const res = await post(body);
+      expect(res.status, JSON.stringify(body)).toBe(400);
+      const { error } = await res.json();
+      expect(error.fields.alpha).toEqual(["Alpha: enter at least 0.0000000001 (1e-10), like 0.05."]);
+    }
+    const res = await post({ design: "two-means", alpha: 1e-10, effectSize: 0.5, power: 0.8 });
+    expect(res.status).toBe(200);
+    const text = await res.text();
+    expect(text).not.toMatch(/null|NaN/);
+    const body = JSON.parse(text);
+    // The normal approximation n = 2(z_{1−α/2} + z_{1−β})²/d² (Cohen 1988, eq. 2.4.1) gives 428 per arm;
+    // the exact t needs a little more.
+    expect(body.n1).toBeGreaterThanOrEqual(428);
+    expect(body.n1).toBeLessThan(445);
+    expect(body.power).toBeGreaterThanOrEqual(0.8);
+  });
   it("400 naming meanDifference for a difference of more than 10 SD, at once (it used to hang the server)", async () => {
     const res = await powerRoute.POST(request("POST", "/api/v1/power", { cookie, body: { design: "two-means", meanDifference: 839164317, sd: 2.2, power: 0.9 } }));
     expect(res.status).toBe(400);

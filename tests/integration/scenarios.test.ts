@@ -190,4 +190,25 @@ describe("pilot data upload", () => {
     const { error } = await (await upload("pi", "a,b\n1,x\n2,3\n")).json();
     expect(error.message).toMatch(/not numbers/);
   });
+  it("refuses extreme numbers (1e308 and the like) with a message naming the row, never a null SD", async () => {
+    for (const [content, kind, row] of [
+      ["usual care,walking\n4,5\n1e308,7\n8,9\n", "sd", 3],
+      ["usual care,walking\n4,5\n6,7\n8,-1.7e308\n", "sd", 4],
+      ["group,value\ncontrol,2\ncontrol,3\ncontrol,1e13\nwalking,4\n", "sd", 4],
+      ["group,value\ncontrol,0\ncontrol,1\ncontrol,1e300\ncontrol,0\ncontrol,1\ncontrol,0\n", "proportion", 4],
+    ] as const) {
+      const res = await upload("pi", content, kind);
+      const text = await res.text();
+      expect(res.status, content).toBe(422);
+      expect(text).not.toMatch(/null|NaN|Infinity/);
+      const { error } = JSON.parse(text);
+      expect(error.message).toMatch(new RegExp(`^Row ${row} holds .*larger than any pilot measurement`));
+      expect(error.fields.file[0]).toBe(error.message);
+    }
+    // Large but real measurements (a cost in cents, say) still give finite estimates.
+    const res = await upload("pi", "a,b\n400000000,500000000\n600000000,700000000\n800000000,900000000\n");
+    expect(res.status).toBe(200);
+    const { pilot } = await res.json();
+    expect(pilot.estimate).toBeCloseTo(200000000, 0);
+  });
 });

@@ -30,10 +30,11 @@ const ACTIONS_OF_ROW: Record<string, Action[]> = {
   "edit and publish rate-book editions, import a rate sheet": ["ratebook.edit"],
   "read the rate book": ["ratebook.read"],
   "download a workbook": ["workbook.download"],
+  "use the power calculator": ["power.use"],
 };
 
 describe("permissions follow every cell of DESIGN.md's roles table", () => {
-  it("the table has the ten rows we map", () => {
+  it("the table has the eleven rows we map", () => {
     expect(rows.map((r) => r[0])).toEqual(Object.keys(ACTIONS_OF_ROW));
   });
 

@@ -129,12 +129,23 @@ export async function createDraftAction(_prev: unknown, formData: FormData) {
   redirect(`/rate-book/${editionId}`);
 }
 
-export async function finishImportAction(formData: FormData): Promise<void> {
+/**
+ * Applies or cancels a previewed rate sheet. A refusal (a role that may not import, an import that is
+ * gone or someone else's, a sheet with errors) comes back as a message for the form, never a throw.
+ */
+export async function finishImportAction(_prev: unknown, formData: FormData): Promise<{ error: string } | undefined> {
   const user = await requireUser();
-  if (!roleMay(user, "ratebook.edit")) throw forbidden();
-  const importId = id.parse(formData.get("importId"));
+  if (!roleMay(user, "ratebook.edit")) return { error: forbidden().message };
+  const importId = id.safeParse(formData.get("importId"));
+  if (!importId.success) return { error: "That import was not found; it may have been committed or cancelled." };
   const commit = formData.get("decision") === "commit";
-  const editionId = commit ? await commitImport(user, importId) : await cancelImport(user, importId);
+  let editionId: number;
+  try {
+    editionId = commit ? await commitImport(user, importId.data) : await cancelImport(user, importId.data);
+  } catch (err) {
+    if (err instanceof HttpError) return { error: err.message };
+    throw err;
+  }
   revalidatePath(`/rate-book/${editionId}`);
   redirect(`/rate-book/${editionId}${commit ? "?imported=1" : ""}`);
 }

@@ -1,10 +1,13 @@
 import { PowerInputError, solve, UnreachableError } from "@/lib/power";
-import { HttpError } from "@/lib/auth/errors";
+import { enforce, HttpError } from "@/lib/auth/errors";
+import { decide } from "@/lib/auth/permissions";
 import { json, readJson, withUser } from "@/lib/server/api";
 import { z } from "zod";
 
 /** POST /api/v1/power: the same JSON in and out as `solve()` from "@/lib/power". */
-export const POST = withUser(async ({ req }) => {
+export const POST = withUser(async ({ req, user }) => {
+  // DESIGN.md's roles table gives the admin no calculator.
+  enforce(decide(user, "power.use"));
   const body = await readJson(req, z.unknown(), 32 * 1024);
   try {
     return json(solve(body));

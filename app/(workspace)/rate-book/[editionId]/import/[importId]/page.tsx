@@ -6,7 +6,7 @@ import { formatSetting } from "@/lib/format/rates";
 import { SETTING_BY_KEY, type SettingKey } from "@/lib/rate-book/fields";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
-import { finishImportAction } from "../../../actions";
+import { FinishImportForm } from "@/components/rate-book/finish-import-form";
 import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
 
@@ -73,15 +73,7 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
           </tbody>
         </table>
       </ScrollRegion>
-      <form action={finishImportAction} className="flex gap-3">
-        <input type="hidden" name="importId" value={view.id} />
-        <button type="submit" name="decision" value="commit" className="btn" disabled={view.errors.length > 0}>
-          Apply to the draft
-        </button>
-        <button type="submit" name="decision" value="cancel" className="btn btn-quiet">
-          Cancel
-        </button>
-      </form>
+      <FinishImportForm importId={view.id} hasErrors={view.errors.length > 0} />
     </div>
   );
 }
