@@ -93,6 +93,12 @@ export async function confirmIfAsked(page: Page, opts: { within?: number; name?:
         }
       }
     }
+    // The product's own confirm step (components/confirm-button.tsx): a question group with its confirm button.
+    const asked = page.locator('[data-testid$="-question"] [data-testid$="-confirm"]');
+    if (await asked.count().catch(() => 0)) {
+      await asked.first().click();
+      return true;
+    }
     const inline = page.getByRole("button", { name });
     if (await inline.count().catch(() => 0)) {
       await inline.first().click();
@@ -191,8 +197,8 @@ export async function fillHandWorkedScenario(page: Page, name: string, overrides
   await page.getByRole("combobox", { name: "Test", exact: true }).selectOption({ label: "Two-sided" });
   await textField(page, "Target power").fill("0.8");
   await textField(page, "Allocation ratio").fill("1");
-  await textField(page, "Target mean difference").fill("");
-  await textField(page, "Outcome SD").fill("");
+  // The effect is given one way; the other is shown computed.
+  await page.getByRole("radio", { name: "a standardized effect d" }).check();
   await textField(page, /standardi[sz]ed effect/i).fill("0.5");
   await textField(page, /^Sites$/).fill("1");
   const deadline = textField(page, "Enrolment deadline");

@@ -73,7 +73,7 @@ describe("the investigator's journey", () => {
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
     await waitForText(pi.getByTestId("result-enrolled"), "160 / 200");
     await waitForText(pi.getByTestId("result-total"), "$74,807.00");
-    await waitForText(pi.getByTestId("result-mdes"), "0.499");
+    await waitForText(pi.getByTestId("result-mdes"), "d = 0.499");
     await waitForText(pi.getByTestId("result-months"), "1 · 8");
     await waitForText(pi.getByTestId("cap-check"), "Within the sponsor's cap of $100,000, with $25,193 to spare.");
     await pi.getByRole("button", { name: "Create scenario" }).click();
@@ -84,7 +84,7 @@ describe("the investigator's journey", () => {
     expect(await pi.getByTestId("scenario-state").textContent()).toBe("Draft");
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
     await waitForText(pi.getByTestId("result-total"), "$74,807.00");
-    await waitForText(pi.getByTestId("result-mdes"), "0.499");
+    await waitForText(pi.getByTestId("result-mdes"), "d = 0.499");
     // What the cap buys, worked by hand: 96 per arm → 120 enrolled, 150 screened per arm; 240 enrolled in 12 months
     // (0–11), close-out month 12, so two periods. Period 1: screening 300 × 85 = 25,500; failures 60 × 25 = 1,500;
     // incentives 240 × 40 = 9,600; start-up 12,000; annual fee 3,500; monitoring 4 × 1,800 = 7,200; F&A 59,300 × 56.5%
@@ -93,7 +93,7 @@ describe("the investigator's journey", () => {
     // power at d = 0.5 0.9314 (R power.t.test(n = 96, power = 0.8)$delta; power.t.test(n = 96, delta = 0.5)$power).
     await waitForText(
       pi.getByTestId("cap-buys"),
-      "The sponsor's cap of $100,000 funds up to 96 + 96 evaluable participants at 1 site (12 months to enrol), costing $96,834: the detectable effect is 0.406 and power at the target 0.931.",
+      "The sponsor's cap of $100,000 funds up to 96 + 96 evaluable participants at 1 site (12 months to enrol), costing $96,834: the detectable effect is d = 0.406 and power at the target 0.931.",
     );
     // Fewer sites cost less here (each adds fees), so one site is the cheapest way to reach the target power.
     await waitForText(pi.getByTestId("cheapest"), /^1 site, \$74,807(\.00)?, 8 months to enrol\.$/);
@@ -129,7 +129,7 @@ describe("the investigator's journey", () => {
     await pi.getByRole("link", { name: "New scenario" }).click();
     await pi.waitForURL(/\/scenarios\/new$/);
     await fillHandWorkedScenario(pi, "From the pilot SD");
-    await textField(pi, /standardi[sz]ed effect/i).fill("");
+    await pi.getByRole("radio", { name: "a mean difference and SD" }).check();
     await textField(pi, "Target mean difference").fill("1");
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "pilot-"));
     const file = path.join(dir, "pilot.csv");
@@ -182,7 +182,8 @@ describe("the investigator's journey", () => {
     // The copy carries the inputs and so the figures.
     await waitForText(pi.getByTestId("result-total"), "$87,170.50");
     await clickAndConfirm(pi, pi.getByRole("button", { name: "Delete", exact: true }));
-    await pi.waitForURL(/\/studies\/\d+$/);
+    await pi.waitForURL(/\/studies\/\d+\?deleted=1$/);
+    await pi.getByTestId("done-status").filter({ hasText: "The scenario was deleted." }).waitFor();
     await pi.getByRole("link", { name: "Hand-worked, one site", exact: true }).waitFor();
     expect(await pi.getByRole("link", { name: /\(copy\)/ }).count()).toBe(0);
   }, 150_000);
@@ -215,7 +216,7 @@ describe("the investigator's journey", () => {
     await guest.getByLabel("Your name").fill("Rowan Achterberg");
     await guest.getByRole("button", { name: "Create my account and join" }).click();
     // The message sits beside the missing password, not on the name that was typed.
-    await guest.getByText("Choose a password of at least 8 characters.").waitFor();
+    await guest.getByText("Choose a password of at least 8 characters.").first().waitFor();
     expect(await guest.getByText("Enter your name.").count()).toBe(0);
     expect(await guest.getByLabel("Your name").inputValue()).toBe("Rowan Achterberg");
     await guest.getByLabel("Choose a password").fill("rowan-walks-2028");
