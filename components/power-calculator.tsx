@@ -1,5 +1,6 @@
 "use client";
 
+import { percentToShare } from "@/lib/format/percent-input";
 import { DESIGN_NAMES } from "@/lib/power/design-names";
 import { useEffect, useMemo, useRef, useState } from "react";
 import type { PowerResult } from "@/lib/power/schema";
@@ -15,9 +16,9 @@ type Values = Record<string, string>;
 type FieldSpec = { name: string; label: string; hint?: string; kind?: "number" | "select"; options?: [string, string][] };
 
 const F = {
-  alpha: { name: "alpha", label: L.alpha, hint: "The false-positive rate the test allows, like 0.05" },
+  alpha: { name: "alpha", label: L.alpha, hint: "The false-positive rate the test allows, like 0.05 or 5%" },
   sides: { name: "sides", label: L.sides, kind: "select", options: [["2", "Two-sided"], ["1", "One-sided"]] },
-  power: { name: "power", label: L.power, hint: "The chance of detecting the effect if it is real, like 0.80 or 0.90" },
+  power: { name: "power", label: L.power, hint: "The chance of detecting the effect if it is real, like 0.80 or 90%" },
   allocationRatio: { name: "allocationRatio", label: L.allocationRatio, hint: "Second arm's size per participant in the first; 1 for equal arms" },
   n1: { name: "n1", label: L.n1, hint: "Analysed per arm (the first arm, if unequal)" },
   nOne: { name: "n1", label: L.n1OneGroup, hint: "Analysed participants or pairs" },
@@ -38,8 +39,8 @@ const F = {
   controlMedian: { name: "controlMedian", label: L.controlMedian },
   accrualMonths: { name: "accrualMonths", label: L.accrualMonths },
   followUpMonths: { name: "followUpMonths", label: L.followUpMonths, hint: "After the last participant is enrolled" },
-  attrition: { name: "attrition", label: L.attrition, hint: "Share lost after enrolment, like 0.10" },
-  screenFailure: { name: "screenFailure", label: L.screenFailure, hint: "Share of those screened who are not enrolled, like 0.30" },
+  attrition: { name: "attrition", label: L.attrition, hint: "Share lost after enrolment, like 0.10 or 10%" },
+  screenFailure: { name: "screenFailure", label: L.screenFailure, hint: "Share of those screened who are not enrolled, like 0.30 or 30%" },
 } satisfies Record<string, FieldSpec>;
 
 /** Each design's sample-size field, effect fields and design fields. */
@@ -98,6 +99,7 @@ const DEFAULTS: Values = {
 };
 
 const SELECTS = new Set(["sides", "method", "direction"]);
+const SHARES = new Set(["alpha", "power", "attrition", "screenFailure", "p1", "p2", "icc"]);
 
 /** The request body: numbers parsed, empty fields left out, and the answer sought left out. */
 export function buildRequest(design: Design, find: Find, effectAs: EffectAs, v: Values): Record<string, unknown> {
@@ -111,7 +113,9 @@ export function buildRequest(design: Design, find: Find, effectAs: EffectAs, v: 
       body[f.name] = f.name === "sides" ? Number(raw) : raw;
       continue;
     }
-    const n = Number(raw.replace(/,/g, ""));
+    // Shares and rates may be typed as the percentages pages show them ("90%", "5%"), as in the scenario form.
+    const text = SHARES.has(f.name) ? String(percentToShare(raw)) : raw;
+    const n = Number(text.replace(/,/g, ""));
     body[f.name] = Number.isFinite(n) ? n : raw; // the server names a non-number beside its field
   }
   return body;

@@ -31,7 +31,9 @@ const controlsOnPage = (page: Page) =>
       .filter((el) => {
         const r = el.getBoundingClientRect();
         const cs = getComputedStyle(el);
-        return r.width > 0 && r.height > 0 && cs.visibility !== "hidden" && !el.closest("[inert]") && (el as HTMLElement).tabIndex >= 0;
+        // The content of a closed <details> is not shown (Chromium still gives it a box), so Tab rightly skips it.
+        const folded = el.tagName !== "SUMMARY" && el.closest("details:not([open])");
+        return r.width > 0 && r.height > 0 && cs.visibility !== "hidden" && !el.closest("[inert]") && !folded && (el as HTMLElement).tabIndex >= 0;
       })
       .filter((el) => !(el instanceof HTMLInputElement && el.type === "radio" && !el.checked && document.querySelector(`input[type=radio][name="${el.name}"]:checked`)))
       .map(keyOf);
