@@ -35,9 +35,11 @@ describe("comments and notifications", () => {
     // The investigator's page polls: the comment appears there without a reload, and beside the field.
     await pi.getByTestId("comment-body").filter({ hasText: "35% screen-failure" }).waitFor({ timeout: 15_000 });
     await pi.getByTestId("field-comments-inputs.recruitment.screenFailure").waitFor();
-    await pi.getByRole("button", { name: "Reply" }).first().click();
-    await pi.getByLabel(/Reply to/).fill("The invented audit of these clinics found 30–40%.");
-    await pi.getByRole("button", { name: "Reply" }).last().click();
+    // Other browser tests comment on this scenario too: reply within this comment.
+    const thread = pi.getByTestId("comment").filter({ has: pi.getByTestId("comment-body").filter({ hasText: "35% screen-failure" }) }).first();
+    await thread.getByRole("button", { name: "Reply" }).first().click();
+    await thread.getByLabel(/Reply to/).fill("The invented audit of these clinics found 30–40%.");
+    await thread.getByRole("button", { name: "Reply" }).last().click();
     await coi.getByTestId("comment-body").filter({ hasText: "invented audit" }).waitFor({ timeout: 15_000 });
     await screenshot(pi, "comments");
 
