@@ -17,11 +17,14 @@ export const JUSTIFICATION_CAUTION =
 
 const f = (x: number, d = 3) => Number(x.toFixed(d)).toString();
 
+/** A template's example words ("Example: …") are not the study's own: the text says so instead of quoting them. */
+const own = (text: string, what: string) => (/^\s*example:/i.test(text) ? `[${what}: the template's example is still in place]` : text);
+
 export function generateJustification(i: ScenarioInputs, r: ScenarioResults, study: StudyContext): string {
   const d = i.design;
   const p = r.power;
   const parts: string[] = [];
-  parts.push(`The study is designed as ${DESIGN_WORDS[d.design] ?? d.design}, with ${d.outcome} as the primary outcome.`);
+  parts.push(`The study is designed as ${DESIGN_WORDS[d.design] ?? d.design}, with ${own(d.outcome, "the primary outcome")} as the primary outcome.`);
   const target =
     r.effectName === "effectSize"
       ? d.meanDifference !== undefined && p.sdUsed !== undefined
@@ -30,7 +33,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
       : r.effectName === "p2"
         ? `a change from ${f(p.p1 ?? 0)} to ${f(r.targetEffect)} in the proportion with the outcome`
         : `a hazard ratio of ${f(r.targetEffect)}`;
-  parts.push(`It is powered to detect ${target}${d.targetRationale ? `, chosen because ${d.targetRationale.replace(/\.$/, "")}` : ""}.`);
+  parts.push(`It is powered to detect ${target}${d.targetRationale ? `, chosen because ${own(d.targetRationale, "why this target effect").replace(/\.$/, "")}` : ""}.`);
   if (i.pilot) {
     const val = i.pilot.use === "upper" && i.pilot.upperLimit ? i.pilot.upperLimit : i.pilot.estimate;
     parts.push(
@@ -38,7 +41,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
         ? `The planning SD of ${f(val)} ${i.pilot.use === "upper" ? `is the upper ${Math.round(i.pilot.confidence * 100)}% one-sided confidence limit of the SD from pilot data (n = ${i.pilot.n}, estimate ${f(i.pilot.estimate)}; Browne 1995)` : `is the SD estimated from pilot data (n = ${i.pilot.n})`}.`
         : `The control proportion of ${f(val)} was estimated from pilot data (n = ${i.pilot.n}).`,
     );
-  } else if (d.sdSource) parts.push(`The planning values come from ${d.sdSource.replace(/\.$/, "")}.`);
+  } else if (d.sdSource) parts.push(`The planning values come from ${own(d.sdSource, "where the planning values come from").replace(/\.$/, "")}.`);
   parts.push(`With ${d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha} and ${Math.round(d.power * 100)}% target power${d.design === "one-mean" ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`}, the method used (${p.method}) gives`);
   let numbers = p.n2 === null ? `${p.n1} evaluable participants` : `${p.n1} and ${p.n2} evaluable participants per arm (${p.nTotal} in total)`;
   if (p.designEffect !== undefined) numbers += `, in ${p.clusters1} and ${p.clusters2} clusters of mean size ${f(p.clusterSize ?? 0, 1)} (ICC ${f(p.icc ?? 0)}, CV of cluster size ${f(p.cv ?? 0)}, design effect ${f(p.designEffect)})`;
