@@ -131,12 +131,8 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
       for (const s of all) {
         const where = `investigator scenario “${s.name}” @${w}`;
         await visit(page, `/studies/${s.studyId}/scenarios/${s.id}`, where);
-        // The main interaction: a changed assumption and the results recomputed (at 390 px on the demo study's only).
-        // For now only on the demo study's two-means drafts: the scenario form refuses every change on the other
-        // designs while a hidden field is still required (issue 13, item 1, fixed on the scenario form's own
-        // branch); widen this to every draft once that is merged.
-        const cluster = /clusters|Clinics/.test(s.name);
-        if (s.state === "draft" && !cluster && s.studyId === 1) {
+        // The main interaction on every draft, of every design: a changed assumption and the results recomputed.
+        if (s.state === "draft") {
           await changePowerAndWait(page);
           await audit(page, `${where}, after a change recomputed the results`);
         }
