@@ -34,6 +34,26 @@ export function faBaseByLine<T>(lines: BaseLine<T>[], rates: Pick<RateBook, "faB
   return out;
 }
 
+/** Direct costs, the base, F&A (rounded per period) by period, for priced lines in the given arithmetic. */
+export function faByPeriod<T>(lines: BaseLine<T>[], periods: number, rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold" | "faRate">, A: Arith<T>) {
+  const inBase = faBaseByLine(lines, rates, A);
+  const direct: T[] = [];
+  const base: T[] = [];
+  const fa: T[] = [];
+  for (let p = 0; p < periods; p++) {
+    let d = A.zero;
+    let b = A.zero;
+    for (let i = 0; i < lines.length; i++) {
+      d = A.add(d, lines[i]!.amounts[p]!);
+      b = A.add(b, inBase[i]![p]!);
+    }
+    direct.push(d);
+    base.push(b);
+    fa.push(A.round(A.mul(b, A.of(rates.faRate))));
+  }
+  return { inBase, direct, base, fa };
+}
+
 /** The same on decimal strings, in and out (cents). */
 export function faBaseOfAmounts(lines: BaseLine<string>[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">): string[][] {
   const parsed = lines.map((l) => ({ ...l, amounts: l.amounts.map((a) => exact.of(a)) }));

@@ -1,0 +1,67 @@
+/** The summary: the study, the design's answer, totals by period from the budget sheet, the cap check and the caution (once, here). */
+import type ExcelJS from "exceljs";
+import { ONE_OFF_MARK } from "@/lib/costing";
+import { designName } from "@/lib/power/design-names";
+import { effectUnit } from "@/lib/power/effect-units";
+import { col, quoteSheet, safeText } from "../text";
+import { CAUTION, finish, fx, MONEY, title, type Ctx, type WorkbookScenario, type WorkbookStudy } from "../cells";
+import type { BudgetLayout } from "./budget";
+
+export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layout: BudgetLayout, ws: ExcelJS.Worksheet): void {
+  title(ws, `${study.code}: ${s.name}`, CAUTION);
+  ws.columns = [{ width: 36 }, { width: 22 }, { width: 22 }, { width: 22 }];
+  const p = s.results.power;
+  const l = s.results.ledger;
+  const rows: [string, ExcelJS.CellValue, string?][] = [
+    ["Study", safeText(study.title)],
+    ["Sponsor", safeText(study.sponsor)],
+    ["Scenario", safeText(s.name)],
+    ["Review state", s.state],
+    ["Rate-book edition", safeText(`${s.rates.label} (effective ${s.rates.effectiveDate})`)],
+    ["Design", designName(s.inputs.design.design)],
+    ["Method", p.method],
+    ["Evaluable, arm 1", p.n1],
+    ["Evaluable, arm 2", p.n2 ?? "—"],
+    ["Enrolled (all arms)", p.funnel.total.enrolled],
+    ["Screened (all arms)", p.funnel.total.screened],
+    ["Sites", s.results.sites],
+    ["Months to enrol", l.timeline.monthsToEnrol],
+    [`Minimum detectable effect at this n (${effectUnit(s.results.effectName).noun})`, Number(s.results.mdes.toFixed(6))],
+    ["Power at the target effect", Number(s.results.powerAtTarget.toFixed(6))],
+  ];
+  const oneOffs = l.lines.filter((x) => x.review === "one-off");
+  if (oneOffs.length) rows.push(["One-off procedures, for the grants office's review", safeText(oneOffs.map((x) => x.label.replace(` ${ONE_OFF_MARK}`, "")).join("; "))]);
+  let r = 4;
+  for (const [k, v, fmt] of rows) {
+    ws.getCell(`A${r}`).value = k;
+    ws.getCell(`B${r}`).value = v;
+    if (fmt) ws.getCell(`B${r}`).numFmt = fmt;
+    r++;
+  }
+  r++;
+  ws.getCell(`A${r}`).value = "Totals by period (from the budget sheet)";
+  ws.getCell(`A${r}`).font = { bold: true };
+  r++;
+  for (let k = 0; k <= layout.periods; k++) {
+    ws.getCell(`A${r}`).value = k < layout.periods ? `Period ${k + 1}` : "Grand total";
+    ws.getCell(`B${r}`).value = fx(`${quoteSheet(layout.sheet)}!${col(layout.firstCol + k)}${layout.rows.total}`);
+    ws.getCell(`B${r}`).numFmt = MONEY;
+    r++;
+  }
+  ws.getCell(`A${r}`).value = "F&A";
+  ws.getCell(`B${r}`).value = fx(`${quoteSheet(layout.sheet)}!${col(layout.firstCol + layout.periods)}${layout.rows.fa}`);
+  ws.getCell(`B${r}`).numFmt = MONEY;
+  r += 2;
+  const cap = l.caps.total;
+  ws.getCell(`A${r}`).value = "Sponsor's cap";
+  ws.getCell(`B${r}`).value = study.sponsorCap ? Number(study.sponsorCap) : "none";
+  ws.getCell(`B${r}`).numFmt = MONEY;
+  if (cap) {
+    ws.getCell(`C${r}`).value = fx(`IF(${layout.grandTotal}<=B${r},"within the cap","over the cap")`);
+  }
+  r += 2;
+  ws.getCell(`A${r}`).value = `Generated on ${ctx.generatedOn} by Delta Ledger.`;
+  ws.getCell(`A${r + 1}`).value = CAUTION;
+  ws.getCell(`A${r + 1}`).font = { italic: true };
+  finish(ws, { x: 1, y: 3 }, "1:3");
+}
