@@ -3,7 +3,8 @@
  * (Node runs this single-threaded). Targets from the issues:
  *   power engine, two-means: one power evaluation ≤ 5 µs, solve n ≤ 20 µs, solve the effect ≤ 40 µs;
  *   the reach curve: 256 points for a two-means scenario ≤ 20 ms;
- *   a four-scenario comparison workbook ≤ 500 ms.
+ *   a four-scenario comparison workbook ≤ 500 ms;
+ *   the recruitment forecast for 20 sites and assurance, each ≤ 50 ms.
  * Prints the median µs per call for each design and a PASS/FAIL line per target; exits 1 on a miss.
  */
 import { solve, solveParsed, powerInputSchema, type PowerInput } from "../lib/power";
@@ -14,6 +15,9 @@ import { computeScenario } from "../lib/planning/compute";
 import { generateJustification } from "../lib/planning/justification";
 import { buildWorkbook } from "../lib/workbook/build";
 import { DEMO_SCENARIOS, demoRateBook } from "./demo-data";
+import { forecastRecruitment } from "../lib/forecast/recruitment";
+import { assurance } from "../lib/forecast/assurance";
+import { favourablePower } from "../lib/forecast/favourable-power";
 
 type Result = { name: string; medianUs: number; target?: number };
 const results: Result[] = [];
@@ -109,6 +113,25 @@ for (let k = 0; k < 9; k++) {
 }
 times.sort((a, b) => a - b);
 results.push({ name: "comparison workbook, 4 scenarios (ms per workbook)", medianUs: times[4]!, target: 500 });
+
+// The recruitment forecast for 20 staggered sites (simulation) and assurance, each ≤ 50 ms; the
+// inputs vary from call to call (targets, rates, shapes, priors), as users' scenarios do.
+const forecastMs = medianUsPerCall(
+  (i) =>
+    forecastRecruitment({
+      target: 300 + 7 * (i % 40),
+      ratePerSiteMonth: 0.6 + 0.05 * (i % 13),
+      activationMonths: Array.from({ length: 20 }, (_, k) => 4 + k * (1 + (i % 3))),
+      rateShape: 0.8 + 0.3 * (i % 7),
+      deadlines: { enrolment: 30 + (i % 10), funded: 40 },
+    }),
+  1,
+  25,
+) / 1000;
+results.push({ name: "recruitment forecast, 20 staggered sites (ms per forecast)", medianUs: forecastMs, target: 50 });
+const assuranceResults = Array.from({ length: 40 }, (_, i) => solve({ design: "two-means", effectSize: 0.3 + 0.01 * i, power: 0.8 + 0.002 * i }));
+const assuranceMs = medianUsPerCall((i) => assurance(favourablePower(assuranceResults[i % 40]!)!.powerAt, { mean: 0.3 + 0.01 * (i % 40), sd: 0.1 + 0.005 * (i % 17) }), 5, 25) / 1000;
+results.push({ name: "assurance, two-means, exact t (ms per assurance)", medianUs: assuranceMs, target: 50 });
 
 let failed = 0;
 console.log("Delta Ledger benchmark (median µs per call, one core)\n");

@@ -1,0 +1,88 @@
+/**
+ * A scenario's recruitment forecast and what a slow enrolment costs. The forecast (lib/forecast)
+ * says how likely the plan's sites are to enrol the sample by the planned month; here the plan is
+ * re-costed at the enrolment rate that makes enrolment take the 80th and the 90th percentile's
+ * months, and the ledger lines that change are listed, so the grants office can read what a slow
+ * year costs (effort that follows recruitment, site fees, monitoring).
+ */
+import Decimal from "decimal.js";
+import { computeLedger, type RateBook } from "@/lib/costing";
+import { DEFAULT_RATE_SHAPE, forecastRecruitment, PUBLISHED_QUARTILES, type Forecast } from "@/lib/forecast/recruitment";
+import { costInputs, type ScenarioResults, type StudyContext } from "./compute";
+import type { ScenarioInputs } from "./schema";
+
+export type SlowEnd = {
+  percentile: 80 | 90;
+  monthsToEnrol: number;
+  /** The plan's rate scaled down so that enrolment takes this long. */
+  ratePerSiteMonth: number;
+  total: string;
+  difference: string;
+  lines: { label: string; planned: string; slow: string; difference: string }[];
+};
+
+export type ScenarioForecast = Forecast & {
+  rateShape: number;
+  shapeSource: string;
+  deadlines: { enrolment: number; funded: number | null };
+  slowEnd: SlowEnd[];
+};
+
+export type ForecastOptions = {
+  /** Gamma shape of each site's rate; the published spread's when absent. */
+  rateShape?: number;
+  /** Months of the funded period, from the study's start, when the study has one. */
+  fundedMonths?: number | null;
+};
+
+export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, rates: RateBook, study: StudyContext, options: ForecastOptions = {}): ScenarioForecast {
+  const ledger = results.ledger;
+  const tl = ledger.timeline;
+  const rateShape = options.rateShape ?? DEFAULT_RATE_SHAPE;
+  const lastVisitOffset = tl.lastVisitMonth - tl.lastEnrolmentMonth;
+  const closeout = i.recruitment.closeoutMonths;
+  // Enrolment must finish by the end of the planned last month of enrolment; and, for the funded
+  // period, early enough that the last visits and close-out still fit in it.
+  const deadlines = {
+    enrolment: tl.lastEnrolmentMonth + 1,
+    funded: options.fundedMonths ? options.fundedMonths - lastVisitOffset - closeout : null,
+  };
+  const forecast = forecastRecruitment({
+    target: results.power.funnel.total.enrolled,
+    ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
+    activationMonths: tl.activationMonths,
+    rateShape,
+    deadlines,
+  });
+  const arms = results.power.funnel.arms;
+  const slowEnd = ([80, 90] as const).map((percentile): SlowEnd => {
+    const months = percentile === 80 ? forecast.monthsToEnrol.p80 : forecast.monthsToEnrol.p90;
+    const rate = i.recruitment.ratePerSiteMonth * Math.min(1, forecast.plannedMonths / months);
+    const slowInputs = costInputs(i, study, arms, results.sites);
+    const slow = computeLedger({ ...slowInputs, timeline: { ...slowInputs.timeline, ratePerSiteMonth: rate } }, rates);
+    const byKey = new Map(slow.lines.map((l) => [l.key, l]));
+    const lines = ledger.lines
+      .map((l) => ({ label: l.label, planned: l.total, slow: byKey.get(l.key)?.total ?? "0.00" }))
+      .concat(slow.lines.filter((l) => !ledger.lines.some((p) => p.key === l.key)).map((l) => ({ label: l.label, planned: "0.00", slow: l.total })))
+      .map((l) => ({ ...l, difference: new Decimal(l.slow).minus(l.planned).toFixed(2) }))
+      .filter((l) => l.difference !== "0.00");
+    // F&A on the changed base is a line of its own, so the lines add up to the total's difference.
+    const faDifference = new Decimal(slow.totals.fa).minus(ledger.totals.fa).toFixed(2);
+    if (faDifference !== "0.00") lines.push({ label: "F&A", planned: ledger.totals.fa, slow: slow.totals.fa, difference: faDifference });
+    return {
+      percentile,
+      monthsToEnrol: slow.timeline.monthsToEnrol,
+      ratePerSiteMonth: rate,
+      total: slow.totals.total,
+      difference: new Decimal(slow.totals.total).minus(ledger.totals.total).toFixed(2),
+      lines,
+    };
+  });
+  return {
+    ...forecast,
+    rateShape,
+    shapeSource: options.rateShape === undefined ? `the spread of recruitment rates between sites reported by ${PUBLISHED_QUARTILES.source} (median 0.92, interquartile range 0.43–2.79 a month)` : "the investigator's choice",
+    deadlines,
+    slowEnd,
+  };
+}
