@@ -6,10 +6,12 @@ import { useActionState, useEffect, useRef, useState, type ChangeEvent, type Rea
 import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
-import { designSchema, PROCEDURE_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { designSchema, PROCEDURE_LABELS, UNCERTAINTY_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { designTemplate } from "@/lib/planning/templates";
 import { DESIGN_NAMES } from "@/lib/power/design-names";
 import type { Design } from "@/lib/power/schema";
+import { effectUnitOfDesign } from "@/lib/power/effect-units";
+import { DEFAULT_RATE_SHAPE } from "@/lib/forecast/defaults";
 import { ErrorSummary } from "../form/error-summary";
 import { snapshotField } from "../form/field-snapshot";
 import { keptSubmit } from "../form/kept-submit";
@@ -56,6 +58,15 @@ function toFormValues(i: ScenarioInputs) {
     visits: i.visits.map(visitFormValues),
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
+    uncertainty: {
+      rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
+      effectPrior: {
+        mean: i.uncertainty?.effectPrior ? String(i.uncertainty.effectPrior.mean) : "",
+        sd: i.uncertainty?.effectPrior ? String(i.uncertainty.effectPrior.sd) : "",
+        source: i.uncertainty?.effectPrior?.source ?? "",
+        inJustification: i.uncertainty?.effectPrior?.inJustification ? "on" : "",
+      },
+    },
   };
 }
 
@@ -122,6 +133,35 @@ function Rationale({ meta: live }: { meta: FieldMetadata<unknown> }) {
         </span>
       ) : null}
     </div>
+  );
+}
+
+/**
+ * What is uncertain about the plan: kept with the scenario for the forecast and assurance panel below
+ * the form. The prior is in the unit the design's effect is shown in.
+ */
+function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSpread?: unknown; effectPrior?: { mean?: unknown; sd?: unknown; source?: string; inJustification?: unknown } } | undefined>; design: string }) {
+  const u = fields.getFieldset();
+  const p = u.effectPrior.getFieldset();
+  const unit = effectUnitOfDesign(design as Design);
+  const hr = unit.name === "hazardRatio";
+  const inJustification = snapshotField(p.inJustification);
+  return (
+    <Section title="Uncertainty" id="sec-uncertainty">
+      <p className="text-sm text-ink-soft">Optional. Used by “How likely the plan is” below the form: the recruitment forecast and the assurance.</p>
+      <div className="grid gap-4 sm:grid-cols-3">
+        <Text meta={u.rateSpread} label={UNCERTAINTY_LABELS.rateSpread} hint={`Coefficient of variation, like 60%. Empty: ${Math.round(100 / Math.sqrt(DEFAULT_RATE_SHAPE))}%, the published spread`} />
+        <Text meta={p.mean} label={hr ? "Expected hazard ratio" : `${UNCERTAINTY_LABELS.priorMean} (${unit.symbol})`} hint={hr ? "Your best guess of the true hazard ratio" : `Your best guess of the true ${unit.noun}`} />
+        <Text meta={p.sd} label={hr ? "Uncertainty of the effect (SD of the log hazard ratio)" : `${UNCERTAINTY_LABELS.priorSd}, in ${unit.symbol}`} hint="How far the true effect may plausibly be from it" />
+        <Text meta={p.source} label={UNCERTAINTY_LABELS.priorSource} wide />
+        <div className="field justify-end">
+          <label className="flex items-center gap-2">
+            <input {...getInputProps(inJustification as FieldMetadata<boolean>, { type: "checkbox" })} key={inJustification.key} />
+            Quote the assurance in the justification
+          </label>
+        </div>
+      </div>
+    </Section>
   );
 }
 
@@ -412,6 +452,7 @@ export function ScenarioForm({
           {cluster ? <p className="text-sm text-ink-soft">In a cluster design each cluster is a site; the number of sites follows from the clusters needed.</p> : null}
           {design === "time-to-event" ? <p className="text-sm text-ink-soft">The months this plan takes to enrol are the accrual the power calculation uses.</p> : null}
         </Section>
+        <UncertaintySection fields={i.uncertainty} design={design} />
         <Section title="Visit schedule" id="sec-visits">
           {visits.map((v, idx) => {
             const f = v.getFieldset();

@@ -17,12 +17,9 @@
 import { jStat } from "@/lib/power/special";
 import { seededRandom } from "./random";
 
-/**
- * The default spread of rates between sites: a gamma shape fitted to the interquartile range of
- * recruitment rates per site per month in Walters et al. (2017), BMJ Open 7:e015276 (median 0.92,
- * IQR 0.43–2.79): the shape whose quartiles are in the ratio 2.79 / 0.43. See `shapeForQuartileRatio`.
- */
-export const PUBLISHED_QUARTILES = { median: 0.92, q1: 0.43, q3: 2.79, source: "Walters et al. (2017), BMJ Open 7:e015276" } as const;
+import { DEFAULT_RATE_SHAPE, PUBLISHED_QUARTILES } from "./defaults";
+
+export { DEFAULT_RATE_SHAPE, PUBLISHED_QUARTILES };
 
 export type ForecastInput = {
   /** Participants to enrol. */
@@ -75,9 +72,6 @@ export function shapeForQuartileRatio(ratio: number): number {
   }
   return Math.exp((lo + hi) / 2);
 }
-
-/** The default shape, from the published spread (about 0.85: a coefficient of variation near 1.1). */
-export const DEFAULT_RATE_SHAPE = Number(shapeForQuartileRatio(PUBLISHED_QUARTILES.q3 / PUBLISHED_QUARTILES.q1).toFixed(3));
 
 /** t with Σ rateᵢ (t − aᵢ)⁺ = amount, for activation months sorted ascending. */
 function invertCumulative(amount: number, sortedStarts: number[], rates: number[]): number {

@@ -23,6 +23,8 @@ export type SlowEnd = {
 
 export type ScenarioForecast = Forecast & {
   rateShape: number;
+  /** The same spread as a coefficient of variation of sites' rates (1 / √shape). */
+  rateSpread: number;
   shapeSource: string;
   deadlines: { enrolment: number; funded: number | null };
   slowEnd: SlowEnd[];
@@ -31,6 +33,8 @@ export type ScenarioForecast = Forecast & {
 export type ForecastOptions = {
   /** Gamma shape of each site's rate; the published spread's when absent. */
   rateShape?: number;
+  /** Or the coefficient of variation of sites' rates (shape = 1 / CV²), as the page asks for it. */
+  rateSpread?: number;
   /** Months of the funded period, from the study's start, when the study has one. */
   fundedMonths?: number | null;
 };
@@ -38,7 +42,8 @@ export type ForecastOptions = {
 export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, rates: RateBook, study: StudyContext, options: ForecastOptions = {}): ScenarioForecast {
   const ledger = results.ledger;
   const tl = ledger.timeline;
-  const rateShape = options.rateShape ?? DEFAULT_RATE_SHAPE;
+  const chosen = options.rateShape ?? (options.rateSpread ? 1 / (options.rateSpread * options.rateSpread) : undefined);
+  const rateShape = chosen ?? DEFAULT_RATE_SHAPE;
   const lastVisitOffset = tl.lastVisitMonth - tl.lastEnrolmentMonth;
   const closeout = i.recruitment.closeoutMonths;
   // Enrolment must finish by the end of the planned last month of enrolment; and, for the funded
@@ -81,7 +86,8 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
   return {
     ...forecast,
     rateShape,
-    shapeSource: options.rateShape === undefined ? `the spread of recruitment rates between sites reported by ${PUBLISHED_QUARTILES.source} (median 0.92, interquartile range 0.43–2.79 a month)` : "the investigator's choice",
+    rateSpread: 1 / Math.sqrt(rateShape),
+    shapeSource: chosen === undefined ? `the spread of recruitment rates between sites reported by ${PUBLISHED_QUARTILES.source} (median 0.92, interquartile range 0.43–2.79 a month)` : "the investigator's choice",
     deadlines,
     slowEnd,
   };

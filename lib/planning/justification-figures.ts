@@ -8,7 +8,8 @@
 import { formatMoney } from "@/lib/format/money";
 import { designName } from "@/lib/power/design-names";
 import type { ScenarioResults, StudyContext } from "./compute";
-import type { ScenarioInputs } from "./schema";
+import { givenPrior, type ScenarioInputs } from "./schema";
+import { scenarioAssurance } from "./assurance";
 
 export type JustificationFigure = { key: string; label: string; value: string };
 
@@ -77,6 +78,11 @@ export function justificationFigures(i: ScenarioInputs, r: ScenarioResults, stud
   if (r.capBuys && study.sponsorCap) {
     add("sponsorCap", "Sponsor cap", formatMoney(study.sponsorCap, { cents: false }));
     add("capBuys", "What the cap funds", `${r.capBuys.n2 === null ? count(r.capBuys.n1) : `${count(r.capBuys.n1)} and ${count(r.capBuys.n2)}`} evaluable (detecting ${num(r.capBuys.effect)})`);
+  }
+  const prior = givenPrior(i.uncertainty);
+  if (prior?.inJustification) {
+    const a = scenarioAssurance(p, prior);
+    if (a) add("assurance", "Assurance", `${num(a.assurance)} (prior ${num(prior.mean)}, SD ${num(prior.sd)})`);
   }
   return out;
 }

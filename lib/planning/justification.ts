@@ -1,7 +1,8 @@
 /** The sample-size justification paragraph, generated from a scenario and its results, then editable. */
 import { formatMoney } from "@/lib/format/money";
 import type { ScenarioResults, StudyContext } from "./compute";
-import type { ScenarioInputs } from "./schema";
+import { givenPrior, type ScenarioInputs } from "./schema";
+import { scenarioAssurance } from "./assurance";
 
 const DESIGN_WORDS: Record<string, string> = {
   "two-means": "a two-arm parallel-group comparison of means",
@@ -58,6 +59,18 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
       `The sponsor's cap of ${formatMoney(study.sponsorCap, { cents: false })} would fund up to ${r.capBuys.n2 === null ? `${r.capBuys.n1} evaluable participants` : `${r.capBuys.n1} and ${r.capBuys.n2} evaluable participants per arm`}, able to detect ${f(r.capBuys.effect)}.`,
     );
   }
+  const assured = assuranceSentence(i, r);
+  if (assured) parts.push(assured);
   parts.push(JUSTIFICATION_CAUTION);
   return parts.join(" ");
+}
+
+/** Where the investigator asks for it: the assurance over their prior for the effect, with its source. */
+function assuranceSentence(i: ScenarioInputs, r: ScenarioResults): string | null {
+  const prior = givenPrior(i.uncertainty);
+  if (!prior?.inJustification) return null;
+  const a = scenarioAssurance(r.power, prior);
+  if (!a) return null;
+  const what = a.prior.unit === "log-hr" ? `a hazard ratio of ${f(prior.mean)} (SD ${f(prior.sd)} on the log scale)` : `an effect of ${f(prior.mean)} (SD ${f(prior.sd)})`;
+  return `Allowing for uncertainty in the true effect, expressed as a normal prior centred on ${what}${prior.source ? ` from ${own(prior.source, "where the expected effect comes from").replace(/\.$/, "")}` : ""}, the probability that the study succeeds (assurance; O'Hagan, Stevens and Campbell 2005) is ${f(a.assurance)}.`;
 }

@@ -194,6 +194,48 @@ export function designRequirements(v: { design?: Partial<z.infer<typeof designSc
   return out;
 }
 
+/**
+ * What is uncertain about the plan (lib/forecast): how much sites' enrolment rates vary, for the
+ * recruitment forecast, and a prior for the effect, for assurance. Both optional; the forecast uses
+ * the published spread when none is given, and assurance needs the investigator's own prior.
+ */
+export const UNCERTAINTY_LABELS = {
+  rateSpread: "Spread of enrolment rates between sites",
+  priorMean: "Expected effect",
+  priorSd: "Uncertainty of the effect (SD)",
+  priorSource: "Where the expected effect and its uncertainty come from",
+} as const;
+
+/** Half a prior is refused, naming the empty field; a wholly empty one is no prior. */
+export const effectPriorSchema = z
+  .object({
+    mean: opt(n(UNCERTAINTY_LABELS.priorMean)),
+    sd: opt(n(UNCERTAINTY_LABELS.priorSd).gt(0, `${UNCERTAINTY_LABELS.priorSd}: a number above 0, in the effect's unit.`).max(10, `${UNCERTAINTY_LABELS.priorSd}: at most 10.`)),
+    source: text(UNCERTAINTY_LABELS.priorSource, 500).default(""),
+    /** Quote the assurance in the sample-size justification (a form's checkbox sends "on"). */
+    inJustification: z.preprocess((v) => v === true || v === "on" || v === "true", z.boolean()).default(false),
+  })
+  .superRefine((v, ctx) => {
+    const given = v.mean !== undefined || v.sd !== undefined || v.source !== "" || v.inJustification;
+    if (!given) return;
+    if (v.mean === undefined) ctx.addIssue({ code: "custom", path: ["mean"], message: `${UNCERTAINTY_LABELS.priorMean}: type your best guess of the true effect, or empty the other prior fields.` });
+    if (v.sd === undefined) ctx.addIssue({ code: "custom", path: ["sd"], message: `${UNCERTAINTY_LABELS.priorSd}: type how uncertain the effect is, like 0.2, or empty the other prior fields.` });
+  });
+
+export const uncertaintySchema = z.object({
+  /** Coefficient of variation of sites' enrolment rates (1.14 = 114 %), typed as a share or a percentage. */
+  rateSpread: opt(
+    asShare(n(UNCERTAINTY_LABELS.rateSpread).min(0.05, `${UNCERTAINTY_LABELS.rateSpread}: from 5% to 500%, like 60%.`).max(5, `${UNCERTAINTY_LABELS.rateSpread}: from 5% to 500%, like 60%.`)),
+  ),
+  effectPrior: effectPriorSchema.optional(),
+});
+
+/** The prior, when one is given in full. */
+export function givenPrior(u: ScenarioInputs["uncertainty"]): { mean: number; sd: number; source: string; inJustification: boolean } | null {
+  const p = u?.effectPrior;
+  return p && p.mean !== undefined && p.sd !== undefined ? { mean: p.mean, sd: p.sd, source: p.source, inJustification: p.inJustification } : null;
+}
+
 export const scenarioInputsSchema = z
   .object({
     design: designSchema,
@@ -202,6 +244,7 @@ export const scenarioInputsSchema = z
     personnel: z.array(personnelSchema).max(40, "At most 40 people.").default([]),
     other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
     pilot: pilotSchema.optional(),
+    uncertainty: uncertaintySchema.optional(),
   })
   .superRefine((v, ctx) => {
     for (const issue of designRequirements(v)) ctx.addIssue({ code: "custom", ...issue });

@@ -4,6 +4,11 @@ import { LRUCache } from "lru-cache";
 import { reachCurveSteps, type ReachCurve } from "@/lib/planning/curve";
 import { cheapestDesign, type Optimum } from "@/lib/planning/optimiser";
 import { sensitivity, type SensitivityRow } from "@/lib/planning/sensitivity";
+import { forecastScenario, type ScenarioForecast } from "@/lib/planning/forecast";
+import { scenarioAssurance, type ScenarioAssurance } from "@/lib/planning/assurance";
+import type { ScenarioResults, StudyContext } from "@/lib/planning/compute";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import type { RateBook } from "@/lib/costing";
 
 /**
  * The reach curve and the planner's answers are pure functions of their arguments and are asked
@@ -14,6 +19,30 @@ import { sensitivity, type SensitivityRow } from "@/lib/planning/sensitivity";
 const curves = new LRUCache<string, ReachCurve>({ max: 200 });
 const plans = new LRUCache<string, PlannerAnswers>({ max: 200 });
 const keyOf = (args: unknown) => createHash("sha256").update(JSON.stringify(args)).digest("base64");
+
+const outlooks = new LRUCache<string, Outlook>({ max: 200 });
+
+export type Outlook = { forecast: ScenarioForecast; assurance: ScenarioAssurance | null };
+
+/** The recruitment forecast (a seeded simulation, 20–60 ms) and assurance for a saved scenario, kept like the planner's answers. */
+export function outlookCached(
+  inputs: ScenarioInputs,
+  results: ScenarioResults,
+  rates: RateBook,
+  study: StudyContext,
+  options: { rateSpread?: number; prior: { mean: number; sd: number; source?: string } | null },
+): Outlook {
+  const key = keyOf([inputs, results.computedAt, rates, study, options]);
+  let answer = outlooks.get(key);
+  if (!answer) {
+    answer = {
+      forecast: forecastScenario(inputs, results, rates, study, { rateSpread: options.rateSpread }),
+      assurance: options.prior ? scenarioAssurance(results.power, options.prior) : null,
+    };
+    outlooks.set(key, answer);
+  }
+  return answer;
+}
 
 export type PlannerAnswers = { cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 

@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { jStat } from "@/lib/power/special";
 import { solve } from "@/lib/power";
 import { computeTimeline } from "@/lib/costing";
-import { DEFAULT_RATE_SHAPE, forecastRecruitment, ForecastInputError, PUBLISHED_QUARTILES } from "@/lib/forecast/recruitment";
+import { DEFAULT_RATE_SHAPE, forecastRecruitment, ForecastInputError, PUBLISHED_QUARTILES, shapeForQuartileRatio } from "@/lib/forecast/recruitment";
 import { assurance, assuranceWithSd } from "@/lib/forecast/assurance";
 import { favourablePower } from "@/lib/forecast/favourable-power";
 import { seededRandom } from "@/lib/forecast/random";
@@ -135,6 +135,7 @@ describe("recruitment forecast: defaults and bad input", () => {
   it(`the default spread is the gamma shape whose quartiles are in the ratio of ${PUBLISHED_QUARTILES.source}'s (2.79 / 0.43)`, () => {
     const ratio = jStat.gamma.inv(0.75, DEFAULT_RATE_SHAPE, 1) / jStat.gamma.inv(0.25, DEFAULT_RATE_SHAPE, 1);
     expect(ratio).toBeCloseTo(2.79 / 0.43, 1);
+    expect(shapeForQuartileRatio(2.79 / 0.43)).toBeCloseTo(DEFAULT_RATE_SHAPE, 3);
   });
   it("refuses input it cannot forecast, naming the field", () => {
     const ok = { target: 100, ratePerSiteMonth: 1, activationMonths: [0], rateShape: 2, deadlines: { enrolment: 12 } };
@@ -274,5 +275,41 @@ describe("a scenario's forecast and the cost of a slow enrolment (demo scenario 
       expect(Number(slow.difference)).toBeGreaterThan(0);
     }
     expect(Number(f.slowEnd[1]!.difference)).toBeGreaterThan(Number(f.slowEnd[0]!.difference));
+  });
+});
+
+describe("assurance in the scenario: stored with its prior, quoted in the justification only when asked, and watched by the stale-text guard", async () => {
+  const { computeScenario } = await import("@/lib/planning/compute");
+  const { generateJustification } = await import("@/lib/planning/justification");
+  const { justificationFigures } = await import("@/lib/planning/justification-figures");
+  const { scenarioInputsSchema } = await import("@/lib/planning/schema");
+  const { DEMO_SCENARIOS, demoRateBook } = await import("../../scripts/demo-data");
+  const rates = demoRateBook(1);
+  const study = { startDate: "2027-07-01", sponsorCap: "2400000.00" };
+  const base = DEMO_SCENARIOS.find((s) => s.inputs.design.design === "two-means")!.inputs;
+  const withPrior = (inJustification: boolean, sd = 0.1) =>
+    scenarioInputsSchema.parse({ ...base, uncertainty: { rateSpread: "60%", effectPrior: { mean: String(base.design.effectSize ?? 0.5), sd: String(sd), source: "the pilot trial's interval", inJustification: inJustification ? "on" : "" } } });
+
+  it("the form's values (a percentage, strings, a checkbox's 'on') become numbers and a flag", () => {
+    const inputs = withPrior(true);
+    expect(inputs.uncertainty!.rateSpread).toBe(0.6);
+    expect(inputs.uncertainty!.effectPrior).toMatchObject({ sd: 0.1, inJustification: true });
+  });
+  it("half a prior is refused, naming the empty field; an empty one is no prior", () => {
+    const half = scenarioInputsSchema.safeParse({ ...base, uncertainty: { effectPrior: { mean: "0.4", sd: "", source: "" } } });
+    expect(half.success).toBe(false);
+    expect(half.error!.issues.map((x) => x.message).join(" ")).toMatch(/Uncertainty of the effect \(SD\): type how uncertain/);
+    expect(scenarioInputsSchema.safeParse({ ...base, uncertainty: { effectPrior: { mean: "", sd: "", source: "" } } }).success).toBe(true);
+  });
+  it("the justification quotes the assurance only when asked, and the figures the guard watches include it", () => {
+    const quiet = withPrior(false);
+    const loud = withPrior(true);
+    const r = computeScenario(loud, rates, study);
+    expect(generateJustification(quiet, computeScenario(quiet, rates, study), study)).not.toMatch(/assurance/);
+    const text = generateJustification(loud, r, study);
+    expect(text).toMatch(/the probability that the study succeeds \(assurance; O'Hagan, Stevens and Campbell 2005\) is 0\.\d+/);
+    const a = justificationFigures(loud, r, study).find((x) => x.key === "assurance")!;
+    const wider = justificationFigures(withPrior(true, 0.3), r, study).find((x) => x.key === "assurance")!;
+    expect(a.value).not.toBe(wider.value);
   });
 });

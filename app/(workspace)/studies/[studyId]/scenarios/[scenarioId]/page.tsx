@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { CommentsPanel } from "@/components/scenario/comments";
+import { OutlookPanel } from "@/components/scenario/outlook-panel";
 import { PlannerPanel } from "@/components/scenario/planner-panel";
 import { ReachChart } from "@/components/scenario/reach-chart";
 import { ResultsPanel } from "@/components/scenario/results-panel";
@@ -11,6 +12,7 @@ import { getScenario } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { mismatchLines } from "@/lib/planning/justification-figures";
+import { givenPrior } from "@/lib/planning/schema";
 import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
@@ -116,6 +118,13 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         </div>
       )}
       <PlannerPanel scenarioId={s.id} effectName={s.results.effectName} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
+      <OutlookPanel
+        scenarioId={s.id}
+        version={s.version}
+        effectName={s.results.effectName}
+        editable={editable}
+        saved={{ rateSpread: s.inputs.uncertainty?.rateSpread, prior: givenPrior(s.inputs.uncertainty) }}
+      />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
       <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
     </div>

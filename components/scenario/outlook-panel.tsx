@@ -1,0 +1,174 @@
+"use client";
+
+import { useEffect, useState } from "react";
+import { Area, CartesianGrid, ComposedChart, Line, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import useSWR from "swr";
+import { ScrollRegion } from "@/components/scroll-region";
+import { TableHead } from "@/components/table-head";
+import { DEFAULT_RATE_SPREAD } from "@/lib/forecast/defaults";
+import { formatMoney } from "@/lib/format/money";
+import type { Outlook } from "@/lib/server/planning-cache";
+import { effectUnit } from "@/lib/power/effect-units";
+
+async function fetchOutlook(url: string): Promise<Outlook> {
+  const res = await fetch(url);
+  const body = await res.json();
+  if (!res.ok) throw new Error(body?.error?.message ?? "The forecast could not be computed.");
+  return body;
+}
+
+const pct = (p: number) => `${(p * 100).toFixed(0)}%`;
+const months = (m: number) => `${m.toFixed(1)} months`;
+
+/** The value typed last, once the user has paused: the forecast redraws as they type, not on every key. */
+function useSettled<T>(value: T, ms = 350): T {
+  const [settled, setSettled] = useState(value);
+  useEffect(() => {
+    const t = setTimeout(() => setSettled(value), ms);
+    return () => clearTimeout(t);
+  }, [value, ms]);
+  return settled;
+}
+
+export type SavedUncertainty = { rateSpread?: number; prior: { mean: number; sd: number; source: string } | null };
+
+/**
+ * How likely the plan is: the recruitment forecast (probability of enrolling on time, percentiles of
+ * the months it takes, the milestone band, what a slow enrolment costs) and the assurance. Computed
+ * for the saved version; the fields here try other values without saving them.
+ */
+export function OutlookPanel({ scenarioId, version, effectName, saved, editable }: { scenarioId: number; version: number; effectName: string; saved: SavedUncertainty; editable: boolean }) {
+  const unit = effectUnit(effectName);
+  const hr = unit.name === "hazardRatio";
+  const [spread, setSpread] = useState(saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`);
+  const [mean, setMean] = useState(saved.prior ? String(saved.prior.mean) : "");
+  const [sd, setSd] = useState(saved.prior ? String(saved.prior.sd) : "");
+  const query = useSettled(new URLSearchParams({ ...(spread ? { rateSpread: spread } : {}), ...(mean && sd ? { priorMean: mean, priorSd: sd } : {}) }).toString());
+  const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/forecast?${query}&v=${version}`, fetchOutlook, { keepPreviousData: true, revalidateOnFocus: false });
+  const f = data?.forecast;
+  const a = data?.assurance;
+  const tried =
+    spread !== (saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`) || mean !== (saved.prior ? String(saved.prior.mean) : "") || sd !== (saved.prior ? String(saved.prior.sd) : "");
+  return (
+    <section className="card flex flex-col gap-4" aria-labelledby="outlook-heading" aria-busy={isLoading}>
+      <div>
+        <h2 id="outlook-heading">How likely the plan is</h2>
+        <p className="text-sm text-ink-soft">
+          For the saved version {version}. A forecast is a model of recruitment, not a promise: it shows how much the plan depends on sites enrolling at the planned rate.
+          {tried ? (editable ? " You are trying values that are not saved: to keep them, enter them under “Uncertainty” in the form and save." : " You are trying values that are not saved with the scenario.") : ""}
+        </p>
+      </div>
+      <div className="grid gap-4 sm:grid-cols-3">
+        <div className="field">
+          <label htmlFor="outlook-spread">Spread of enrolment rates between sites</label>
+          <input id="outlook-spread" className="input" value={spread} onChange={(e) => setSpread(e.target.value)} placeholder={`${Math.round(DEFAULT_RATE_SPREAD * 100)}%`} aria-describedby="outlook-spread-hint" />
+          <span id="outlook-spread-hint" className="hint">
+            Coefficient of variation, like 60%. Empty: {Math.round(DEFAULT_RATE_SPREAD * 100)}%, the published spread.
+          </span>
+        </div>
+        <div className="field">
+          <label htmlFor="outlook-mean">{hr ? "Expected hazard ratio" : `Expected effect (${unit.symbol})`}</label>
+          <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" />
+        </div>
+        <div className="field">
+          <label htmlFor="outlook-sd">{hr ? "Uncertainty (SD of the log hazard ratio)" : `Uncertainty of the effect (SD, ${unit.symbol})`}</label>
+          <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" />
+        </div>
+      </div>
+      {error ? (
+        <p className="alert" role="alert" data-testid="outlook-error">
+          {(error as Error).message}
+        </p>
+      ) : null}
+      {f ? (
+        <div className={error ? "opacity-50" : undefined}>
+          <div className="grid gap-4 lg:grid-cols-2">
+            <div className="flex flex-col gap-2">
+              <p data-testid="forecast-probability">
+                Chance of enrolling all {f.milestones.at(-1)?.planned ?? ""} participants by the planned end of enrolment (month {f.deadlines.enrolment}):{" "}
+                <strong className="num">{pct(f.probability.byEnrolmentDeadline)}</strong>
+                {f.probability.byFundedEnd !== null ? (
+                  <>
+                    ; in time for the last visits and close-out within the funded period: <strong className="num">{pct(f.probability.byFundedEnd)}</strong>
+                  </>
+                ) : null}
+                .
+              </p>
+              <p data-testid="forecast-months">
+                The plan takes <span className="num">{months(f.plannedMonths)}</span> at the planned rate. Months to enrol: median <strong className="num">{months(f.monthsToEnrol.median)}</strong>, 80th
+                percentile <strong className="num">{months(f.monthsToEnrol.p80)}</strong>, 90th percentile <strong className="num">{months(f.monthsToEnrol.p90)}</strong>.
+              </p>
+              <p className="text-xs text-ink-soft">
+                {f.method}. Each site&apos;s rate varies around the plan&apos;s with a coefficient of variation of {pct(f.rateSpread)} (from {f.shapeSource}).
+              </p>
+              <h3 className="mt-2 text-base">What a slow enrolment costs</h3>
+              {f.slowEnd.map((s) => (
+                <details key={s.percentile} data-testid={`slow-end-${s.percentile}`}>
+                  <summary className="cursor-pointer">
+                    At the {s.percentile}th percentile ({s.monthsToEnrol} months to enrol): <strong className="num">+{formatMoney(s.difference, { cents: false })}</strong>, a total of {formatMoney(s.total, { cents: false })}
+                  </summary>
+                  <ScrollRegion label={`Lines that change at the ${s.percentile}th percentile`} className="mt-2">
+                    <table className="table text-sm">
+                      <TableHead columns={["Line", { label: "Planned", num: true }, { label: "Slow", num: true }, { label: "Difference", num: true }]} />
+                      <tbody>
+                        {s.lines.map((l) => (
+                          <tr key={l.label}>
+                            <td>{l.label}</td>
+                            <td className="num">{formatMoney(l.planned)}</td>
+                            <td className="num">{formatMoney(l.slow)}</td>
+                            <td className="num">{formatMoney(l.difference)}</td>
+                          </tr>
+                        ))}
+                      </tbody>
+                    </table>
+                  </ScrollRegion>
+                </details>
+              ))}
+            </div>
+            <div className="h-64 w-full" data-testid="forecast-chart" data-months={f.milestones.length}>
+              <ResponsiveContainer width="100%" height="100%">
+                <ComposedChart data={f.milestones.map((m) => ({ ...m, band: [m.low, m.high] }))} margin={{ top: 10, right: 20, bottom: 20, left: 10 }}>
+                  <CartesianGrid stroke="#e5e0d3" />
+                  <XAxis dataKey="month" type="number" domain={["dataMin", "dataMax"]} label={{ value: "Month of the study", position: "insideBottom", offset: -10 }} />
+                  <YAxis width={48} label={{ value: "Enrolled", angle: -90, position: "insideLeft", style: { textAnchor: "middle" } }} />
+                  <Tooltip
+                    content={({ active, payload }) => {
+                      const p = active && payload?.[0]?.payload;
+                      if (!p) return null;
+                      return (
+                        <div className="rounded border border-rule bg-white p-2 text-xs shadow">
+                          <div>Month {p.month}</div>
+                          <div className="num">Planned {p.planned}</div>
+                          <div className="num">
+                            10–90%: {Math.round(p.low)}–{Math.round(p.high)}
+                          </div>
+                        </div>
+                      );
+                    }}
+                  />
+                  <Area dataKey="band" stroke="none" fill="#c9dbd3" fillOpacity={0.7} isAnimationActive={false} />
+                  <Line dataKey="planned" stroke="#1c2430" strokeWidth={2} dot={false} isAnimationActive={false} />
+                  <ReferenceLine x={f.deadlines.enrolment} stroke="#a6461f" strokeDasharray="4 3" label={{ value: "planned end", position: "top", fill: "#a6461f" }} />
+                </ComposedChart>
+              </ResponsiveContainer>
+            </div>
+          </div>
+          <p className="mt-1 text-xs text-ink-soft">Line: the plan&apos;s enrolment by month. Shaded: where enrolment falls in 80% of simulated studies (10th to 90th percentile).</p>
+          <h3 className="mt-4 text-base">Assurance</h3>
+          {a ? (
+            <p data-testid="assurance">
+              Power at the target effect <span className="num">{a.power.toFixed(3)}</span>; averaged over your expectation of the effect, the chance that the study succeeds (a significant result in the new
+              treatment&apos;s favour) is <strong className="num">{a.assurance.toFixed(3)}</strong>. <span className="text-xs text-ink-soft">{a.method}</span>
+            </p>
+          ) : (
+            <p className="text-ink-soft" data-testid="assurance">
+              Give your expected effect and its uncertainty to see the chance that the study succeeds, not only its power at the target effect.
+            </p>
+          )}
+        </div>
+      ) : !error ? (
+        <p className="text-ink-soft">Forecasting enrolment…</p>
+      ) : null}
+    </section>
+  );
+}
