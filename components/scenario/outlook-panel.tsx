@@ -60,18 +60,18 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
       </div>
       <div className="grid gap-4 sm:grid-cols-3">
         <div className="field">
-          <label htmlFor="outlook-spread">Spread of enrolment rates between sites</label>
+          <label htmlFor="outlook-spread">Try a spread of enrolment rates</label>
           <input id="outlook-spread" className="input" value={spread} onChange={(e) => setSpread(e.target.value)} placeholder={`${Math.round(DEFAULT_RATE_SPREAD * 100)}%`} aria-describedby="outlook-spread-hint" />
           <span id="outlook-spread-hint" className="hint">
             Coefficient of variation, like 60%. Empty: {Math.round(DEFAULT_RATE_SPREAD * 100)}%, the published spread.
           </span>
         </div>
         <div className="field">
-          <label htmlFor="outlook-mean">{hr ? "Expected hazard ratio" : `Expected effect (${unit.symbol})`}</label>
+          <label htmlFor="outlook-mean">{hr ? "Try an expected hazard ratio" : `Try an expected effect (${unit.symbol})`}</label>
           <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" />
         </div>
         <div className="field">
-          <label htmlFor="outlook-sd">{hr ? "Uncertainty (SD of the log hazard ratio)" : `Uncertainty of the effect (SD, ${unit.symbol})`}</label>
+          <label htmlFor="outlook-sd">{hr ? "Try an uncertainty (SD of the log hazard ratio)" : `Try an uncertainty of the effect (SD, ${unit.symbol})`}</label>
           <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" />
         </div>
       </div>

@@ -1,6 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
+import { scenarioContext, scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
+import { givenPrior } from "@/lib/planning/schema";
+import { outlookCached, type Outlook } from "@/lib/server/planning-cache";
 import { HttpError } from "@/lib/auth/errors";
 import { formatMoney } from "@/lib/format/money";
 import { designName } from "@/lib/power/design-names";
@@ -73,6 +75,21 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       </div>
     );
   }
+  // The forecast and assurance each scenario's page shows, with what is saved with it.
+  const outlooks = new Map<number, Outlook>();
+  for (const s of list) {
+    const ctx = await scenarioContext(user, s.id);
+    outlooks.set(s.id, outlookCached(ctx.inputs, ctx.results, ctx.rates, ctx.study, { rateSpread: ctx.inputs.uncertainty?.rateSpread, prior: givenPrior(ctx.inputs.uncertainty) }));
+  }
+  const likely: { section: string; rows: Row[] } = {
+    section: "How likely the plan is",
+    rows: [
+      { label: "Chance of enrolling by the planned end", values: (s) => pct(outlooks.get(s.id)!.forecast.probability.byEnrolmentDeadline) },
+      { label: "Months to enrol, 90th percentile", values: (s) => outlooks.get(s.id)!.forecast.monthsToEnrol.p90.toFixed(1) },
+      { label: "Extra cost at the 90th percentile", values: (s) => formatMoney(outlooks.get(s.id)!.forecast.slowEnd[1]!.difference, { cents: false }) },
+      { label: "Assurance", values: (s) => outlooks.get(s.id)!.assurance?.assurance.toFixed(3) ?? "no prior given" },
+    ],
+  };
   const periods = Math.max(...list.map((s) => s.results.ledger.periods.length));
   const money: { section: string; rows: Row[] } = {
     section: "Cost",
@@ -118,7 +135,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
               ))}
             </tr>
           </thead>
-          {[...ROWS, money].map((sec) => (
+          {[...ROWS, likely, money].map((sec) => (
             <tbody key={sec.section}>
               <tr>
                 <th scope="rowgroup" colSpan={list!.length + 1} className="bg-paper">

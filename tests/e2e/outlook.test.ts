@@ -1,0 +1,119 @@
+/**
+ * "How likely the plan is", walked as the investigator does: create a study and a scenario through
+ * the form, give the spread of enrolment rates and a prior for the effect under "Uncertainty", save,
+ * and read the forecast and the assurance against outside values: the closed form of the
+ * Poisson–gamma model (the F distribution, here from jStat, not the product's code) and the issue's
+ * assurance checked with R (N(0.5, 0.2²) on d, 86 per group, two-sided 0.05: 0.786). Then each of the
+ * other designs shows its assurance with a prior in its own unit.
+ */
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { jStat } from "@/lib/power/special";
+import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { ensureDesignStudy } from "./design-study";
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let page: Page;
+beforeAll(async () => {
+  browser = await launchBrowser();
+  page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(page, baseUrl, "pi@demo.test");
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+const number = (text: string, re: RegExp) => Number(re.exec(text)?.[1] ?? Number.NaN);
+
+describe("the investigator reads how likely the plan is", () => {
+  it("creates a scenario with d = 0.5 at 90% power, all sites opening together, a 50% spread and a prior N(0.5, 0.2²) quoted in the justification", async () => {
+    await createStudyFromPage(page, baseUrl, { code: "OUTLOOK-1", title: "Outlook walk-through", sponsor: "Invented Health Fund", cap: "5000000", start: "2027-09-01" });
+    await page.getByRole("link", { name: "New scenario" }).click();
+    await fillHandWorkedScenario(page, "Forecast and assurance");
+    await textField(page, "Target power").fill("0.9");
+    await textField(page, "Spread of enrolment rates between sites").fill("50%");
+    await textField(page, "Expected effect").fill("0.5");
+    await textField(page, "Uncertainty of the effect (SD)").fill("0.2");
+    await textField(page, "Where the expected effect and its uncertainty come from").fill("the range of effects in two earlier trials");
+    await page.getByLabel("Quote the assurance in the justification").check();
+    await page.getByRole("button", { name: "Create scenario" }).click();
+    await page.waitForURL(/\/scenarios\/\d+\?saved=1/);
+    await page.getByRole("heading", { name: "How likely the plan is" }).waitFor();
+  });
+
+  it("assurance 0.786 beside the power 0.903 (86 per group; the issue's values from R)", async () => {
+    const said = await waitForText(page.getByTestId("assurance"), /succeeds .* is 0\.\d{3}/);
+    expect(number(said, /Power at the target effect (0\.\d{3})/)).toBeCloseTo(0.903, 3);
+    expect(number(said, /is (0\.\d{3})/)).toBeCloseTo(0.786, 3);
+    const justification = await page.getByLabel("Justification text").inputValue();
+    expect(justification).toContain("86 and 86 evaluable participants per arm");
+    expect(justification).toMatch(/centred on an effect of 0\.5 \(SD 0\.2\) from the range of effects in two earlier trials, the probability that the study succeeds \(assurance; O'Hagan, Stevens and Campbell 2005\) is 0\.786\./);
+  });
+
+  it("the chance of enrolling on time equals the closed form: time to enrol = (n / Kμ) × F(2n, 2Kα), one site at 20 a month, α = 1 / 0.5² = 4", async () => {
+    const said = await waitForText(page.getByTestId("forecast-probability"), /Chance of enrolling all \d+ participants by the planned end of enrolment \(month \d+\): \d+%/);
+    const n = number(said, /all (\d+) participants/);
+    const deadline = number(said, /\(month (\d+)\)/);
+    const shown = number(said, /: (\d+)%/);
+    // 86 + 86 evaluable, 20% attrition then 20% screen failure: ceil(86 / 0.8) = 108 per arm enrolled.
+    expect(n).toBe(216);
+    const p = jStat.centralF.cdf(deadline / (n / 20), 2 * n, 2 * 4);
+    expect(shown).toBe(Math.round(p * 100));
+    const months = await page.getByTestId("forecast-months").textContent();
+    expect(number(months ?? "", /median ([\d.]+) months/)).toBeCloseTo((n / 20) * jStat.centralF.inv(0.5, 2 * n, 8), 1);
+    expect(await page.getByTestId("forecast-chart").getAttribute("data-months")).not.toBe("0");
+  });
+
+  it("tries a wider spread in the panel: the forecast redraws, and the page says the value is not saved", async () => {
+    const before = await page.getByTestId("forecast-months").textContent();
+    await page.getByLabel("Try a spread of enrolment rates").fill("150%");
+    await waitForText(page.getByText(/You are trying values that are not saved/), /to keep them, enter them under “Uncertainty” in the form and save/);
+    const deadline = Date.now() + 20_000;
+    while ((await page.getByTestId("forecast-months").textContent()) === before && Date.now() < deadline) await page.waitForTimeout(200);
+    const after = (await page.getByTestId("forecast-months").textContent()) ?? "";
+    expect(number(after, /90th percentile ([\d.]+) months/)).toBeGreaterThan(number(before ?? "", /90th percentile ([\d.]+) months/));
+    await page.getByTestId("slow-end-90").locator("summary").click();
+    expect(await page.getByTestId("slow-end-90").locator("tbody tr").count()).toBeGreaterThan(0);
+    await screenshotWidths(page, "outlook-panel");
+  });
+
+  it("a bad value in the panel gets a plain message and keeps what was typed", async () => {
+    await page.getByLabel("Try a spread of enrolment rates").fill("900%");
+    await waitForText(page.getByTestId("outlook-error"), /Spread of enrolment rates between sites: from 5% to 500%/);
+    expect(await page.getByLabel("Try a spread of enrolment rates").inputValue()).toBe("900%");
+  });
+
+  it("every other design shows its assurance for a prior in its own unit", async () => {
+    const { scenarios } = await ensureDesignStudy(page, baseUrl);
+    const priors: Record<string, [string, string]> = {
+      "Paired change": ["0.3", "0.1"],
+      "Walking goal reached": ["0.55", "0.05"],
+      "Clinics, goal reached": ["0.55", "0.05"],
+      "Time to first fall": ["0.7", "0.15"],
+    };
+    for (const [name, [mean, sd]] of Object.entries(priors)) {
+      const s = scenarios.find((x) => x.name === name)!;
+      await page.goto(`${baseUrl}/studies/${(await ensureDesignStudy(page, baseUrl)).studyId}/scenarios/${s.id}`);
+      await page.getByRole("heading", { name: "How likely the plan is" }).waitFor();
+      await page.locator("#outlook-mean").fill(mean);
+      await page.locator("#outlook-sd").fill(sd);
+      const said = await waitForText(page.getByTestId("assurance"), /succeeds .* is 0\.\d{3}/);
+      const power = number(said, /Power at the target effect (0\.\d{3})/);
+      const assured = number(said, /is (0\.\d{3})/);
+      expect(assured).toBeGreaterThan(0.05);
+      expect(assured).toBeLessThan(1);
+      // Where the prior is centred on the target effect, spread around it gives less than the power there (power above 0.5 is concave there).
+      if (name !== "Paired change") expect(assured).toBeLessThan(power);
+    }
+    // The demo study's cluster-randomised means: d, like the two-means scenario.
+    await page.goto(`${baseUrl}/studies`);
+    await page.getByRole("link", { name: /Walking Better/ }).click();
+    await page.getByRole("link", { name: "Clinic clusters", exact: true }).click();
+    await page.getByRole("heading", { name: "How likely the plan is" }).waitFor();
+    await page.locator("#outlook-mean").fill("0.4");
+    await page.locator("#outlook-sd").fill("0.1");
+    const said = await waitForText(page.getByTestId("assurance"), /succeeds .* is 0\.\d{3}/);
+    expect(number(said, /is (0\.\d{3})/)).toBeGreaterThan(0.05);
+  });
+});
