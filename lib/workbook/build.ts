@@ -11,6 +11,7 @@ import type { Ctx, LineRef, WorkbookScenario, WorkbookStudy } from "./cells";
 import { assumptionsSheet } from "./sheets/assumptions";
 import { budgetSheet, type BudgetLayout } from "./sheets/budget";
 import { comparisonSheet } from "./sheets/comparison";
+import { forecastSheet } from "./sheets/forecast";
 import { justificationSheet } from "./sheets/justification";
 import { personnelSheet } from "./sheets/personnel";
 import { quantitySheet } from "./sheets/quantities";
@@ -24,7 +25,7 @@ function addScenario(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario): Budge
   const ledger = s.results.ledger;
   const P = ledger.periods.length;
   const refs = new Map<string, LineRef>();
-  // Reading order: summary, budget, personnel, participants, sites, justification, assumptions.
+  // Reading order: summary, budget, personnel, participants, sites, justification, forecast, assumptions.
   const budgetWs = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Budget by period`));
   const personnel = personnelSheet(ctx, ledger.lines.filter((l) => l.group === "personnel"), P);
   personnel.refs.forEach((v, k) => refs.set(k, v));
@@ -33,6 +34,7 @@ function addScenario(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario): Budge
   const sites = quantitySheet(ctx, "Sites", ledger.lines.filter((l) => l.group === "sites" && l.basis === "quantity"), P, s.rates);
   sites.refs.forEach((v, k) => refs.set(k, v));
   justificationSheet(ctx, s);
+  forecastSheet(ctx, s, study.sponsorCap);
   assumptionsSheet(ctx, s);
   const layout = budgetSheet(ctx, s, refs, budgetWs);
   summarySheet(ctx, study, s, layout, summary);

@@ -106,7 +106,17 @@ describe("permissions", () => {
 describe("read back with exceljs", () => {
   it("has the sheets, live formulas, named cells, and inert user text", async () => {
     const wb = await load(Buffer.from(await (await one("pi", scenarios[1]!.id)).arrayBuffer()));
-    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Personnel", "Participants", "Sites", "Justification", "Assumptions"]);
+    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Personnel", "Participants", "Sites", "Justification", "Forecast", "Assumptions"]);
+    // The forecast sheet: the chance of enrolling on time, the milestone table with its band, what a slow enrolment costs.
+    const forecast = wb.getWorksheet("Forecast")!;
+    const labels = new Map<string, ExcelJS.CellValue>();
+    forecast.eachRow((row) => labels.set(String(row.getCell(1).value), row.getCell(2).value));
+    const chance = [...labels].find(([k]) => k.startsWith("Chance of enrolling by the planned end"))![1] as number;
+    expect(chance).toBeGreaterThan(0);
+    expect(chance).toBeLessThan(1);
+    expect(labels.get("Months to enrol, median")).toEqual(expect.any(Number));
+    expect([...labels.keys()].some((k) => k.startsWith("Extra cost if enrolment takes the 90th percentile"))).toBe(true);
+    expect(labels.get("Month of the study")).toBe("Planned");
     const budget = wb.getWorksheet("Budget by period")!;
     const total = budgetRows(budget).get("Total")!;
     expect((total.getCell(4).value as ExcelJS.CellFormulaValue).formula).toMatch(/D\d+\+D\d+/);
