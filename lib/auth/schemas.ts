@@ -44,6 +44,12 @@ export const changePasswordSchema = z
   })
   .refine((v) => v.next === v.confirm, { path: ["confirm"], message: "The two new passwords differ; type the same password twice." });
 
+/** The API's password change: no second typing, which is the page's guard against a typo. */
+export const apiChangePasswordSchema = z.object({
+  current: z.string({ error: "Enter your current password." }).min(1, "Enter your current password.").max(PASSWORD_MAX, "Enter your current password."),
+  next: z.string({ error: `New password: use at least ${PASSWORD_MIN} characters.` }).min(PASSWORD_MIN, `New password: use at least ${PASSWORD_MIN} characters.`).max(PASSWORD_MAX, `New password: use at most ${PASSWORD_MAX} characters.`),
+});
+
 /** Set a password through a link: the new password twice. */
 export const setPasswordSchema = z
   .object({
