@@ -48,7 +48,7 @@ afterAll(async () => {
   await dropDatabase(dir);
 });
 
-describe("a new account's welcome link", () => {
+describe("a new account's welcome link", { timeout: 120_000 }, () => {
   it("arrives by e-mail; no password signs in before it is used; it sets the password once, signs the person in, then is refused", async () => {
     const id = await createAccount(admin(), { email: "welcome.person@demo.test", name: "Welcome Person", role: "finance" });
     // At rest the outbox holds the link withheld and the token apart, until delivery.
@@ -77,7 +77,7 @@ describe("a new account's welcome link", () => {
   });
 });
 
-describe("an administrator's reset link", () => {
+describe("an administrator's reset link", { timeout: 120_000 }, () => {
   it("only an administrator sends one; it expires after 24 hours; a newer link withdraws the older; using it ends every session", async () => {
     for (const who of ["pi", "coi", "grants", "finance"] as const) {
       await expect(sendPasswordReset({ id: ids[who]!, role: who === "pi" ? "investigator" : who === "coi" ? "co-investigator" : who === "grants" ? "grants-officer" : "finance" }, ids.coi!)).rejects.toMatchObject({ status: 403 });
@@ -116,7 +116,7 @@ describe("an administrator's reset link", () => {
   });
 });
 
-describe("changing one's own password", () => {
+describe("changing one's own password", { timeout: 120_000 }, () => {
   it("needs the right current password; ends every other session and any reset link still unused; the new one signs in", async () => {
     const here = await signInAs(sessionRoute, "grants@demo.test");
     const elsewhere = await signInAs(sessionRoute, "grants@demo.test");
@@ -142,7 +142,7 @@ describe("changing one's own password", () => {
   });
 });
 
-describe("the review's e-mails and each person's settings", () => {
+describe("the review's e-mails and each person's settings", { timeout: 120_000 }, () => {
   const reviewOf = async (who: string, scenarioId: number, body: unknown) => {
     const res = await reviewRoute.POST(request("POST", "/x", { cookie: await signInAs(sessionRoute, `${who}@demo.test`), body }), params({ scenarioId: String(scenarioId) }));
     expect(res.status, JSON.stringify(await res.clone().json())).toBe(200);
@@ -211,7 +211,7 @@ describe("the review's e-mails and each person's settings", () => {
   });
 });
 
-describe("the outbox page's view", () => {
+describe("the outbox page's view", { timeout: 120_000 }, () => {
   it("shows no redeemable link: welcome and reset links are withheld, and a stored body written before withholding is redacted", async () => {
     await getDb()
       .insertInto("outbox")
