@@ -9,17 +9,18 @@ import { kickMailSender } from "./outbox";
 import { issuePasswordLink, NO_PASSWORD_YET } from "./passwords";
 import { deleteSessionsOfUser } from "./sessions";
 
-export type AccountRow = { id: number; email: string; name: string; role: AccountRole; active: boolean; createdAt: string };
+/** `passwordSet` is false until the person has used their welcome link. */
+export type AccountRow = { id: number; email: string; name: string; role: AccountRole; active: boolean; passwordSet: boolean; createdAt: string };
 
 export async function listAccounts(actor: Actor): Promise<AccountRow[]> {
   enforce(decide(actor, "accounts.manage"));
   const rows = await getDb()
     .selectFrom("users")
-    .select(["id", "email", "name", "role", "active", "created_at"])
+    .select(["id", "email", "name", "role", "active", "created_at", "password_hash"])
     .orderBy("role")
     .orderBy("name")
     .execute();
-  return rows.map((r) => ({ id: r.id, email: r.email, name: r.name, role: r.role, active: r.active === 1, createdAt: r.created_at }));
+  return rows.map((r) => ({ id: r.id, email: r.email, name: r.name, role: r.role, active: r.active === 1, passwordSet: r.password_hash !== NO_PASSWORD_YET, createdAt: r.created_at }));
 }
 
 async function institutionOf(userId: number): Promise<number> {

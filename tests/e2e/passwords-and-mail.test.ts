@@ -60,8 +60,8 @@ describe("passwords", () => {
     await admin.getByLabel("Role", { exact: true }).selectOption({ label: "Finance" });
     await admin.getByRole("button", { name: "Create account" }).click();
     await admin.getByRole("status").filter({ hasText: "Account created. A welcome e-mail with a link to choose a password is on its way." }).waitFor();
-    await admin.getByRole("row").filter({ hasText: PERSON.email }).waitFor();
-    await admin.close();
+    const row = admin.getByRole("row").filter({ hasText: PERSON.email });
+    await row.getByText("no password yet").waitFor();
 
     const welcome = await mailTo(PERSON.email, /Your account is ready: set your password/);
     expect(welcome.text).toContain(`${PERSON.name}, `);
@@ -83,6 +83,11 @@ describe("passwords", () => {
     await them.waitForURL(/\/studies$/);
     await waitForText(them.getByTestId("whoami"), new RegExp(`${PERSON.name}.*Finance`));
     await them.close();
+    // The administrator's table no longer says the password is missing.
+    await admin.reload();
+    await row.getByText("Active", { exact: true }).waitFor();
+    expect(await row.getByText("no password yet").count()).toBe(0);
+    await admin.close();
 
     // The link worked once.
     const again = await browser.newPage();
