@@ -13,7 +13,6 @@ import { writeAudit } from "./audit";
 import { enqueueMail, kickMailSender } from "./outbox";
 import { createSession, type SessionUser } from "./sessions";
 import { reserveAttempt } from "./sign-in";
-
 import { RESET_LINK_HOURS, WELCOME_LINK_DAYS } from "@/lib/auth/password-links";
 
 /**
