@@ -3,7 +3,7 @@ import { SESSION_COOKIE } from "@/lib/auth/session-options";
 import { errorBody } from "@/lib/http/errors";
 import { isForeignAction } from "@/lib/http/same-origin";
 
-const PUBLIC = [/^\/sign-in(\/|$)/, /^\/invitations\//];
+const PUBLIC = [/^\/sign-in(\/|$)/, /^\/invitations\//, /^\/password\//];
 
 /** A fresh nonce per page: Next puts it on its own scripts, and nothing else may run. */
 function contentSecurityPolicy(nonce: string): string {

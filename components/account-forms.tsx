@@ -3,8 +3,9 @@
 import { getFormProps, getInputProps, getSelectProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { useActionState } from "react";
-import { changeRoleAction, createAccountAction, setActiveAction } from "@/app/(workspace)/admin/accounts/actions";
+import { changeRoleAction, createAccountAction, sendResetAction, setActiveAction } from "@/app/(workspace)/admin/accounts/actions";
 import { ACCOUNT_ROLES, ROLE_LABELS, type AccountRole } from "@/lib/auth/roles";
+import { RESET_LINK_HOURS, WELCOME_LINK_DAYS } from "@/lib/auth/password-links";
 import { createAccountSchema } from "@/lib/auth/schemas";
 import { ErrorSummary } from "./form/error-summary";
 import { describedBy, Field } from "./form/field";
@@ -25,7 +26,7 @@ export function CreateAccountForm() {
         <ErrorSummary formId={form.id} errors={form.allErrors} />
         {lastResult?.status === "success" ? (
           <p className="notice" role="status">
-            Account created.
+            Account created. A welcome e-mail with a link to choose a password is on its way.
           </p>
         ) : null}
       </div>
@@ -45,15 +46,9 @@ export function CreateAccountForm() {
           ))}
         </select>
       </Field>
-      <Field id={fields.password.id} label="First password" hint="At least 8 characters; the person can change it later." errors={fields.password.errors}>
-        <input
-          {...getInputProps(fields.password, { type: "password" })}
-          key={fields.password.key}
-          autoComplete="new-password"
-          className="input"
-          aria-describedby={describedBy(fields.password.id, true, fields.password.errors)}
-        />
-      </Field>
+      <p className="text-sm text-ink-soft md:col-span-2" id="welcome-note">
+        The person gets a welcome e-mail with a link to choose their own password; the link works once and expires in {WELCOME_LINK_DAYS} days. They can change the password later in their account settings, and you can send a reset link from this table.
+      </p>
       <div className="md:col-span-2">
         <button type="submit" className="btn" disabled={pending}>
           {pending ? "Creating…" : "Create account"}
@@ -66,7 +61,8 @@ export function CreateAccountForm() {
 export function AccountRowControls({ userId, name, role, active, self }: { userId: number; name: string; role: AccountRole; active: boolean; self: boolean }) {
   const [roleResult, roleAction, rolePending] = useActionState(changeRoleAction, undefined);
   const [activeResult, activeAction, activePending] = useActionState(setActiveAction, undefined);
-  const error = [...(roleResult?.error?.[""] ?? []), ...(roleResult?.error?.role ?? []), ...(activeResult?.error?.[""] ?? [])];
+  const [resetResult, resetAction, resetPending] = useActionState(sendResetAction, undefined);
+  const error = [...(roleResult?.error?.[""] ?? []), ...(roleResult?.error?.role ?? []), ...(activeResult?.error?.[""] ?? []), ...(resetResult?.error?.[""] ?? [])];
   if (self) return <span className="text-sm text-ink-soft">Your account</span>;
   return (
     <div className="flex flex-wrap items-center gap-2">
@@ -106,6 +102,21 @@ export function AccountRowControls({ userId, name, role, active, self }: { userI
           </button>
         )}
       </form>
+      {active ? (
+        <form action={resetAction}>
+          <input type="hidden" name="userId" value={userId} />
+          {/* A reset link ends the person's sessions when used: ask first. */}
+          <ConfirmButton
+            label="Send reset link"
+            question={`E-mail ${name} a link to choose a new password? It works once and expires in ${RESET_LINK_HOURS} hours; any earlier link stops working.`}
+            confirmLabel="Send the link"
+            cancelLabel="Keep as is"
+            pending={resetPending}
+            pendingLabel="Sending…"
+            testId={`reset-${userId}`}
+          />
+        </form>
+      ) : null}
       {error.length ? (
         <span className="text-sm text-signal" role="alert">
           {error.join(" ")}
@@ -114,6 +125,11 @@ export function AccountRowControls({ userId, name, role, active, self }: { userI
       {activeResult?.status === "success" && !activePending ? (
         <span className="text-sm text-ledger" role="status" data-testid={`account-status-${userId}`}>
           {active ? `${name} can sign in again.` : `${name} is deactivated and can no longer sign in.`}
+        </span>
+      ) : null}
+      {resetResult?.status === "success" && !resetPending ? (
+        <span className="text-sm text-ledger" role="status" data-testid={`reset-status-${userId}`}>
+          Reset link sent to {name}.
         </span>
       ) : null}
       {roleResult?.status === "success" && !rolePending ? (

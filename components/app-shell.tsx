@@ -24,6 +24,9 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
               <span className="font-medium">{user.name}</span>
               <span className="ml-2 rounded-full bg-white/15 px-2 py-0.5 text-xs">{ROLE_LABELS[user.role]}</span>
             </span>
+            <Link href="/account" className="text-white underline-offset-2 hover:text-white hover:underline">
+              Account settings
+            </Link>
             <form action={signOutAction}>
               <button type="submit" className="rounded border border-white/40 px-3 py-1 text-white hover:bg-white/10">
                 Sign out

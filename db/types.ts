@@ -196,6 +196,27 @@ export interface OutboxTable {
   secret: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
+/** A single-use link that sets an account's password: sent on account creation (welcome) or by an admin (reset). */
+export interface PasswordLinksTable {
+  id: Generated<number>;
+  user_id: number;
+  purpose: "welcome" | "reset";
+  /** SHA-256 of the token, hex; the token itself is only in the e-mail. */
+  token_hash: string;
+  created_by: number | null;
+  created_at: CreatedAt;
+  expires_at: string;
+  used_at: string | null;
+  revoked_at: string | null;
+}
+
+/** A kind of notification e-mail one person has turned off (lib/mail/settings.ts lists the kinds). */
+export interface MailOptOutsTable {
+  user_id: number;
+  kind: string;
+  created_at: CreatedAt;
+}
+
 /** One row (id 1): the random id of this installation, made when the database was created. */
 export interface InstallationTable {
   id: number;
@@ -220,6 +241,8 @@ export interface Database {
   invitations: InvitationsTable;
   outbox: OutboxTable;
   installation: InstallationTable;
+  password_links: PasswordLinksTable;
+  mail_opt_outs: MailOptOutsTable;
 }
 
 export type User = Selectable<UsersTable>;

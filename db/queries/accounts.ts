@@ -5,19 +5,22 @@ import { hashPassword } from "@/lib/auth/password";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import type { AccountRole } from "@/lib/auth/roles";
 import { writeAudit } from "./audit";
+import { kickMailSender } from "./outbox";
+import { issuePasswordLink, NO_PASSWORD_YET } from "./passwords";
 import { deleteSessionsOfUser } from "./sessions";
 
-export type AccountRow = { id: number; email: string; name: string; role: AccountRole; active: boolean; createdAt: string };
+/** `passwordSet` is false until the person has used their welcome link. */
+export type AccountRow = { id: number; email: string; name: string; role: AccountRole; active: boolean; passwordSet: boolean; createdAt: string };
 
 export async function listAccounts(actor: Actor): Promise<AccountRow[]> {
   enforce(decide(actor, "accounts.manage"));
   const rows = await getDb()
     .selectFrom("users")
-    .select(["id", "email", "name", "role", "active", "created_at"])
+    .select(["id", "email", "name", "role", "active", "created_at", "password_hash"])
     .orderBy("role")
     .orderBy("name")
     .execute();
-  return rows.map((r) => ({ id: r.id, email: r.email, name: r.name, role: r.role, active: r.active === 1, createdAt: r.created_at }));
+  return rows.map((r) => ({ id: r.id, email: r.email, name: r.name, role: r.role, active: r.active === 1, passwordSet: r.password_hash !== NO_PASSWORD_YET, createdAt: r.created_at }));
 }
 
 async function institutionOf(userId: number): Promise<number> {
@@ -25,17 +28,21 @@ async function institutionOf(userId: number): Promise<number> {
   return row.institution_id;
 }
 
+/**
+ * Makes an account. The page passes no password: the person gets a welcome e-mail with a single-use
+ * link to choose their own, and until then no password signs in. Scripts and tests may pass one.
+ */
 export async function createAccount(
   actor: Actor,
-  input: { email: string; name: string; role: AccountRole; password: string },
+  input: { email: string; name: string; role: AccountRole; password?: string },
 ): Promise<number> {
   enforce(decide(actor, "accounts.manage"));
   const db = getDb();
   const exists = await db.selectFrom("users").select("id").where("email", "=", input.email).executeTakeFirst();
   if (exists) throw new HttpError(409, "conflict", "An account with that e-mail exists.", { email: ["An account with that e-mail exists."] });
-  const passwordHash = await hashPassword(input.password);
+  const passwordHash = input.password ? await hashPassword(input.password) : NO_PASSWORD_YET;
   const institutionId = await institutionOf(actor.id);
-  return db.transaction().execute(async (trx) => {
+  const id = await db.transaction().execute(async (trx) => {
     const now = new Date().toISOString();
     const { id } = await trx
       .insertInto("users")
@@ -43,8 +50,11 @@ export async function createAccount(
       .returning("id")
       .executeTakeFirstOrThrow();
     await writeAudit(trx, [{ userId: actor.id, action: "create", entity: "user", entityId: id, field: "role", newValue: input.role }]);
+    if (!input.password) await issuePasswordLink(trx, { userId: id, purpose: "welcome", adminId: actor.id, now: new Date(now) });
     return id;
   });
+  kickMailSender();
+  return id;
 }
 
 async function targetUser(userId: number) {

@@ -5,19 +5,35 @@ import type { Database } from "@/db/types";
 import { enforce } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import { outboxMessageId } from "@/lib/mail/message-id";
-import { linksIn, restoreSecret, withholdSecret, type MailMessage } from "@/lib/mail/templates";
+import { isOptionalKind } from "@/lib/mail/settings";
+import { linksIn, redactLinks, restoreSecret, withholdSecret, type MailMessage } from "@/lib/mail/templates";
 import { createTransport } from "@/lib/mail/transport";
 
 /**
  * Records messages in the caller's transaction: a rolled-back event sends nothing. A message's secret
  * (an invitation token) is withheld from the stored bodies and kept apart only until delivery.
  */
-export async function enqueueMail(db: Kysely<Database> | Transaction<Database>, messages: MailMessage[]): Promise<void> {
+export async function enqueueMail(db: Kysely<Database> | Transaction<Database>, all: MailMessage[]): Promise<void> {
+  const messages = await withoutOptedOut(db, all);
   if (!messages.length) return;
   await db
     .insertInto("outbox")
     .values(messages.map((m) => ({ kind: m.kind, to_address: m.to, subject: m.subject, ...bodies(m), secret: m.secret ?? null })))
     .execute();
+}
+
+/** Drops the notifications whose recipient turned that kind off in their account settings (lib/mail/settings.ts). */
+async function withoutOptedOut(db: Kysely<Database> | Transaction<Database>, messages: MailMessage[]): Promise<MailMessage[]> {
+  const optional = messages.filter((m) => isOptionalKind(m.kind));
+  if (!optional.length) return messages;
+  const off = await db
+    .selectFrom("mail_opt_outs")
+    .innerJoin("users", "users.id", "mail_opt_outs.user_id")
+    .select(["users.email", "mail_opt_outs.kind"])
+    .where("users.email", "in", [...new Set(optional.map((m) => m.to))])
+    .execute();
+  const refused = new Set(off.map((o) => `${o.kind}\n${o.email}`));
+  return messages.filter((m) => !refused.has(`${m.kind}\n${m.to}`));
 }
 
 const bodies = (m: MailMessage) => {
@@ -116,5 +132,9 @@ export type OutboxRow = { id: number; kind: string; to: string; subject: string;
 export async function listOutbox(actor: Actor, limit = 200): Promise<OutboxRow[]> {
   enforce(decide(actor, "outbox.view"));
   const rows = await getDb().selectFrom("outbox").selectAll().orderBy("id", "desc").limit(limit).execute();
-  return rows.map((r) => ({ id: r.id, kind: r.kind, to: r.to_address, subject: r.subject, createdAt: r.created_at, sentAt: r.sent_at, attempts: r.attempts, lastError: r.last_error, text: r.text_body, links: linksIn(r.text_body) }));
+  // Stored bodies already withhold secrets; redacting again covers rows written before they did.
+  return rows.map((r) => {
+    const text = redactLinks(r.text_body);
+    return { id: r.id, kind: r.kind, to: r.to_address, subject: r.subject, createdAt: r.created_at, sentAt: r.sent_at, attempts: r.attempts, lastError: r.last_error, text, links: linksIn(text) };
+  });
 }

@@ -10,9 +10,8 @@ import type { ScenarioInputs } from "@/lib/planning/schema";
 import { TimelineError, CostingError } from "@/lib/costing";
 import { PowerInputError, UnreachableError, type Design } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
-import { enqueueMail, kickMailSender } from "./outbox";
-import { reviewedMail, submittedMail } from "@/lib/mail/templates";
-import { appUrl } from "@/lib/mail/transport";
+import { kickMailSender } from "./outbox";
+import { enqueueReviewMail } from "./review-mail";
 import { editionForCosting, editionInForceLabel, editionToRateBook, getEdition } from "./rate-book";
 import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { membershipOf } from "./studies";
@@ -302,24 +301,7 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
         ...(mismatch ? [{ userId: actor.id, action: `${action}-with-mismatch`, entity: "scenario", entityId: id, field: "justification", newValue: mismatch }] : []),
       ]);
       // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing.
-      const link = `${appUrl()}/studies/${row.study_id}/scenarios/${id}`;
-      const me = await trx.selectFrom("users").select(["name", "institution_id"]).where("id", "=", actor.id).executeTakeFirstOrThrow();
-      if (action === "submit") {
-        const officers = await trx.selectFrom("users").select("email").where("role", "=", "grants-officer").where("active", "=", 1).where("institution_id", "=", me.institution_id).execute();
-        await enqueueMail(trx, officers.map((o) => submittedMail({ to: o.email, investigator: me.name, scenario: row.name, studyCode: row.study_code, link })));
-      } else {
-        const team = await trx
-          .selectFrom("study_members")
-          .innerJoin("users", "users.id", "study_members.user_id")
-          .select("users.email")
-          .where("study_members.study_id", "=", row.study_id)
-          .where("users.active", "=", 1)
-          .execute();
-        await enqueueMail(
-          trx,
-          team.map((t) => reviewedMail({ to: t.email, scenario: row.name, studyCode: row.study_code, outcome: action === "return" ? "returned" : "cleared", reason: reason?.trim() ?? null, reviewer: me.name, link })),
-        );
-      }
+      await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason });
     });
   kickMailSender();
   return getScenario(actor, id);

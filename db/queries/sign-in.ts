@@ -15,7 +15,7 @@ export type SignInResult =
  * no two attempts count at once: a burst of parallel attempts gets at most LOGIN_MAX_FAILURES
  * password checks, however many it sends. The row stays as a failure unless the password is right.
  */
-async function reserveAttempt(email: string, now: Date): Promise<{ ok: true } | { ok: false; retryAfterSeconds: number }> {
+export async function reserveAttempt(email: string, now: Date): Promise<{ ok: true } | { ok: false; retryAfterSeconds: number }> {
   const windowStart = new Date(now.getTime() - LOGIN_WINDOW_MINUTES * 60_000).toISOString();
   return getDb()
     .transaction()

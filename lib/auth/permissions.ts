@@ -26,7 +26,8 @@ export type Action =
   | "ratebook.edit"
   | "ratebook.read"
   | "workbook.download"
-  | "power.use";
+  | "power.use"
+  | "account.self";
 
 export type Context = { membership?: Membership; scenarioState?: ScenarioState };
 
@@ -96,6 +97,9 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
     }
     case "power.use":
       return role === "admin" ? "forbidden" : "allow";
+    case "account.self":
+      // One's own password and e-mail settings: every signed-in person.
+      return "allow";
   }
 }
 

@@ -31,8 +31,36 @@ export const createAccountSchema = z.object({
   email: emailField,
   name: z.string({ error: "Enter the person's name." }).trim().min(1, "Enter the person's name.").max(120, "Use at most 120 characters."),
   role: roleField,
-  password: newPasswordField,
 });
+
+export const accountIdSchema = z.object({ userId: z.coerce.number().int().positive() });
+
+/** Change one's own password: the current one, and the new one typed twice. */
+export const changePasswordSchema = z
+  .object({
+    current: z.string({ error: "Enter your current password." }).min(1, "Enter your current password.").max(PASSWORD_MAX, "Enter your current password."),
+    next: z.string({ error: `New password: use at least ${PASSWORD_MIN} characters.` }).min(PASSWORD_MIN, `New password: use at least ${PASSWORD_MIN} characters.`).max(PASSWORD_MAX, `New password: use at most ${PASSWORD_MAX} characters.`),
+    confirm: z.string({ error: "Type the new password again." }).min(1, "Type the new password again."),
+  })
+  .refine((v) => v.next === v.confirm, { path: ["confirm"], message: "The two new passwords differ; type the same password twice." });
+
+/** The API's password change: no second typing, which is the page's guard against a typo. */
+export const apiChangePasswordSchema = z.object({
+  current: z.string({ error: "Enter your current password." }).min(1, "Enter your current password.").max(PASSWORD_MAX, "Enter your current password."),
+  next: z.string({ error: `New password: use at least ${PASSWORD_MIN} characters.` }).min(PASSWORD_MIN, `New password: use at least ${PASSWORD_MIN} characters.`).max(PASSWORD_MAX, `New password: use at most ${PASSWORD_MAX} characters.`),
+});
+
+/** Set a password through a link: the new password twice. */
+export const setPasswordSchema = z
+  .object({
+    token: z.string({ error: "This link is not complete; open the link from the e-mail again." }).min(10, "This link is not complete; open the link from the e-mail again."),
+    next: z.string({ error: `New password: use at least ${PASSWORD_MIN} characters.` }).min(PASSWORD_MIN, `New password: use at least ${PASSWORD_MIN} characters.`).max(PASSWORD_MAX, `New password: use at most ${PASSWORD_MAX} characters.`),
+    confirm: z.string({ error: "Type the new password again." }).min(1, "Type the new password again."),
+  })
+  .refine((v) => v.next === v.confirm, { path: ["confirm"], message: "The two new passwords differ; type the same password twice." });
+
+/** E-mail settings: the kinds left on arrive as repeated `on` values (checkboxes). */
+export const mailSettingsSchema = z.object({ on: z.array(z.string().max(40)).max(20).default([]) });
 
 export const changeRoleSchema = z.object({ userId: z.coerce.number().int().positive(), role: roleField });
 export const setActiveSchema = z.object({

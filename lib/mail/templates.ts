@@ -37,6 +37,37 @@ export function invitationMail(o: { to: string; inviter: string; studyCode: stri
   return { ...message, secret: o.token };
 }
 
+/** An administrator made the account: the person sets their own password through a single-use link. */
+export function welcomeMail(o: { to: string; name: string; roleLabel: string; admin: string; link: string; token: string; expiresOn: string }): MailMessage {
+  const message = compose(
+    "welcome",
+    o.to,
+    "Your account is ready: set your password",
+    [
+      `${o.name}, ${o.admin} made you a Delta Ledger account (${o.roleLabel}) for ${o.to}.`,
+      `Choose your password through the link below. It works once and expires on ${o.expiresOn}; after that, ask your administrator for a new one.`,
+    ],
+    { href: o.link, label: "Set your password" },
+  );
+  return { ...message, secret: o.token };
+}
+
+/** An administrator asked for a reset: a single-use link, short-lived, that ends every session of the account when used. */
+export function passwordResetMail(o: { to: string; name: string; admin: string; link: string; token: string; expiresAt: string }): MailMessage {
+  const message = compose(
+    "password-reset",
+    o.to,
+    "Reset your password",
+    [
+      `${o.name}, ${o.admin} sent you a link to choose a new Delta Ledger password.`,
+      `It works once and expires at ${o.expiresAt} UTC. Setting a new password signs you out everywhere else.`,
+      "If you did not ask for this, you can ignore this message: your password stays as it is.",
+    ],
+    { href: o.link, label: "Choose a new password" },
+  );
+  return { ...message, secret: o.token };
+}
+
 export function commentMail(o: { to: string; author: string; scenario: string; body: string; link: string; reply: boolean }): MailMessage {
   return compose(
     o.reply ? "comment-reply" : "comment",
@@ -60,6 +91,28 @@ export function reviewedMail(o: { to: string; scenario: string; studyCode: strin
       ? [`${o.reviewer} returned the scenario "${o.scenario}" of ${o.studyCode}.`, `Reason: ${o.reason ?? ""}`]
       : [`${o.reviewer} cleared the scenario "${o.scenario}" of ${o.studyCode}. It is now frozen; clone it to make changes.`];
   return compose(o.outcome, o.to, `${o.studyCode}: ${o.scenario} ${o.outcome}`, lines, { href: o.link, label: "Open the scenario" });
+}
+
+/** To finance: a scenario is cleared and its workbook can be downloaded. */
+export function clearedForFinanceMail(o: { to: string; scenario: string; studyCode: string; total: string; edition: string; reviewer: string; link: string }): MailMessage {
+  return compose(
+    "cleared",
+    o.to,
+    `${o.studyCode}: ${o.scenario} cleared`,
+    [`${o.reviewer} cleared the scenario "${o.scenario}" of ${o.studyCode}: total ${o.total}, rate book ${o.edition}.`, "Its budget workbook can be downloaded from the scenario's page."],
+    { href: o.link, label: "Open the scenario and its workbook" },
+  );
+}
+
+/**
+ * Links that redeem something (an invitation, a password link), found in a stored body whose secret
+ * was not withheld (messages written before the outbox withheld secrets): the outbox page shows them
+ * redacted all the same.
+ */
+const REDEEMABLE = /(\/(?:invitations|password)\/)([A-Za-z0-9_-]{16,})/g;
+
+export function redactLinks(text: string): string {
+  return text.replace(REDEEMABLE, `$1${SECRET_WITHHELD}`);
 }
 
 /** The links in a message's text, for the outbox page; a link whose secret is withheld is left out. */

@@ -6,6 +6,8 @@
  * violations fail; moderate ones are printed so they can be read. Every scroll area must also be a
  * named region a keyboard can reach.
  */
+import { createHash } from "node:crypto";
+import Database from "better-sqlite3";
 import fs from "node:fs";
 import { createRequire } from "node:module";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
@@ -222,6 +224,30 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
       const admin = await pageAs("admin@demo.test", w);
       for (const path of ["/admin/accounts", "/admin/outbox"]) await visit(admin, path, `admin ${path} @${w}`);
       await admin.close();
+    }
+    report();
+  }, 120_000);
+
+  it("account settings, and the password-link page: its form and its refusal", async () => {
+    // A reset link written straight into the database (only its hash is kept, as the app does); never used here.
+    const token = "accessibility-audit-link-0123456789abcdef";
+    const db = new Database(inject("databasePath"));
+    try {
+      db.prepare("insert into password_links (user_id, purpose, token_hash, expires_at) select id, 'reset', ?, ? from users where email = 'coi@demo.test'").run(
+        createHash("sha256").update(token).digest("hex"),
+        new Date(Date.now() + 3_600_000).toISOString(),
+      );
+    } finally {
+      db.close();
+    }
+    for (const w of WIDTHS) {
+      const page = await pageAs("coi@demo.test", w);
+      await visit(page, "/account", `account settings @${w}`);
+      await page.close();
+      const visitor = await pageAs(null, w);
+      await visit(visitor, `/password/${token}`, `password link form @${w}`);
+      await visit(visitor, "/password/not-a-link-anyone-was-sent-0000", `password link refused @${w}`);
+      await visitor.close();
     }
     report();
   }, 120_000);

@@ -64,7 +64,6 @@ describe("confirm before it cannot be undone, then say what happened", () => {
     await page.getByLabel("Name", { exact: true }).fill("Dr Invented Leaver");
     await page.getByLabel("E-mail", { exact: true }).fill("leaver@demo.test");
     await page.getByLabel("Role", { exact: true }).selectOption("co-investigator");
-    await page.getByLabel("First password").fill("leaver-pass-2026");
     await page.getByRole("button", { name: "Create account" }).click();
     await page.getByRole("status").filter({ hasText: "Account created." }).waitFor();
     const row = page.getByRole("row").filter({ hasText: "leaver@demo.test" });

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
+import { readMailbox } from "@/scripts/mail-server";
 import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
 
 /**
@@ -9,6 +10,7 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBro
  */
 
 const baseUrl = inject("baseUrl");
+const mailboxDir = inject("mailboxDir");
 let browser: Browser;
 
 beforeAll(async () => {
@@ -126,7 +128,7 @@ describe("the co-investigator", () => {
 });
 
 describe("the administrator", () => {
-  it("creates an account that can sign in, deactivates it (the person can no longer sign in, and is signed out), and sees the outbox", async () => {
+  it("creates an account whose welcome link sets a password that signs in, deactivates it (the person can no longer sign in, and is signed out), and sees the outbox", async () => {
     const admin = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await signIn(admin, baseUrl, "admin@demo.test");
     await admin.getByRole("link", { name: "Accounts" }).click();
@@ -135,7 +137,6 @@ describe("the administrator", () => {
     await admin.getByLabel("Name", { exact: true }).fill(person.name);
     await admin.getByLabel("E-mail", { exact: true }).fill(person.email);
     await admin.getByLabel("Role", { exact: true }).selectOption({ label: "Finance" });
-    await admin.getByLabel("First password").fill(person.password);
     await admin.getByRole("button", { name: "Create account" }).click();
     await admin.getByRole("status").filter({ hasText: "Account created." }).waitFor();
     const row = admin.getByRole("row").filter({ hasText: person.email });
@@ -143,9 +144,19 @@ describe("the administrator", () => {
     expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/Jordan Quill-Amaro.*Finance.*Active/);
     await screenshotWidths(admin, "journey-admin-accounts");
 
-    // The new person signs in.
+    // The new person chooses a password through the welcome e-mail's link, and is signed in.
+    let link: string | undefined;
+    for (let k = 0; k < 60 && !link; k++) {
+      link = readMailbox(mailboxDir).find((m) => m.to.includes(person.email))?.text.match(/https?:\/\/\S+\/password\/[\w-]+/)?.[0];
+      if (!link) await new Promise((r) => setTimeout(r, 500));
+    }
+    expect(link, "the welcome e-mail with its link").toBeTruthy();
     const them = await browser.newPage({ viewport: { width: 1280, height: 900 } });
-    await signIn(them, baseUrl, person.email, person.password);
+    await them.goto(link!);
+    await them.getByLabel("New password", { exact: true }).fill(person.password);
+    await them.getByLabel("New password again").fill(person.password);
+    await them.getByRole("button", { name: "Set password and sign in" }).click();
+    await them.waitForURL(/\/studies$/);
     await them.getByRole("heading", { level: 1 }).first().waitFor();
 
     await clickAndConfirm(admin, row.getByRole("button", { name: "Deactivate" }));

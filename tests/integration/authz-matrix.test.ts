@@ -38,7 +38,7 @@ afterAll(() => dropDatabase(dir));
 const snapshot = async () =>
   JSON.stringify(
     await Promise.all(
-      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "outbox", "users"].map(async (t) =>
+      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "outbox", "users", "password_links", "mail_opt_outs"].map(async (t) =>
         (await getDb().selectFrom(t as "users").selectAll().execute()).map((r) => JSON.stringify(r)).sort(),
       ),
     ),
@@ -47,7 +47,7 @@ const snapshot = async () =>
 type Case = {
   name: string;
   mod: () => Promise<RouteModule>;
-  method: "GET" | "POST" | "PATCH" | "DELETE";
+  method: "GET" | "POST" | "PATCH" | "PUT" | "DELETE";
   params: () => Record<string, string>;
   body?: () => unknown;
   row: Row;
@@ -90,6 +90,9 @@ const CASES: Case[] = [
   { name: "GET rate-book editions", mod: () => import("@/app/api/v1/rate-book/editions/route"), method: "GET", params: () => ({}), row: "read the rate book", study: null },
   { name: "POST rate-book draft", mod: () => import("@/app/api/v1/rate-book/editions/route"), method: "POST", params: () => ({}), body: () => ({ label: "Matrix draft", effectiveDate: "2030-01-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null, mutates: true },
   { name: "PATCH published edition", mod: () => import("@/app/api/v1/rate-book/editions/[editionId]/route"), method: "PATCH", params: () => ({ editionId: String(ids.edition) }), body: () => ({ version: 1, settings: { faRate: "0.9" } }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
+  { name: "GET one's e-mail settings", mod: () => import("@/app/api/v1/account/mail-settings/route"), method: "GET", params: () => ({}), row: "change one's own password and e-mail settings", study: null },
+  { name: "PUT one's e-mail settings", mod: () => import("@/app/api/v1/account/mail-settings/route"), method: "PUT", params: () => ({}), body: () => ({ on: [] }), row: "change one's own password and e-mail settings", study: null },
+  { name: "POST one's new password", mod: () => import("@/app/api/v1/account/password/route"), method: "POST", params: () => ({}), body: () => ({ current: "demo-pass-2026", next: "matrix-new-password-2026" }), row: "change one's own password and e-mail settings", study: null, mutates: true },
 ];
 
 describe("authorization matrix from DESIGN.md's roles table", () => {

@@ -7,7 +7,7 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { describe, expect, it } from "vitest";
 import type { z } from "zod";
-import { acceptInvitationSchema, changeRoleSchema, createAccountSchema, setActiveSchema, signInSchema } from "@/lib/auth/schemas";
+import { acceptInvitationSchema, accountIdSchema, changePasswordSchema, changeRoleSchema, createAccountSchema, mailSettingsSchema, setActiveSchema, setPasswordSchema, signInSchema } from "@/lib/auth/schemas";
 import { createScenarioSchema, patchScenarioSchema, reviewSchema } from "@/lib/planning/api-schemas";
 import { commentPatchSchema, inviteSchema, newCommentSchema } from "@/lib/planning/comment-schemas";
 import { designSchema, otherCostSchema, personnelSchema, recruitmentSchema, scenarioFormSchema, visitSchema } from "@/lib/planning/schema";
@@ -78,6 +78,10 @@ const FORM_SCHEMAS: [string, z.ZodObject][] = [
   ["change a role", changeRoleSchema],
   ["deactivate", setActiveSchema],
   ["accept an invitation", acceptInvitationSchema],
+  ["send a reset link", accountIdSchema],
+  ["change one's password", changePasswordSchema],
+  ["set a password through a link", setPasswordSchema],
+  ["e-mail settings", mailSettingsSchema],
   ["new study", studyCreateSchema],
   ["new rate-book draft", newDraftSchema],
 ];

@@ -3,9 +3,10 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { revalidatePath } from "next/cache";
 import { changeRole, createAccount, setAccountActive } from "@/db/queries/accounts";
+import { sendPasswordReset } from "@/db/queries/passwords";
 import { forbidden, HttpError } from "@/lib/auth/errors";
 import { roleMay } from "@/lib/auth/permissions";
-import { changeRoleSchema, createAccountSchema, setActiveSchema } from "@/lib/auth/schemas";
+import { accountIdSchema, changeRoleSchema, createAccountSchema, setActiveSchema } from "@/lib/auth/schemas";
 import { requireUser } from "@/lib/server/current-user";
 
 import type { SubmissionResult } from "@conform-to/react";
@@ -45,4 +46,9 @@ export async function changeRoleAction(_prev: unknown, formData: FormData) {
 
 export async function setActiveAction(_prev: unknown, formData: FormData) {
   return run(formData, setActiveSchema, (user, v) => setAccountActive(user, v.userId, v.active));
+}
+
+/** Sends the person a single-use link to choose a new password (the welcome link, if unused, stops working). */
+export async function sendResetAction(_prev: unknown, formData: FormData) {
+  return run(formData, accountIdSchema, (user, v) => sendPasswordReset(user, v.userId));
 }

@@ -37,6 +37,11 @@ export default async function AccountsPage() {
                 <td>{ROLE_LABELS[a.role]}</td>
                 <td>
                   <span className={a.active ? "badge" : "badge badge-muted"}>{a.active ? "Active" : "Deactivated"}</span>
+                  {a.passwordSet ? null : (
+                    <span className="ml-2 text-sm text-ink-soft" data-testid={`no-password-${a.id}`}>
+                      no password yet
+                    </span>
+                  )}
                 </td>
                 <td>
                   <AccountRowControls userId={a.id} name={a.name} role={a.role} active={a.active} self={a.id === user.id} />

@@ -20,7 +20,7 @@ export default async function OutboxPage() {
     <div className="flex flex-col gap-5">
       <div>
         <h1>Outbox</h1>
-        <p className="text-ink-soft">Every message Delta Ledger has written, newest first, with its delivery state. In development and the demo they go to the local mail server. Invitation links show as [withheld]: only the invited person's e-mail carries a working link.</p>
+        <p className="text-ink-soft">Every message Delta Ledger has written, newest first, with its delivery state. In development and the demo they go to the local mail server. Invitation, welcome and password-reset links show as [withheld]: only the recipient's own e-mail carries a working link.</p>
       </div>
       {rows.length === 0 ? <p className="card">No messages yet.</p> : null}
       <ul className="flex flex-col gap-3" data-testid="outbox">
