@@ -13,13 +13,13 @@ const WHAT: Record<ReviewHistoryEntry["action"], string> = {
 const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 
 /** Who submitted, withdrew, returned (with the reason), recomputed and cleared the scenario, and when; oldest first. */
-export function ReviewHistory({ entries }: { entries: ReviewHistoryEntry[] }) {
+export function ReviewHistory({ entries, state }: { entries: ReviewHistoryEntry[]; state: string }) {
   return (
     <section className="card" aria-labelledby="history-heading">
       <h2 id="history-heading">Review history</h2>
       {entries.length === 0 ? (
         <p className="mt-1 text-sm text-ink-soft" data-testid="history-empty">
-          Not yet submitted for review.
+          {state === "draft" ? "Not yet submitted for review." : "No review steps were recorded for this scenario."}
         </p>
       ) : (
         <ol className="mt-2 flex flex-col gap-2" data-testid="review-history">

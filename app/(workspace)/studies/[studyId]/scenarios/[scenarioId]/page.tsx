@@ -145,7 +145,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         adoptIds={mayDraft ? ids : null}
       />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
-      <ReviewHistory entries={history} />
+      <ReviewHistory entries={history} state={s.state} />
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
     </div>
   );
