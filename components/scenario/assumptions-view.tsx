@@ -13,10 +13,10 @@ const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
 
 function Row({ label, value, field }: { label: string; value: ReactNode; field?: string }) {
   return (
-    <div className="flex flex-wrap justify-between gap-2 border-b border-rule py-1 text-sm" data-testid={field ? `assumption-${field}` : undefined}>
+    <div className="flex flex-wrap justify-between gap-2 border-b border-rule py-1 text-sm">
       <dt className="text-ink-soft">{label}</dt>
       <dd className="num text-right">
-        {value}
+        <span data-testid={field ? `assumption-${field}` : undefined}>{value}</span>
         {field ? <FieldCommentBadge field={field} /> : null}
       </dd>
     </div>
