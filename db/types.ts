@@ -217,6 +217,23 @@ export interface MailOptOutsTable {
   created_at: CreatedAt;
 }
 
+/** A scenario's review history (migration 0012): one row per submission, withdrawal, return, clearance or recompute. */
+export interface ReviewEventsTable {
+  id: Generated<number>;
+  scenario_id: number;
+  user_id: number | null;
+  at: string;
+  action: "submit" | "withdraw" | "return" | "clear" | "recompute";
+  /** The reason given for a withdrawal or a return. */
+  reason: string | null;
+  /** The scenario's total (decimal string, dollars) just after the event; null for carried-over rows. */
+  total: string | null;
+  /** The scenario's inputs just after the event (JSON); null for carried-over rows. */
+  inputs_json: string | null;
+  /** A recompute's editions, in words. */
+  detail: string | null;
+}
+
 /** One row (id 1): the random id of this installation, made when the database was created. */
 export interface InstallationTable {
   id: number;
@@ -243,6 +260,7 @@ export interface Database {
   installation: InstallationTable;
   password_links: PasswordLinksTable;
   mail_opt_outs: MailOptOutsTable;
+  review_events: ReviewEventsTable;
 }
 
 export type User = Selectable<UsersTable>;

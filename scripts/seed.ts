@@ -80,7 +80,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
     for (const s of DEMO_SCENARIOS) {
       const inputs = validDemoInputs(s.name, s.inputs);
       const results = computeScenario(inputs, demoRateBook(editionId), { startDate: DEMO_STUDY.startDate, sponsorCap: DEMO_STUDY.sponsorCap });
-      await trx
+      const { id: scenarioId } = await trx
         .insertInto("scenarios")
         .values({
           study_id: studyId,
@@ -92,7 +92,15 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
           created_by: ids["pi@demo.test"]!,
           ...(s.state === "in-review" ? { submitted_at: now } : {}),
         })
-        .execute();
+        .returning("id")
+        .executeTakeFirstOrThrow();
+      // Its submission is in its review history, as the review workflow would have recorded it.
+      if (s.state === "in-review") {
+        await trx
+          .insertInto("review_events")
+          .values({ scenario_id: scenarioId, user_id: ids["pi@demo.test"]!, at: now, action: "submit", total: results.ledger.totals.total, inputs_json: JSON.stringify(inputs) })
+          .execute();
+      }
     }
     await trx
       .insertInto("study_members")

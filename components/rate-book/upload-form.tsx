@@ -40,7 +40,7 @@ export function RateSheetUpload({ editionId }: { editionId: number }) {
         <label htmlFor="rate-sheet-file">Rate sheet (CSV or XLSX, up to 2 MB)</label>
         <input id="rate-sheet-file" name="file" type="file" accept=".csv,.xlsx,text/csv,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" className="input" aria-describedby={error ? "rate-sheet-error" : "rate-sheet-hint"} />
         <span id="rate-sheet-hint" className="hint">
-          Columns: section, key, name, value, category. You will see a preview before anything changes.
+          Columns: section, key, name, value, category. Start from this draft&apos;s values as a sheet: change what changes and upload it. You will see a preview before anything changes.
         </span>
         {error ? (
           <span id="rate-sheet-error" className="error" role="alert">
@@ -52,11 +52,15 @@ export function RateSheetUpload({ editionId }: { editionId: number }) {
         <button type="submit" className="btn" disabled={busy}>
           {busy ? "Reading…" : "Upload and preview"}
         </button>
-        <a className="btn btn-quiet" href="/api/v1/rate-book/template?format=csv">
-          Template (CSV)
+        {/* Pre-filled with this draft's values (which start as those of the edition it is based on) and every key. */}
+        <a className="btn btn-quiet" href={`/api/v1/rate-book/template?format=csv&edition=${editionId}`} download data-testid="sheet-csv">
+          This draft&apos;s values as a sheet (CSV)
         </a>
-        <a className="btn btn-quiet" href="/api/v1/rate-book/template?format=xlsx">
-          Template (XLSX)
+        <a className="btn btn-quiet" href={`/api/v1/rate-book/template?format=xlsx&edition=${editionId}`} download data-testid="sheet-xlsx">
+          This draft&apos;s values as a sheet (XLSX)
+        </a>
+        <a className="btn btn-quiet" href="/api/v1/rate-book/template?format=csv&blank=1" download>
+          Short example sheet (CSV)
         </a>
       </div>
     </form>

@@ -3,7 +3,8 @@
 import { createContext, Fragment, useContext, useState, type ReactNode } from "react";
 import useSWR, { useSWRConfig } from "swr";
 import type { CommentView } from "@/db/queries/comments";
-import { ASSUMPTION_FIELDS } from "@/lib/planning/assumption-fields";
+import { ASSUMPTION_FIELDS, assumptionFieldsFor } from "@/lib/planning/assumption-fields";
+import type { Design } from "@/lib/power/schema";
 
 export type { CommentView };
 
@@ -63,7 +64,7 @@ async function send(url: string, method: string, body?: unknown): Promise<string
   }
 }
 
-function Composer({ url, parentId, onDone, label, withField }: { url: string; parentId?: number; onDone: () => void; label: string; withField?: boolean }) {
+function Composer({ url, parentId, onDone, label, fields }: { url: string; parentId?: number; onDone: () => void; label: string; fields?: Record<string, string> }) {
   const [text, setText] = useState("");
   const [field, setField] = useState("");
   const [error, setError] = useState<string | null>(null);
@@ -92,14 +93,14 @@ function Composer({ url, parentId, onDone, label, withField }: { url: string; pa
       </label>
       <textarea id={id} className="input text-sm" rows={parentId ? 2 : 3} value={text} onChange={(e) => setText(e.target.value)} maxLength={4100} aria-describedby={error ? `${id}-error` : undefined} />
       <div className="flex flex-wrap items-center gap-2">
-        {withField ? (
+        {fields ? (
           <>
             <label htmlFor={`${id}-field`} className="text-sm">
               About
             </label>
             <select id={`${id}-field`} className="input py-1 text-sm" value={field} onChange={(e) => setField(e.target.value)}>
               <option value="">the scenario as a whole</option>
-              {Object.entries(ASSUMPTION_FIELDS).map(([k, v]) => (
+              {Object.entries(fields).map(([k, v]) => (
                 <option key={k} value={k}>
                   {v}
                 </option>
@@ -215,7 +216,7 @@ function CommentItem({ c, url, canComment, refresh, children }: { c: CommentView
   );
 }
 
-export function CommentsPanel({ scenarioId, canComment }: { scenarioId: number; canComment: boolean }) {
+export function CommentsPanel({ scenarioId, canComment, design }: { scenarioId: number; canComment: boolean; design: Design }) {
   const url = `/api/v1/scenarios/${scenarioId}/comments`;
   const { data, error } = useComments(scenarioId);
   const { mutate } = useSWRConfig();
@@ -241,7 +242,7 @@ export function CommentsPanel({ scenarioId, canComment }: { scenarioId: number; 
           </CommentItem>
         ))}
       </ul>
-      {canComment ? <Composer url={url} label="Add a comment" withField onDone={refresh} /> : <p className="text-sm text-ink-soft">Your role reads the comments but does not comment.</p>}
+      {canComment ? <Composer url={url} label="Add a comment" fields={assumptionFieldsFor(design)} onDone={refresh} /> : <p className="text-sm text-ink-soft">Your role reads the comments but does not comment.</p>}
     </section>
   );
 }

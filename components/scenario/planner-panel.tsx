@@ -9,6 +9,7 @@ import { formatMoney } from "@/lib/format/money";
 import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
 import { formatEffect } from "@/lib/power/effect-units";
+import { AdoptButton } from "./scenario-actions";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -22,7 +23,18 @@ const fetcher = async (url: string): Promise<Planner> => {
 const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents: false }));
 
 /** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
-export function PlannerPanel({ scenarioId, capLabel, effectName = "effectSize" }: { scenarioId: number; capLabel: string | null; effectName?: string }) {
+export function PlannerPanel({
+  scenarioId,
+  capLabel,
+  effectName = "effectSize",
+  adoptIds = null,
+}: {
+  scenarioId: number;
+  capLabel: string | null;
+  effectName?: string;
+  /** Given when the user may make drafts in this study: each answer can then become a new draft. */
+  adoptIds?: { studyId: number; scenarioId: number; version: number } | null;
+}) {
   const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/planner`, fetcher, { revalidateOnFocus: false });
   if (error) return <p className="alert">{(error as Error).message}</p>;
   if (isLoading || !data) return <p className="text-ink-soft">Working out what the budget buys…</p>;
@@ -37,7 +49,13 @@ export function PlannerPanel({ scenarioId, capLabel, effectName = "effectSize" }
             {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
             <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
-        ) : (
+        ) : null}
+        {data.capBuys && adoptIds ? (
+          <div className="mt-2">
+            <AdoptButton ids={adoptIds} answer="cap" label="Make a draft that targets this effect" testId="adopt-cap" />
+          </div>
+        ) : null}
+        {data.capBuys ? null : (
           <p className="mt-2 text-ink-soft">{capLabel ? "Even the smallest viable study costs more than the cap." : "The study has no sponsor cap."}</p>
         )}
         <h3 className="mt-4 text-base">Cheapest design for the target power</h3>
@@ -50,6 +68,11 @@ export function PlannerPanel({ scenarioId, capLabel, effectName = "effectSize" }
               , {money(data.cheapest.best.total)}, {data.cheapest.best.monthsToEnrol} month{data.cheapest.best.monthsToEnrol === 1 ? "" : "s"} to enrol.
               {data.cheapest.optimalClusterSize !== undefined ? ` Raudenbush's cost-optimal cluster size m* is ${data.cheapest.optimalClusterSize.toFixed(1)}.` : ""}
             </p>
+            {adoptIds ? (
+              <div className="mt-2">
+                <AdoptButton ids={adoptIds} answer="cheapest" label="Make a draft of the cheapest design" testId="adopt-cheapest" />
+              </div>
+            ) : null}
             <details className="mt-2">
               <summary className="cursor-pointer text-sm">Alternatives priced ({data.cheapest.alternatives.length})</summary>
               <ScrollRegion label="Alternatives priced" className="mt-2">

@@ -49,6 +49,15 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           </dd>
           {p.clusters1 !== undefined ? <dd className="text-xs text-ink-soft">{`${p.clusters1} + ${p.clusters2} clusters`}</dd> : null}
         </div>
+        {p.events !== undefined ? (
+          // Time to event: the power comes from the number of events; the participants are what it takes to observe them.
+          <div>
+            <dt className="text-sm text-ink-soft">Events needed</dt>
+            <dd className="num text-xl" data-testid="result-events">
+              {p.events}
+            </dd>
+          </div>
+        ) : null}
         <div>
           <dt className="text-sm text-ink-soft">Enrolled / screened</dt>
           <dd className="num text-xl" data-testid="result-enrolled">

@@ -3,7 +3,7 @@
 import { useActionState, useState, useTransition, type ReactNode } from "react";
 import { ConfirmButton } from "@/components/confirm-button";
 import { mismatchLines, type JustificationCheck } from "@/lib/planning/justification-figures";
-import { cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
+import { adoptAction, cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 
 type Ids = { studyId: number; scenarioId: number; version: number };
 type State = { error: string | null } | undefined;
@@ -67,10 +67,11 @@ export function ScenarioActions({
   mismatch = null,
 }: {
   ids: Ids;
-  can: { submit: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean };
+  can: { submit: boolean; withdraw?: boolean; review: boolean; edit: boolean; delete: boolean; recompute: boolean };
   mismatch?: string[] | null;
 }) {
   const [returnState, returnDispatch, returnPending] = useActionState(reviewAction, undefined);
+  const [withdrawState, withdrawDispatch, withdrawPending] = useActionState(reviewAction, undefined);
   const warning: ReactNode = mismatch ? (
     <div className="alert flex flex-col gap-1 text-sm">
       <p className="font-semibold">The justification no longer matches the scenario&apos;s figures.</p>
@@ -101,6 +102,26 @@ export function ScenarioActions({
             extra: warning,
           }}
         />
+      ) : null}
+      {can.withdraw ? (
+        // Before the grants office acts: back to a draft, with a reason the review history keeps.
+        <form action={withdrawDispatch} className="flex flex-wrap items-start gap-2" data-testid="withdraw-form">
+          <input type="hidden" name="studyId" value={ids.studyId} />
+          <input type="hidden" name="scenarioId" value={ids.scenarioId} />
+          <input type="hidden" name="action" value="withdraw" />
+          <label className="sr-only" htmlFor="withdraw-reason">
+            Reason for withdrawing
+          </label>
+          <input id="withdraw-reason" name="reason" className="input py-1" placeholder="Reason for withdrawing" maxLength={2000} />
+          <button type="submit" className="btn btn-quiet" disabled={withdrawPending}>
+            {withdrawPending ? "Working…" : "Withdraw from review"}
+          </button>
+          {withdrawState?.error ? (
+            <span className="text-sm text-signal" role="alert">
+              {withdrawState.error}
+            </span>
+          ) : null}
+        </form>
       ) : null}
       {can.review ? (
         <>
@@ -153,6 +174,11 @@ export function ScenarioActions({
       ) : null}
     </div>
   );
+}
+
+/** Makes a new draft from a planner answer and opens it (the button's label says what it adopts). */
+export function AdoptButton({ ids, answer, label, testId }: { ids: Ids; answer: "cheapest" | "cap"; label: string; testId: string }) {
+  return <ActionButton ids={ids} action={adoptAction} label={label} extra={{ answer }} testId={testId} />;
 }
 
 type SaveResult = Awaited<ReturnType<typeof saveJustificationAction>>;

@@ -8,7 +8,7 @@ import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import { designSchema, PROCEDURE_LABELS, UNCERTAINTY_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { designTemplate } from "@/lib/planning/templates";
-import { DESIGN_NAMES } from "@/lib/power/design-names";
+import { DESIGN_NAMES, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names";
 import type { Design } from "@/lib/power/schema";
 import { effectUnitOfDesign } from "@/lib/power/effect-units";
 import { DEFAULT_RATE_SHAPE } from "@/lib/forecast/defaults";
@@ -404,6 +404,7 @@ export function ScenarioForm({
               <>
                 <Text meta={d.p1} label="Control proportion (p1)" hint="e.g. 0.3" />
                 <Text meta={d.p2} label="Target intervention proportion (p2)" hint="e.g. 0.45" />
+                {design === "two-proportions" ? <Choice meta={d.method} label="Two-proportions method" options={Object.entries(PROPORTIONS_METHOD_NAMES)} /> : null}
               </>
             ) : null}
             {cluster ? (

@@ -1,4 +1,6 @@
 import "server-only";
+import { assumptionFieldsFor } from "@/lib/planning/assumption-fields";
+import type { ScenarioInputs } from "@/lib/planning/schema";
 import { getDb } from "@/db";
 import { enforce, forbidden, HttpError, notFound } from "@/lib/auth/errors";
 import { decide, roleMay, type Actor } from "@/lib/auth/permissions";
@@ -28,7 +30,7 @@ async function scenarioFor(actor: Actor, scenarioId: number, action: "scenario.v
     ? await getDb()
         .selectFrom("scenarios as s")
         .innerJoin("studies as st", "st.id", "s.study_id")
-        .select(["s.id", "s.name", "s.state", "s.study_id", "st.owner_id", "st.code"])
+        .select(["s.id", "s.name", "s.state", "s.study_id", "s.inputs_json", "st.owner_id", "st.code"])
         .where("s.id", "=", scenarioId)
         .executeTakeFirst()
     : undefined;
@@ -68,6 +70,11 @@ export async function listComments(actor: Actor, scenarioId: number): Promise<Co
 
 export async function addComment(actor: Actor, scenarioId: number, input: { body: string; parentId?: number | null; field?: string | null }): Promise<number> {
   const s = await scenarioFor(actor, scenarioId, "scenario.comment");
+  // A comment may be about a field of this scenario's design only (the form offers no other).
+  if (input.field != null) {
+    const design = (JSON.parse(s.inputs_json) as ScenarioInputs).design.design;
+    if (!(input.field in assumptionFieldsFor(design))) throw new HttpError(400, "invalid", "About: that is not an assumption of this scenario's design; choose one from the list.", { field: ["About: choose one of this scenario's assumptions."] });
+  }
   const db = getDb();
   let parentAuthor: number | null = null;
   if (input.parentId != null) {

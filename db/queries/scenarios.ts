@@ -7,11 +7,14 @@ import { computeScenario, ScenarioError, withSettledAccrual, type ScenarioResult
 import { generateJustification } from "@/lib/planning/justification";
 import { checkJustification, describeChange, justificationFigures, parseFigures, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
+import { adoptCapBuys, adoptCheapest } from "@/lib/planning/adopt";
+import { cheapestDesign } from "@/lib/planning/optimiser";
 import { TimelineError, CostingError } from "@/lib/costing";
 import { PowerInputError, UnreachableError, type Design } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
 import { kickMailSender } from "./outbox";
 import { enqueueReviewMail } from "./review-mail";
+import { recordReviewEvent } from "./review";
 import { editionForCosting, editionInForceLabel, editionToRateBook, getEdition } from "./rate-book";
 import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { membershipOf } from "./studies";
@@ -245,6 +248,17 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
         .where("id", "=", id)
         .execute();
       await writeAudit(trx, audit);
+      if (editionId !== row.rate_edition_id && results) {
+        const was = (JSON.parse(row.results_json) as ScenarioResults).edition.label;
+        await recordReviewEvent(trx, {
+          scenarioId: id,
+          userId: actor.id,
+          action: "recompute",
+          total: results.ledger.totals.total,
+          inputsJson: JSON.stringify(withSettledAccrual(inputs)),
+          detail: `Recomputed with “${results.edition.label ?? "the edition in force"}” (was “${was ?? "an earlier edition"}”).`,
+        });
+      }
     });
   return getScenario(actor, id);
 }
@@ -265,43 +279,64 @@ export async function deleteScenario(actor: Actor, id: number): Promise<void> {
     });
 }
 
-export type ReviewAction = "submit" | "return" | "clear";
+export type ReviewAction = "submit" | "withdraw" | "return" | "clear";
 
-/** The review workflow: draft or returned → in-review (investigator); in-review → returned with a reason, or cleared (grants office). */
+const REVIEW_FROM: Record<ReviewAction, ScenarioState[]> = { submit: ["draft", "returned"], withdraw: ["in-review"], return: ["in-review"], clear: ["in-review"] };
+const REVIEW_TO: Record<ReviewAction, ScenarioState> = { submit: "in-review", withdraw: "draft", return: "returned", clear: "cleared" };
+const REVIEW_VERB: Record<ReviewAction, string> = { submit: "submitted", withdraw: "withdrawn", return: "returned", clear: "cleared" };
+
+/**
+ * The review workflow: draft or returned → in-review (investigator); in-review → draft again when the
+ * investigator withdraws it before the grants office acts (with a reason); in-review → returned with a
+ * reason, or cleared (grants office). Each step is kept in the review history with the total and inputs.
+ */
 export async function reviewScenario(actor: Actor, id: number, action: ReviewAction, reason?: string, opts: { acceptJustificationMismatch?: boolean } = {}): Promise<ScenarioDetail> {
-  const { row } = await access(actor, id, action === "submit" ? "scenario.submit" : "scenario.review");
+  const { row } = await access(actor, id, action === "submit" || action === "withdraw" ? "scenario.submit" : "scenario.review");
   const from = row.state;
-  const allowed: Record<ReviewAction, ScenarioState[]> = { submit: ["draft", "returned"], return: ["in-review"], clear: ["in-review"] };
-  if (!allowed[action].includes(from)) throw new HttpError(409, "wrong-state", `A ${from} scenario cannot be ${action === "submit" ? "submitted" : action === "return" ? "returned" : "cleared"}.`);
+  if (!REVIEW_FROM[action].includes(from)) {
+    const already = action === "withdraw" && (from === "returned" || from === "cleared") ? " The grants office has already acted on it." : "";
+    throw new HttpError(409, "wrong-state", `A ${from} scenario cannot be ${REVIEW_VERB[action]}.${already}`);
+  }
   if (action === "return" && !reason?.trim()) throw new HttpError(400, "invalid", "Say why the scenario is returned.", { reason: ["Say why the scenario is returned."] });
-  const to: ScenarioState = action === "submit" ? "in-review" : action === "return" ? "returned" : "cleared";
+  if (action === "withdraw" && !reason?.trim()) throw new HttpError(400, "invalid", "Reason for withdrawing: say why you take it back, like \"the site count changes\".", { reason: ["Reason for withdrawing: say why you take it back."] });
+  if (reason && reason.trim().length > 2000) throw new HttpError(400, "invalid", "Reason: at most 2,000 characters.", { reason: ["Reason: at most 2,000 characters."] });
+  const to = REVIEW_TO[action];
   // Submitting or clearing a scenario whose edited justification no longer quotes its figures is a
   // choice to make knowingly: refused until confirmed, then kept in the audit record with what differed.
-  const mismatch = action === "return" ? null : justificationMismatch(row);
+  const mismatch = action === "submit" || action === "clear" ? justificationMismatch(row) : null;
   if (mismatch && !opts.acceptJustificationMismatch) {
     throw new HttpError(409, "justification-mismatch", `${mismatch} Confirm to ${action === "submit" ? "submit" : "clear"} it anyway, or bring the justification up to date first.`);
   }
   const now = new Date().toISOString();
+  const why = action === "return" || action === "withdraw" ? reason!.trim() : null;
   await getDb()
     .transaction()
     .execute(async (trx) => {
-      await trx
+      const changed = await trx
         .updateTable("scenarios")
         .set({
           state: to,
           version: row.version + 1,
           updated_at: now,
-          ...(action === "submit" ? { submitted_at: now, review_note: null } : { reviewed_by: actor.id, reviewed_at: now, review_note: action === "return" ? reason!.trim() : row.review_note }),
+          ...(action === "submit"
+            ? { submitted_at: now, review_note: null }
+            : action === "withdraw"
+              ? { review_note: null }
+              : { reviewed_by: actor.id, reviewed_at: now, review_note: action === "return" ? why : row.review_note }),
         })
         .where("id", "=", id)
         .where("state", "=", from)
-        .execute();
+        .executeTakeFirst();
+      // Someone else moved it first (the grants office cleared it as the investigator withdrew it).
+      if (Number(changed.numUpdatedRows) !== 1) throw new HttpError(409, "wrong-state", `This scenario changed state while you were looking at it; nothing was ${REVIEW_VERB[action]}. Reload to see where it stands.`);
       await writeAudit(trx, [
         { userId: actor.id, action, entity: "scenario", entityId: id, field: "state", oldValue: from, newValue: to },
         ...(mismatch ? [{ userId: actor.id, action: `${action}-with-mismatch`, entity: "scenario", entityId: id, field: "justification", newValue: mismatch }] : []),
       ]);
-      // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing.
-      await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason });
+      const results = JSON.parse(row.results_json) as ScenarioResults;
+      await recordReviewEvent(trx, { scenarioId: id, userId: actor.id, action, reason: why, total: results.ledger.totals.total, inputsJson: row.inputs_json, at: now });
+      // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing; a withdrawal tells no one.
+      if (action !== "withdraw") await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason: why });
     });
   kickMailSender();
   return getScenario(actor, id);
@@ -365,4 +400,23 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
     study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
     scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, justificationCheck: detail.justificationCheck, rates })),
   };
+}
+
+/**
+ * Adopts a planner answer of a scenario the actor may see as a new draft of its study (named after what
+ * it adopts), priced like any new scenario. Only the study's owner may; the answer must exist.
+ */
+export async function adoptPlannerAnswer(actor: Actor, id: number, answer: "cheapest" | "cap"): Promise<number> {
+  const { row } = await access(actor, id, "scenario.edit");
+  const ctx = await scenarioContext(actor, id);
+  let draft;
+  if (answer === "cheapest") {
+    const cheapest = cheapestDesign(ctx.inputs, ctx.rates, ctx.study);
+    if (!cheapest) throw new HttpError(422, "no-answer", "No design within the limits reaches the target power, so there is nothing to adopt.");
+    draft = adoptCheapest(ctx.inputs, cheapest);
+  } else {
+    if (!ctx.results.capBuys) throw new HttpError(422, "no-answer", ctx.study.sponsorCap ? "Even the smallest viable study costs more than the cap, so there is nothing to adopt." : "The study has no sponsor cap, so there is nothing to adopt.");
+    draft = adoptCapBuys(ctx.inputs, ctx.results.capBuys, ctx.results.effectName);
+  }
+  return createScenario(actor, row.study_id, { name: draft.name.slice(0, 80), inputs: draft.inputs }, id);
 }

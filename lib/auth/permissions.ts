@@ -27,7 +27,9 @@ export type Action =
   | "ratebook.read"
   | "workbook.download"
   | "power.use"
-  | "account.self";
+  | "account.self"
+  | "review.queue"
+  | "review.list";
 
 export type Context = { membership?: Membership; scenarioState?: ScenarioState };
 
@@ -100,6 +102,12 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
     case "account.self":
       // One's own password and e-mail settings: every signed-in person.
       return "allow";
+    // Lists across all studies: the grants office's queue of work, and the in-review and cleared
+    // scenarios finance budgets from (each row still obeys scenario.view).
+    case "review.queue":
+      return role === "grants-officer" ? "allow" : "forbidden";
+    case "review.list":
+      return role === "grants-officer" || role === "finance" ? "allow" : "forbidden";
   }
 }
 
@@ -122,6 +130,8 @@ export function navigationFor(role: AccountRole): { href: string; label: string 
   const items: { href: string; label: string }[] = [];
   const actor: Actor = { id: 0, role };
   if (studyVisibility(actor, "owner") === "allow") items.push({ href: "/studies", label: "Studies" });
+  if (can(actor, "review.queue")) items.push({ href: "/review", label: "Review queue" });
+  if (can(actor, "review.list")) items.push({ href: "/review/scenarios", label: "In review and cleared" });
   if (can(actor, "ratebook.read")) items.push({ href: "/rate-book", label: "Rate book" });
   if (can(actor, "accounts.manage")) items.push({ href: "/admin/accounts", label: "Accounts" });
   if (can(actor, "outbox.view")) items.push({ href: "/admin/outbox", label: "Outbox" });

@@ -13,8 +13,9 @@ export const patchScenarioSchema = z
   })
   .strict();
 export const reviewSchema = z.object({
-  action: z.enum(["submit", "return", "clear"], { error: "action must be submit, return or clear." }),
-  reason: z.string({ error: "Reason for returning: write it as text." }).trim().max(2000, "Reason for returning: at most 2,000 characters.").optional(),
+  action: z.enum(["submit", "withdraw", "return", "clear"], { error: "action must be submit, withdraw, return or clear." }),
+  // Required for return and withdraw (checked with the record, so the message names the step).
+  reason: z.string({ error: "Reason: write it as text." }).trim().max(2000, "Reason: at most 2,000 characters.").optional(),
   // Submitting or clearing a scenario whose edited justification no longer matches its figures needs this (409 otherwise).
   confirmJustificationMismatch: z.boolean({ error: "confirmJustificationMismatch: true or false." }).optional(),
 });
@@ -23,3 +24,8 @@ export const curveQuerySchema = z.object({
   x: z.enum(["total", "direct"]).default("total"),
 });
 export const previewSchema = z.object({ inputs: scenarioInputsSchema, points: z.number().int().min(8).max(512).optional() });
+
+/** Adopting a planner answer as a new draft: the cheapest design for the target power, or what the sponsor's cap buys. */
+export const adoptSchema = z.object({
+  answer: z.enum(["cheapest", "cap"], { error: "answer must be cheapest (the cheapest design for the target power) or cap (what the cap buys)." }),
+});

@@ -1,3 +1,5 @@
+import type { Design } from "@/lib/power/schema";
+
 /** The assumptions a comment may be tied to: the scenario form's field names, with their labels. */
 export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.design.design": "Design",
@@ -8,7 +10,10 @@ export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.design.effectSize": "Standardized effect",
   "inputs.design.p1": "Control proportion",
   "inputs.design.p2": "Intervention proportion",
+  "inputs.design.method": "Two-proportions method",
   "inputs.design.hazardRatio": "Hazard ratio",
+  "inputs.design.controlMedian": "Control median",
+  "inputs.design.followUpMonths": "Further follow-up",
   "inputs.design.icc": "ICC",
   "inputs.design.clusterSize": "Cluster size",
   "inputs.recruitment.sites": "Sites",
@@ -16,4 +21,31 @@ export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.recruitment.attrition": "Attrition",
   "inputs.recruitment.screenFailure": "Screen failure",
   "inputs.recruitment.startupMonths": "Start-up months",
+  "inputs.visits": "Visits and procedures",
+  "inputs.personnel": "Staff and effort",
+  "inputs.other": "Other costs",
 };
+
+const MEANS = ["inputs.design.meanDifference", "inputs.design.sd", "inputs.design.effectSize"];
+const PROPORTIONS = ["inputs.design.p1", "inputs.design.p2"];
+const CLUSTER = ["inputs.design.icc", "inputs.design.clusterSize"];
+const BY_DESIGN: Record<Design, string[]> = {
+  "two-means": MEANS,
+  "one-mean": MEANS,
+  "two-proportions": [...PROPORTIONS, "inputs.design.method"],
+  "cluster-two-means": [...MEANS, ...CLUSTER],
+  "cluster-two-proportions": [...PROPORTIONS, ...CLUSTER],
+  "time-to-event": ["inputs.design.hazardRatio", "inputs.design.controlMedian", "inputs.design.followUpMonths"],
+};
+const DESIGN_SPECIFIC = new Set(Object.values(BY_DESIGN).flat());
+
+/**
+ * The fields a comment on a scenario of this design may be about: the shared ones and this design's
+ * own (a proportions scenario has no outcome SD; a cluster design has no Sites field, its clusters are
+ * its sites). In ASSUMPTION_FIELDS order.
+ */
+export function assumptionFieldsFor(design: Design): Record<string, string> {
+  const own = new Set(BY_DESIGN[design] ?? []);
+  const cluster = design.startsWith("cluster-");
+  return Object.fromEntries(Object.entries(ASSUMPTION_FIELDS).filter(([k]) => (DESIGN_SPECIFIC.has(k) ? own.has(k) : !(cluster && k === "inputs.recruitment.sites"))));
+}

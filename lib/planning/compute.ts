@@ -71,6 +71,7 @@ function powerInputWith(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n
   };
   if (d.design !== "one-mean") raw.allocationRatio = d.allocationRatio;
   if (d.design.endsWith("proportions")) raw.p1 = p1;
+  if (d.design === "two-proportions" && d.method) raw.method = d.method;
   if (d.design.startsWith("cluster-")) Object.assign(raw, { clusterSize: d.clusterSize, icc: d.icc, cv: d.cv ?? 0 });
   if (d.design === "time-to-event") Object.assign(raw, { controlMedian: d.controlMedian, accrualMonths: accrualMonths ?? d.accrualMonths, followUpMonths: d.followUpMonths });
   if (solveFor !== "power") raw.power = d.power;

@@ -39,6 +39,8 @@ export const designSchema = z.object({
   sd: opt(n("Outcome SD").gt(0, "Outcome SD must be above 0.")),
   p1: opt(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3.")),
   p2: opt(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45.")),
+  // Two proportions only: the test the sample is sized for (absent in older scenarios: the normal approximation).
+  method: opt(z.enum(["normal", "continuity-corrected", "arcsine"], { error: "Two-proportions method: choose one from the list." })),
   hazardRatio: opt(n("Target hazard ratio").gt(0, "Target hazard ratio must be above 0, like 0.7.").max(100, "Target hazard ratio: at most 100.")),
   clusterSize: opt(n("Mean cluster size").min(1, "Mean cluster size: at least 1.").max(100000, "Mean cluster size: at most 100,000.")),
   icc: opt(n("ICC").min(0, "ICC: from 0 to below 1, like 0.05.").lt(1, "ICC: from 0 to below 1, like 0.05.")),

@@ -13,3 +13,11 @@ export const DESIGN_NAMES: Record<Design, string> = {
 export function designName(design: string): string {
   return (DESIGN_NAMES as Record<string, string>)[design] ?? design;
 }
+
+/** The two-proportions test's methods (lib/power/designs/proportions.ts), as a person reads them. */
+export const PROPORTIONS_METHOD_NAMES = {
+  normal: "Normal approximation (variance pooled under H0, unpooled under H1)",
+  "continuity-corrected": "Normal approximation with continuity correction (Fleiss, Tytun & Ury)",
+  arcsine: "Arcsine transformation (Cohen's h)",
+} as const;
+export type ProportionsMethodName = keyof typeof PROPORTIONS_METHOD_NAMES;

@@ -194,17 +194,38 @@ export function templateRows(): string[][] {
   ];
 }
 
-export async function templateXlsx(): Promise<Buffer> {
+/** What an edition holds, as the sheet needs it (the fields of db/queries/rate-book.ts's EditionDetail). */
+export type SheetEdition = {
+  settings: Record<SettingKey, string | null>;
+  fringe: { category: string; rate: string }[];
+  procedures: { code: string; name: string; unitCost: string; category: string }[];
+};
+
+/**
+ * A sheet pre-filled with an edition's values, every setting key, every staff category and every
+ * procedure, so an update is an edit of the sheet rather than a blank one. Values are written as
+ * stored (rates as shares, money in dollars), so importing the sheet unchanged changes nothing.
+ */
+export function editionSheetRows(e: SheetEdition): string[][] {
+  return [
+    [...SHEET_COLUMNS],
+    ...SETTING_FIELDS.map((f) => ["setting", f.key, f.label, e.settings[f.key] ?? "", ""]),
+    ...e.fringe.map((f) => ["fringe", f.category, "", f.rate, ""]),
+    ...e.procedures.map((p) => ["procedure", p.code, p.name, p.unitCost, p.category]),
+  ];
+}
+
+export async function templateXlsx(rows: string[][] = templateRows()): Promise<Buffer> {
   const wb = new ExcelJS.Workbook();
   const ws = wb.addWorksheet("Rate sheet");
-  for (const r of templateRows()) ws.addRow(r);
+  for (const r of rows) ws.addRow(r);
   ws.getRow(1).font = { bold: true };
   ws.columns.forEach((c) => (c.width = 22));
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
 
-export function templateCsv(): string {
-  return templateRows()
+export function templateCsv(rows: string[][] = templateRows()): string {
+  return rows
     .map((r) => r.map((c) => (/[",\n]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(","))
     .join("\r\n") + "\r\n";
 }

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { getDb } from "@/db";
 import { createAccount } from "@/db/queries/accounts";
 import { createDraft, startImport } from "@/db/queries/rate-book";
-import { createScenario } from "@/db/queries/scenarios";
+import { createScenario, reviewScenario } from "@/db/queries/scenarios";
 import { createStudy } from "@/db/queries/studies";
 import { SESSION_COOKIE } from "@/lib/auth/session-options";
 import { DEMO_SCENARIOS } from "@/scripts/demo-data";
@@ -97,6 +97,10 @@ beforeAll(async () => {
   const pi = { id: await uid("pi@demo.test"), role: "investigator" as const };
   ids.spareDraftA = await createScenario(pi, ids.studyA, { name: "A draft to delete", inputs: DEMO_SCENARIOS[0]!.inputs });
   ids.draftB = await createScenario(other, ids.studyB, { name: "B draft", inputs: DEMO_SCENARIOS[0]!.inputs });
+  ids.spareReviewA = await createScenario(pi, ids.studyA, { name: "A scenario to withdraw", inputs: DEMO_SCENARIOS[0]!.inputs });
+  await reviewScenario(pi, ids.spareReviewA, "submit");
+  ids.spareReviewB = await createScenario(other, ids.studyB, { name: "B scenario to withdraw", inputs: DEMO_SCENARIOS[0]!.inputs });
+  await reviewScenario(other, ids.spareReviewB, "submit");
   const grants = { id: await uid("grants@demo.test"), role: "grants-officer" as const };
   ids.draftEdition = await createDraft(grants, { label: "Matrix draft", effectiveDate: "2031-01-01" });
   ids.sheet = (await startImport(grants, ids.draftEdition, "rates.csv", Buffer.from("section,key,name,value,category\nsetting,faRate,,0.575,\n"))).id;
@@ -106,7 +110,7 @@ afterAll(() => dropDatabase(dir));
 const snapshot = async () =>
   JSON.stringify(
     await Promise.all(
-      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "rate_book_procedures", "rate_book_imports", "outbox", "users", "password_links", "mail_opt_outs", "sessions"].map(async (t) =>
+      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "rate_book_procedures", "rate_book_imports", "outbox", "users", "password_links", "mail_opt_outs", "sessions", "review_events"].map(async (t) =>
         (await getDb().selectFrom(t as "users").selectAll().execute()).map((r) => JSON.stringify(r)).sort(),
       ),
     ),
@@ -149,8 +153,13 @@ const CASES: Case[] = [
   { name: "recompute the A draft", call: (f) => scenarios.recomputeAction(null, f), form: onScenario("draftA", "A", async () => ({ version: await versionOf("scenarios", ids.draftA!) })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
   { name: "save the A draft's justification", call: (f) => scenarios.saveJustificationAction(null, f), form: onScenario("draftA", "A", async () => ({ version: await versionOf("scenarios", ids.draftA!), justification: "Written by the matrix." })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
   { name: "delete an A draft", call: (f) => scenarios.deleteAction(null, f), form: onScenario("spareDraftA", "A"), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
-  { name: "submit the A draft", call: (f) => scenarios.reviewAction(null, f), form: onScenario("draftA", "A", async () => ({ action: "submit" })), row: "submit a scenario for review", study: "A", state: "draft", bare: { action: "submit" } },
+  { name: "submit the A draft", call: (f) => scenarios.reviewAction(null, f), form: onScenario("draftA", "A", async () => ({ action: "submit" })), row: "submit a scenario for review, withdraw a submission", study: "A", state: "draft", bare: { action: "submit" } },
   { name: "clear the A scenario in review", call: (f) => scenarios.reviewAction(null, f), form: onScenario("reviewA", "A", async () => ({ action: "clear" })), row: "return or clear a scenario", study: "A", state: "in-review", bare: { action: "clear" } },
+  { name: "withdraw the A scenario in review", call: (f) => scenarios.reviewAction(null, f), form: onScenario("spareReviewA", "A", async () => ({ action: "withdraw", reason: "The matrix takes it back." })), row: "submit a scenario for review, withdraw a submission", study: "A", state: "in-review", bare: { action: "withdraw" } },
+  { name: "withdraw the B scenario in review", call: (f) => scenarios.reviewAction(null, f), form: onScenario("spareReviewB", "B", async () => ({ action: "withdraw", reason: "The matrix takes it back." })), row: "submit a scenario for review, withdraw a submission", study: "B", state: "in-review", bare: { action: "withdraw" } },
+  { name: "adopt the A draft's cheapest design", call: (f) => scenarios.adoptAction(null, f), form: onScenario("draftA", "A", async () => ({ answer: "cheapest" })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
+  { name: "adopt what the cap buys for the A draft", call: (f) => scenarios.adoptAction(null, f), form: onScenario("draftA", "A", async () => ({ answer: "cap" })), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft" },
+  { name: "adopt the B draft's cheapest design", call: (f) => scenarios.adoptAction(null, f), form: onScenario("draftB", "B", async () => ({ answer: "cheapest" })), row: "create, edit, clone, delete a draft scenario", study: "B", state: "draft" },
   { name: "start a rate-book draft", call: (f) => rateBook.createDraftAction(null, f), form: async () => ({ label: "Matrix second draft", effectiveDate: "2032-01-01" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "change a draft's F&A rate", call: (f) => rateBook.updateSettingAction(null, f), form: async () => ({ editionId: ids.draftEdition, version: await versionOf("rate_book_editions", ids.draftEdition!), key: "faRate", value: "0.55" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },
   { name: "add a fringe category", call: (f) => rateBook.addFringeAction(null, f), form: async () => ({ editionId: ids.draftEdition, category: "matrix-staff", rate: "0.2" }), row: "edit and publish rate-book editions, import a rate sheet", study: null },

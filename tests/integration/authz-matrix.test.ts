@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { createAccount } from "@/db/queries/accounts";
-import { createScenario } from "@/db/queries/scenarios";
+import { createScenario, reviewScenario } from "@/db/queries/scenarios";
 import { createStudy } from "@/db/queries/studies";
 import { DEMO_SCENARIOS } from "@/scripts/demo-data";
 import type { RouteModule } from "../support/http";
@@ -31,6 +31,14 @@ beforeAll(async () => {
   ids.draftA = scen.find((s) => s.state === "draft")!.id;
   ids.reviewA = scen.find((s) => s.state === "in-review")!.id;
   ids.draftB = await createScenario({ id: await uid("other@demo.test"), role: "investigator" }, ids.studyB, { name: "B draft", inputs: DEMO_SCENARIOS[0]!.inputs });
+  const pi = { id: await uid("pi@demo.test"), role: "investigator" as const };
+  ids.spareReviewA = await createScenario(pi, ids.studyA, { name: "A scenario to withdraw", inputs: DEMO_SCENARIOS[0]!.inputs });
+  await reviewScenario(pi, ids.spareReviewA, "submit");
+  // A draft no other case moves (the submit case submits draftA).
+  ids.quietDraftA = await createScenario(pi, ids.studyA, { name: "A draft that stays a draft", inputs: DEMO_SCENARIOS[0]!.inputs });
+  const other = { id: await uid("other@demo.test"), role: "investigator" as const };
+  ids.spareReviewB = await createScenario(other, ids.studyB, { name: "B scenario to withdraw", inputs: DEMO_SCENARIOS[0]!.inputs });
+  await reviewScenario(other, ids.spareReviewB, "submit");
   ids.edition = (await db.selectFrom("rate_book_editions").select("id").executeTakeFirstOrThrow()).id;
 });
 afterAll(() => dropDatabase(dir));
@@ -38,7 +46,7 @@ afterAll(() => dropDatabase(dir));
 const snapshot = async () =>
   JSON.stringify(
     await Promise.all(
-      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "outbox", "users", "password_links", "mail_opt_outs"].map(async (t) =>
+      ["studies", "study_members", "scenarios", "comments", "invitations", "rate_book_editions", "rate_book_fringe", "outbox", "users", "password_links", "mail_opt_outs", "review_events"].map(async (t) =>
         (await getDb().selectFrom(t as "users").selectAll().execute()).map((r) => JSON.stringify(r)).sort(),
       ),
     ),
@@ -59,7 +67,7 @@ type Case = {
   bodyChooses?: Row[];
 };
 
-const REVIEW_ROWS: Row[] = ["submit a scenario for review", "return or clear a scenario"];
+const REVIEW_ROWS: Row[] = ["submit a scenario for review, withdraw a submission", "return or clear a scenario"];
 
 const sc = (k: string) => () => ({ scenarioId: String(ids[k]) });
 const st = (k: string) => () => ({ studyId: String(ids[k]) });
@@ -82,8 +90,19 @@ const CASES: Case[] = [
   { name: "PATCH A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/route"), method: "PATCH", params: sc("draftA"), body: () => ({ version: 1, name: "Renamed by matrix" }), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft", mutates: true },
   { name: "POST clone of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/clone/route"), method: "POST", params: sc("draftA"), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft", mutates: true },
   { name: "POST clone of B draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/clone/route"), method: "POST", params: sc("draftB"), row: "create, edit, clone, delete a draft scenario", study: "B", state: "draft", mutates: true },
-  { name: "POST submit A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("draftA"), body: () => ({ action: "submit" }), row: "submit a scenario for review", study: "A", state: "draft", mutates: true, bodyChooses: REVIEW_ROWS },
+  { name: "POST submit A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("draftA"), body: () => ({ action: "submit" }), row: "submit a scenario for review, withdraw a submission", study: "A", state: "draft", mutates: true, bodyChooses: REVIEW_ROWS },
   { name: "POST clear A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("reviewA"), body: () => ({ action: "clear" }), row: "return or clear a scenario", study: "A", state: "in-review", mutates: true, bodyChooses: REVIEW_ROWS },
+  { name: "POST withdraw A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("spareReviewA"), body: () => ({ action: "withdraw", reason: "Taken back by the matrix." }), row: "submit a scenario for review, withdraw a submission", study: "A", state: "in-review", mutates: true, bodyChooses: REVIEW_ROWS },
+  { name: "POST withdraw B in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/review/route"), method: "POST", params: sc("spareReviewB"), body: () => ({ action: "withdraw", reason: "Taken back by the matrix." }), row: "submit a scenario for review, withdraw a submission", study: "B", state: "in-review", mutates: true, bodyChooses: REVIEW_ROWS },
+  { name: "GET history of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/history/route"), method: "GET", params: sc("quietDraftA"), row: "see a study and its scenarios", study: "A", state: "draft" },
+  { name: "GET history of A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/history/route"), method: "GET", params: sc("reviewA"), row: "see a study and its scenarios", study: "A", state: "in-review" },
+  { name: "GET history of B draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/history/route"), method: "GET", params: sc("draftB"), row: "see a study and its scenarios", study: "B", state: "draft" },
+  { name: "POST adopt the cheapest design of A draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/adopt/route"), method: "POST", params: sc("draftA"), body: () => ({ answer: "cheapest" }), row: "create, edit, clone, delete a draft scenario", study: "A", state: "draft", mutates: true },
+  { name: "POST adopt what the cap buys, A in review", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/adopt/route"), method: "POST", params: sc("reviewA"), body: () => ({ answer: "cap" }), row: "create, edit, clone, delete a draft scenario", study: "A", state: "in-review", mutates: true },
+  { name: "POST adopt the cheapest design of B draft", mod: () => import("@/app/api/v1/scenarios/[scenarioId]/adopt/route"), method: "POST", params: sc("draftB"), body: () => ({ answer: "cheapest" }), row: "create, edit, clone, delete a draft scenario", study: "B", state: "draft", mutates: true },
+  { name: "GET the review queue", mod: () => import("@/app/api/v1/review/queue/route"), method: "GET", params: () => ({}), row: "see the review queue", study: null },
+  { name: "GET in-review and cleared scenarios", mod: () => import("@/app/api/v1/review/scenarios/route"), method: "GET", params: () => ({}), row: "see the list of in-review and cleared scenarios", study: null },
+  { name: "GET the rate sheet of the edition in force", mod: () => import("@/app/api/v1/rate-book/template/route"), method: "GET", params: () => ({}), row: "read the rate book", study: null },
   { name: "POST invitation to A", mod: () => import("@/app/api/v1/studies/[studyId]/invitations/route"), method: "POST", params: st("studyA"), body: () => ({ email: "matrix@demo.test" }), row: "create a study, invite members", study: "A", mutates: true },
   { name: "POST a study", mod: () => import("@/app/api/v1/studies/route"), method: "POST", params: () => ({}), body: () => ({ code: "MATRIX-1", title: "Matrix study", sponsor: "Invented Fund", startDate: "2030-01-01" }), row: "create a study, invite members", study: null, mutates: true },
   { name: "POST power", mod: () => import("@/app/api/v1/power/route"), method: "POST", params: () => ({}), body: () => ({ design: "two-means", effectSize: 0.5, power: 0.8 }), row: "use the power calculator", study: null },

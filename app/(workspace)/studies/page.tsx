@@ -3,6 +3,7 @@ import Link from "next/link";
 import { NewStudyForm } from "@/components/new-study-form";
 import { listStudies } from "@/db/queries/studies";
 import { can } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/auth/roles";
 import { formatMoney } from "@/lib/format/money";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
@@ -47,7 +48,7 @@ export default async function StudiesPage() {
                   <td>{s.ownerName}</td>
                   <td>
                     <span className={s.membership ? "badge" : "badge badge-muted"}>
-                      {s.membership === "owner" ? "Lead" : s.membership === "member" ? "Member" : "Reviewer"}
+                      {s.membership === "owner" ? "Lead" : s.membership === "member" ? "Member" : ROLE_LABELS[user.role]}
                     </span>
                   </td>
                 </tr>

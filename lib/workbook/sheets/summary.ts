@@ -38,6 +38,8 @@ export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario
     if (fmt) ws.getCell(`B${r}`).numFmt = fmt;
     r++;
   }
+  // Time to event: the events the log-rank test needs, in one cell beside the method (the rows keep their places).
+  if (p.events !== undefined) ws.getCell(`C${4 + rows.findIndex(([k]) => k === "Method")}`).value = `Events needed: ${p.events}`;
   r++;
   ws.getCell(`A${r}`).value = "Totals by period (from the budget sheet)";
   ws.getCell(`A${r}`).font = { bold: true };

@@ -13,7 +13,7 @@ import { effectUnit, formatEffect, sameUnit } from "@/lib/power/effect-units";
 
 export const metadata: Metadata = { title: "Compare scenarios" };
 
-type Row = { label: string; values: (s: ScenarioDetail) => string; nowrap?: boolean };
+type Row = { label: string; values: (s: ScenarioDetail) => string; nowrap?: boolean; onlyIf?: (s: ScenarioDetail) => boolean };
 
 const pct = (v: number) => `${Math.round(v * 100)}%`;
 const STATE_LABEL: Record<string, string> = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" };
@@ -35,6 +35,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
     section: "Funnel and timeline",
     rows: [
       { label: "Evaluable per arm", values: (s) => (s.results.power.n2 === null ? String(s.results.power.n1) : `${s.results.power.n1} + ${s.results.power.n2}`) },
+      { label: "Events needed (time to event)", values: (s) => (s.results.power.events === undefined ? "—" : String(s.results.power.events)), onlyIf: (s) => s.results.power.events !== undefined },
       { label: "Enrolled", values: (s) => String(s.results.power.funnel.total.enrolled) },
       { label: "Screened", values: (s) => String(s.results.power.funnel.total.screened) },
       { label: "Sites", values: (s) => String(s.results.sites) },
@@ -142,7 +143,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
                   {sec.section}
                 </th>
               </tr>
-              {sec.rows.map((row) => {
+              {sec.rows.filter((row) => !row.onlyIf || list!.some(row.onlyIf)).map((row) => {
                 const values = list!.map(row.values);
                 const differs = new Set(values).size > 1;
                 return (

@@ -4,7 +4,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { cloneScenario, createScenario, deleteScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
+import { adoptPlannerAnswer, cloneScenario, createScenario, deleteScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
 import { forbidden, HttpError } from "@/lib/auth/errors";
 import { roleMay, type Action } from "@/lib/auth/permissions";
 import { scenarioFormSchema } from "@/lib/planning/schema";
@@ -60,15 +60,15 @@ async function run(formData: FormData, may: Action | Action[], fn: (user: Awaite
 }
 
 export async function reviewAction(_prev: unknown, formData: FormData): Promise<{ error: string | null; mismatch?: boolean }> {
-  const action = z.enum(["submit", "return", "clear"]).safeParse(formData.get("action"));
+  const action = z.enum(["submit", "withdraw", "return", "clear"]).safeParse(formData.get("action"));
   const reason = String(formData.get("reason") ?? "");
   // Sent once the person has read the warning that the edited justification no longer matches its figures.
   const acceptJustificationMismatch = formData.get("confirmMismatch") === "1";
   // Submitting and reviewing are different roles' actions; reviewScenario decides again on the record.
-  const may: Action | Action[] = !action.success ? ["scenario.submit", "scenario.review"] : action.data === "submit" ? "scenario.submit" : "scenario.review";
+  const may: Action | Action[] = !action.success ? ["scenario.submit", "scenario.review"] : action.data === "submit" || action.data === "withdraw" ? "scenario.submit" : "scenario.review";
   let mismatch = false;
   const result = await run(formData, may, async (user, v) => {
-    if (!action.success) throw new HttpError(400, "invalid", "Choose submit, return or clear.");
+    if (!action.success) throw new HttpError(400, "invalid", "Choose submit, withdraw, return or clear.");
     try {
       await reviewScenario(user, v.scenarioId, action.data, reason, { acceptJustificationMismatch });
     } catch (err) {
@@ -76,9 +76,19 @@ export async function reviewAction(_prev: unknown, formData: FormData): Promise<
       throw err;
     }
     // The scenario page says what happened (its `done` notice).
-    return `/studies/${v.studyId}/scenarios/${v.scenarioId}?done=${action.data === "submit" ? "submitted" : action.data === "clear" ? "cleared" : "returned"}`;
+    const done = { submit: "submitted", withdraw: "withdrawn", clear: "cleared", return: "returned" } as const;
+    return `/studies/${v.studyId}/scenarios/${v.scenarioId}?done=${done[action.data]}`;
   });
   return mismatch ? { ...result, mismatch } : result;
+}
+
+/** Adopts a planner answer (the cheapest design for the target power, or what the cap buys) as a new draft, and opens it. */
+export async function adoptAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {
+  const answer = z.enum(["cheapest", "cap"]).safeParse(formData.get("answer"));
+  return run(formData, "scenario.edit", async (user, v) => {
+    if (!answer.success) throw new HttpError(400, "invalid", "Choose the cheapest design or what the cap buys.");
+    return `/studies/${v.studyId}/scenarios/${await adoptPlannerAnswer(user, v.scenarioId, answer.data)}?adopted=1`;
+  });
 }
 
 export async function cloneAction(_prev: unknown, formData: FormData): Promise<{ error: string | null }> {

@@ -1,13 +1,16 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { AssumptionsView } from "@/components/scenario/assumptions-view";
 import { CommentsPanel } from "@/components/scenario/comments";
 import { OutlookPanel } from "@/components/scenario/outlook-panel";
+import { ReviewHistory } from "@/components/scenario/review-history";
 import { PlannerPanel } from "@/components/scenario/planner-panel";
 import { ReachChart } from "@/components/scenario/reach-chart";
 import { ResultsPanel } from "@/components/scenario/results-panel";
 import { JustificationEditor, ScenarioActions } from "@/components/scenario/scenario-actions";
 import { ScenarioForm } from "@/components/scenario/scenario-form";
 import { getEdition } from "@/db/queries/rate-book";
+import { reviewHistory } from "@/db/queries/review";
 import { getScenario } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
@@ -27,18 +30,21 @@ const DONE: Record<string, string> = {
   submitted: "Submitted for review. The grants office has been told; the scenario cannot be edited until they return or clear it.",
   cleared: "Cleared. The investigator has been told; the scenario is now frozen.",
   returned: "Returned to the investigator with your reason; they have been told.",
+  withdrawn: "Withdrawn from review: the scenario is a draft again and can be edited. Your reason is kept in the review history.",
 };
 
-export default async function ScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string; scenarioId: string }>; searchParams: Promise<{ saved?: string; done?: string }> }) {
+export default async function ScenarioPage({ params, searchParams }: { params: Promise<{ studyId: string; scenarioId: string }>; searchParams: Promise<{ saved?: string; done?: string; adopted?: string }> }) {
   const user = await requireUser();
   const { studyId, scenarioId } = await params;
-  const { saved, done } = await searchParams;
+  const { saved, done, adopted } = await searchParams;
   const s = await loadOr404(() => getScenario(user, Number(scenarioId)));
   if (s.studyId !== Number(studyId)) notFound();
   const ctx = { membership: s.membership, scenarioState: s.state };
   const editable = can(user, "scenario.edit", ctx) && (s.state === "draft" || s.state === "returned");
   const ids = { studyId: s.studyId, scenarioId: s.id, version: s.version };
   const edition = await getEdition(user, s.editionId);
+  const history = await reviewHistory(user, s.id);
+  const mayDraft = can(user, "scenario.edit", { membership: s.membership, scenarioState: "draft" });
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -67,6 +73,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           mismatch={mismatchLines(s.justificationCheck)}
           can={{
             submit: can(user, "scenario.submit", ctx) && (s.state === "draft" || s.state === "returned"),
+            withdraw: can(user, "scenario.submit", ctx) && s.state === "in-review",
             review: can(user, "scenario.review", ctx) && s.state === "in-review",
             edit: can(user, "scenario.edit", ctx),
             delete: editable,
@@ -78,6 +85,11 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       {saved ? (
         <p className="notice" role="status">
           Saved, with its results.
+        </p>
+      ) : null}
+      {adopted ? (
+        <p className="notice" role="status" data-testid="adopted-status">
+          A new draft that adopts the planner&apos;s answer{s.clonedFrom ? " of the scenario it came from" : ""}, computed with its results. Check it, then save or submit it as any draft.
         </p>
       ) : null}
       {done && DONE[done] ? (
@@ -105,6 +117,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           procedureCatalogue={edition.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost }))}
         />
       ) : (
+        <>
         <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
           <section className="card xl:col-span-3" aria-labelledby="results-heading">
             <h2 id="results-heading" className="mb-3">
@@ -116,8 +129,23 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             <ReachChart source={{ kind: "saved", scenarioId: s.id }} effectName={s.results.effectName} />
           </div>
         </div>
+        {/* Those who see but do not edit read every assumption, with the comments about them beside. */}
+        <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
+          <div className="min-w-0 xl:col-span-3">
+            <AssumptionsView scenarioId={s.id} inputs={s.inputs} procedureNames={Object.fromEntries(edition.procedures.map((p) => [p.code, p.name]))} />
+          </div>
+          <div className="min-w-0 xl:col-span-2">
+            <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} />
+          </div>
+        </div>
+        </>
       )}
-      <PlannerPanel scenarioId={s.id} effectName={s.results.effectName} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
+      <PlannerPanel
+        scenarioId={s.id}
+        effectName={s.results.effectName}
+        capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null}
+        adoptIds={mayDraft ? ids : null}
+      />
       <OutlookPanel
         scenarioId={s.id}
         version={s.version}
@@ -126,7 +154,8 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         saved={{ rateSpread: s.inputs.uncertainty?.rateSpread, prior: givenPrior(s.inputs.uncertainty) }}
       />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
-      <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
+      <ReviewHistory entries={history} state={s.state} />
+      {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
     </div>
   );
 }

@@ -1,0 +1,184 @@
+"use client";
+
+import type { ReactNode } from "react";
+import { formatMoney } from "@/lib/format/money";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import { designName, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names";
+import { FieldCommentBadge, ScenarioIdContext } from "./comments";
+import { ScrollRegion } from "@/components/scroll-region";
+import { TableHead } from "@/components/table-head";
+
+const pct = (v: number | undefined) => (v === undefined ? "—" : `${Math.round(v * 10000) / 100}%`);
+const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
+
+function Row({ label, value, field }: { label: string; value: ReactNode; field?: string }) {
+  return (
+    <div className="flex flex-wrap justify-between gap-2 border-b border-rule py-1 text-sm">
+      <dt className="text-ink-soft">{label}</dt>
+      <dd className="num text-right">
+        <span data-testid={field ? `assumption-${field}` : undefined}>{value}</span>
+        {field ? <FieldCommentBadge field={field} /> : null}
+      </dd>
+    </div>
+  );
+}
+
+/**
+ * Every assumption of a scenario, read-only, for those who may see it but not change it (the grants
+ * office, co-investigators, finance) or while it cannot be changed (in review, cleared). Labels follow
+ * the scenario form; the badge beside a value counts the open comments about it.
+ */
+export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenarioId: number; inputs: ScenarioInputs; procedureNames: Record<string, string> }) {
+  const d = inputs.design;
+  const r = inputs.recruitment;
+  const design = d.design;
+  const cluster = design.startsWith("cluster-");
+  const means = design === "two-means" || design === "one-mean" || design === "cluster-two-means";
+  const proportions = design.endsWith("proportions");
+  const byDifference = d.effectInput === "difference" || (d.effectInput !== "d" && d.meanDifference !== undefined);
+  return (
+    <ScenarioIdContext value={scenarioId}>
+      <section className="card flex flex-col gap-4" aria-labelledby="assumptions-heading" data-testid="assumptions-view">
+        <div>
+          <h2 id="assumptions-heading">Assumptions</h2>
+          <p className="text-sm text-ink-soft">Every assumption this scenario was costed with, as its investigator entered them. Read-only here.</p>
+        </div>
+        <div className="grid grid-cols-1 gap-4 md:grid-cols-2">
+          <div>
+            <h3 className="text-base">Design</h3>
+            <dl>
+              <Row label="Design" value={designName(design)} field="inputs.design.design" />
+              <Row label="Primary outcome" value={d.outcome} />
+              <Row label="Alpha" value={num(d.alpha)} field="inputs.design.alpha" />
+              <Row label="Test" value={d.sides === 1 ? "One-sided" : "Two-sided"} />
+              <Row label="Target power" value={pct(d.power)} field="inputs.design.power" />
+              {design !== "one-mean" ? <Row label="Allocation ratio (n2 / n1)" value={num(d.allocationRatio)} /> : null}
+              {means && byDifference ? (
+                <>
+                  <Row label="Target mean difference" value={num(d.meanDifference)} field="inputs.design.meanDifference" />
+                  <Row label="Outcome SD" value={inputs.pilot?.kind === "sd" ? `${num(inputs.pilot.use === "upper" && inputs.pilot.upperLimit ? inputs.pilot.upperLimit : inputs.pilot.estimate)} (from pilot data)` : num(d.sd)} field="inputs.design.sd" />
+                </>
+              ) : null}
+              {means && !byDifference ? <Row label="Standardized effect d" value={num(d.effectSize)} field="inputs.design.effectSize" /> : null}
+              {proportions ? (
+                <>
+                  <Row label="Control proportion (p1)" value={inputs.pilot?.kind === "proportion" ? `${num(inputs.pilot.estimate)} (from pilot data)` : num(d.p1)} field="inputs.design.p1" />
+                  <Row label="Target intervention proportion (p2)" value={num(d.p2)} field="inputs.design.p2" />
+                </>
+              ) : null}
+              {design === "two-proportions" ? <Row label="Two-proportions method" value={PROPORTIONS_METHOD_NAMES[d.method ?? "normal"]} field="inputs.design.method" /> : null}
+              {cluster ? (
+                <>
+                  <Row label="Mean cluster size" value={num(d.clusterSize)} field="inputs.design.clusterSize" />
+                  <Row label="ICC" value={num(d.icc)} field="inputs.design.icc" />
+                  <Row label="CV of cluster size" value={num(d.cv ?? 0)} />
+                </>
+              ) : null}
+              {design === "time-to-event" ? (
+                <>
+                  <Row label="Target hazard ratio" value={num(d.hazardRatio)} field="inputs.design.hazardRatio" />
+                  <Row label="Control median (months)" value={num(d.controlMedian)} field="inputs.design.controlMedian" />
+                  <Row label="Further follow-up (months)" value={num(d.followUpMonths)} field="inputs.design.followUpMonths" />
+                  <Row label="Accrual months (from the recruitment plan)" value={num(d.accrualMonths)} />
+                </>
+              ) : null}
+              <Row label="Where the target effect comes from" value={d.targetRationale || "—"} />
+              <Row label="Where the SD or control proportion comes from" value={d.sdSource || "—"} />
+            </dl>
+          </div>
+          <div>
+            <h3 className="text-base">Recruitment</h3>
+            <dl>
+              {!cluster ? <Row label="Sites" value={r.maxEnrolmentMonths ? `as many as the deadline needs` : num(r.sites)} field="inputs.recruitment.sites" /> : null}
+              {r.maxEnrolmentMonths ? <Row label="Enrolment deadline (months)" value={num(r.maxEnrolmentMonths)} /> : null}
+              <Row label="Start-up months" value={num(r.startupMonths)} field="inputs.recruitment.startupMonths" />
+              <Row label="Months between site activations" value={num(r.staggerMonths)} />
+              <Row label="Enrolment rate (per site per month)" value={num(r.ratePerSiteMonth)} field="inputs.recruitment.ratePerSiteMonth" />
+              <Row label="Close-out months" value={num(r.closeoutMonths)} />
+              <Row label="Attrition" value={pct(r.attrition)} field="inputs.recruitment.attrition" />
+              <Row label="Screen failure" value={pct(r.screenFailure)} field="inputs.recruitment.screenFailure" />
+              <Row label="Visits a dropout attends" value={pct(r.dropoutVisitShare)} />
+            </dl>
+          </div>
+        </div>
+        <div>
+          <h3 className="text-base">
+            Visits and procedures <FieldCommentBadge field="inputs.visits" />
+          </h3>
+          {inputs.visits.length === 0 ? (
+            <p className="text-sm text-ink-soft">No visits.</p>
+          ) : (
+            <ScrollRegion label="Visits and procedures">
+              <table className="table text-sm" data-testid="assumptions-visits">
+                <TableHead columns={["Visit", { label: "Month", num: true }, "Procedures"]} />
+                <tbody>
+                  {inputs.visits.map((v, k) => (
+                    <tr key={k}>
+                      <td>{v.name}</td>
+                      <td className="num">{v.month}</td>
+                      <td>
+                        {[
+                          ...v.procedures.map((c) => (procedureNames[c] ? `${procedureNames[c]} (${c})` : c)),
+                          ...(v.oneOffProcedures ?? []).map((o) => `${o.name}: ${formatMoney(o.cost)} (one-off, not in the rate book)`),
+                        ].join("; ") || "—"}
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
+          )}
+        </div>
+        <div>
+          <h3 className="text-base">
+            Staff and effort <FieldCommentBadge field="inputs.personnel" />
+          </h3>
+          {inputs.personnel.length === 0 ? (
+            <p className="text-sm text-ink-soft">No staff.</p>
+          ) : (
+            <ScrollRegion label="Staff and effort">
+              <table className="table text-sm" data-testid="assumptions-staff">
+                <TableHead columns={["Role", "Staff category", { label: "Base salary", num: true }, { label: "Effort by budget period", num: true }, "Effort runs"]} />
+                <tbody>
+                  {inputs.personnel.map((p, k) => (
+                    <tr key={k}>
+                      <td>{p.role}</td>
+                      <td>{p.fringeCategory}</td>
+                      <td className="num">{formatMoney(p.baseSalary)}</td>
+                      <td className="num">{p.effortPercent.map((e) => `${e}%`).join(", ")}</td>
+                      <td>{p.follows === "enrolment" ? "Recruitment and visits" : "The whole study"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
+          )}
+        </div>
+        <div>
+          <h3 className="text-base">
+            Other costs <FieldCommentBadge field="inputs.other" />
+          </h3>
+          {inputs.other.length === 0 ? (
+            <p className="text-sm text-ink-soft">No other costs.</p>
+          ) : (
+            <ScrollRegion label="Other costs">
+              <table className="table text-sm" data-testid="assumptions-other">
+                <TableHead columns={["Item", "Category", { label: "Per budget period", num: true }, "Escalated"]} />
+                <tbody>
+                  {inputs.other.map((o, k) => (
+                    <tr key={k}>
+                      <td>{o.label}</td>
+                      <td>{o.category}</td>
+                      <td className="num">{formatMoney(o.perPeriod)}</td>
+                      <td>{o.escalate ? "Yes" : "No"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
+          )}
+        </div>
+      </section>
+    </ScenarioIdContext>
+  );
+}
