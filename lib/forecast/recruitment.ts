@@ -158,7 +158,9 @@ export function forecastRecruitment(input: ForecastInput): Forecast {
     probability,
     monthsToEnrol: { median: finish.median - first, p80: finish.p80 - first, p90: finish.p90 - first },
     finishMonth: finish,
-    milestones: milestones(input, starts, Math.min(MAX_MONTHS, Math.ceil(Math.max(finish.p90, plannedFinish)) + 1), random),
+    // The table runs to the 90th percentile's month, but no further than three times the plan: past
+    // that the band says only that enrolment is far behind, and a chart of it hides the plan.
+    milestones: milestones(input, starts, Math.min(MAX_MONTHS, Math.ceil(Math.max(Math.min(finish.p90, 3 * plannedFinish), plannedFinish)) + 1), random),
   };
 }
 
