@@ -33,7 +33,10 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
   const markers = (data?.markers ?? []).filter((m) => effectUnit(m.effectName).name === unit.name);
   const leftOut = (data?.markers ?? []).filter((m) => effectUnit(m.effectName).name !== unit.name);
   const yKey = view === "mdes" ? "mdes" : "powerAtTarget";
-  const points = data?.points ?? [];
+  // With a prior saved, the power view carries a second line: the assurance at each budget's n.
+  const assuranceAt = new Map((data?.assurance ?? []).map((a) => [a.n, a.assurance]));
+  const points = (data?.points ?? []).map((p) => (assuranceAt.size ? { ...p, assurance: assuranceAt.get(p.n) } : p));
+  const withAssurance = view === "power" && assuranceAt.size > 0;
   const maxY = view === "mdes" ? Math.min(2, Math.max(0.1, ...(points.length ? [points[Math.min(points.length - 1, 3)]!.mdes] : [1]))) : 1;
   return (
     <section className="card flex flex-col gap-3" aria-labelledby="reach-heading">
@@ -59,7 +62,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
       <p className="text-sm text-ink-soft">
         {view === "mdes"
           ? `The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power, as the ${unit.noun}.`
-          : `Power to detect the target effect (${formatEffect(unit.name, data?.targetEffect)}) for each budget.`}
+          : `Power to detect the target effect (${formatEffect(unit.name, data?.targetEffect)}) for each budget${withAssurance ? "; dashed: the assurance, the chance of success averaged over your expectation of the effect (saved under Uncertainty)" : ""}.`}
       </p>
       {error ? <p className="alert">{(error as Error).message}</p> : null}
       <div
@@ -68,6 +71,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
         data-unit={unit.symbol}
         data-markers={markers.length}
         data-points={points.length}
+        data-assurance={withAssurance ? "shown" : undefined}
         data-signature={points.length ? `${points.length}:${Math.round(points[0]!.budget)}:${Math.round(points[points.length - 1]!.mdes * 1e4)}` : ""}
         aria-busy={isLoading}
       >
@@ -103,12 +107,14 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
                     </div>
                     <div className="num">
                       MDES {formatEffect(unit.name, p.mdes)} · power at target {p.powerAtTarget.toFixed(3)}
+                      {typeof p.assurance === "number" ? ` · assurance ${p.assurance.toFixed(3)}` : ""}
                     </div>
                   </div>
                 );
               }}
             />
             <Line type="stepAfter" dataKey={yKey} stroke="#2f5d50" strokeWidth={2} dot={false} isAnimationActive={false} />
+            {withAssurance ? <Line type="stepAfter" dataKey="assurance" stroke="#8a6a1f" strokeWidth={2} strokeDasharray="6 3" dot={false} isAnimationActive={false} /> : null}
             {data?.cap ? <ReferenceLine x={data.cap} stroke="#a6461f" strokeDasharray="4 3" label={{ value: "cap", position: "top", fill: "#a6461f" }} /> : null}
             {view === "mdes" && data ? <ReferenceLine y={data.targetEffect} stroke="#8a6a1f" strokeDasharray="2 3" label={{ value: "target", position: "right", fill: "#8a6a1f" }} /> : null}
             {view === "power" ? <ReferenceLine y={0.8} stroke="#8a6a1f" strokeDasharray="2 3" /> : null}

@@ -51,6 +51,12 @@ describe("the investigator reads how likely the plan is", () => {
     expect(justification).toMatch(/centred on an effect of 0\.5 \(SD 0\.2\) from the range of effects in two earlier trials, the probability that the study succeeds \(assurance; O'Hagan, Stevens and Campbell 2005\) is 0\.786\./);
   });
 
+  it("the reach curve's power view draws the assurance as a second line", async () => {
+    await page.getByRole("combobox", { name: "What the chart shows" }).selectOption({ label: "power at the target effect" });
+    await page.locator("[data-testid='reach-chart'][data-assurance='shown']").waitFor();
+    await waitForText(page.getByText(/dashed: the assurance/), /averaged over your expectation of the effect/);
+  });
+
   it("the chance of enrolling on time equals the closed form: time to enrol = (n / Kμ) × F(2n, 2Kα), one site at 20 a month, α = 1 / 0.5² = 4", async () => {
     const said = await waitForText(page.getByTestId("forecast-probability"), /Chance of enrolling all \d+ participants by the planned end of enrolment \(month \d+\): \d+%/);
     const n = number(said, /all (\d+) participants/);

@@ -4,6 +4,7 @@ import { getDb } from "@/db";
 import * as sessionRoute from "@/app/api/v1/session/route";
 import * as forecastRoute from "@/app/api/v1/scenarios/[scenarioId]/forecast/route";
 import * as scenarioRoute from "@/app/api/v1/scenarios/[scenarioId]/route";
+import * as curveRoute from "@/app/api/v1/scenarios/[scenarioId]/curve/route";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { params, request, signInAs } from "../support/http";
 
@@ -49,6 +50,15 @@ describe("the forecast route", () => {
     expect(body.forecast.rateSpread).toBeCloseTo(0.5, 9);
     expect(body.forecast.shapeSource).toBe("the investigator's choice");
     expect(body.assurance.prior).toMatchObject({ mean: 0.4, sd: 0.15, source: "an earlier trial" });
+  });
+  it("with a prior saved, the reach curve carries the assurance at each point's n, rising with the budget and below 1", async () => {
+    const res = await curveRoute.GET(request("GET", `/api/v1/scenarios/${id}/curve?points=32`, { cookie: pi }), params({ scenarioId: String(id) }));
+    const { curve } = await res.json();
+    expect(curve.assurance).toHaveLength(curve.points.length);
+    const values = curve.assurance.map((a: { assurance: number }) => a.assurance);
+    for (let k = 1; k < values.length; k++) expect(values[k]).toBeGreaterThanOrEqual(values[k - 1] - 1e-9);
+    expect(values.at(-1)).toBeLessThan(1);
+    expect(values[0]).toBeGreaterThan(0);
   });
   it("refuses a spread out of range or a negative SD with 400, naming the field as the page does", async () => {
     for (const [query, words] of [

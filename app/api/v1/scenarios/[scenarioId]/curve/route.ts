@@ -2,7 +2,8 @@ import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { validationError } from "@/lib/http/errors";
 import { curveQuerySchema, previewSchema } from "@/lib/planning/api-schemas";
-import { reachCurveCached } from "@/lib/server/planning-cache";
+import { assuranceCurveCached, reachCurveCached } from "@/lib/server/planning-cache";
+import { givenPrior } from "@/lib/planning/schema";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";
@@ -12,7 +13,15 @@ type P = { scenarioId: string };
 async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs): Promise<CurveResponse> {
   const ctx = await scenarioContext(user, id);
   const curve = await reachCurveCached(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
-  return { ...curve, cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null, targetEffect: ctx.results.targetEffect, markers: await scenarioMarkers(user, ctx.studyId) };
+  const used = inputs ?? ctx.inputs;
+  const prior = givenPrior(used.uncertainty);
+  return {
+    ...curve,
+    cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null,
+    targetEffect: ctx.results.targetEffect,
+    ...(prior ? { assurance: assuranceCurveCached(curve, used, prior) } : {}),
+    markers: await scenarioMarkers(user, ctx.studyId),
+  };
 }
 
 /** GET ?points=N: the saved scenario's reach curve, with a marker for every scenario of the study. */
