@@ -20,10 +20,12 @@ const money = (v: number) => (v >= 1e6 ? `$${(v / 1e6).toFixed(2)}M` : `$${Math.
 
 /** The reach curve: what each budget can detect; markers for the study's scenarios, the cap and the target. */
 export function ReachChart({ source, effectName }: { source: Source; effectName: string }) {
-  const [x, setX] = useState<"budget" | "direct">("budget");
+  const [x, setX] = useState<"budget" | "direct" | "slow">("budget");
   const [view, setView] = useState<"mdes" | "power">("mdes");
   const key: [string, string | null] =
-    source.kind === "saved" ? [`/api/v1/scenarios/${source.scenarioId}/curve?points=96`, null] : [source.url, JSON.stringify({ inputs: source.inputs, points: 96 })];
+    source.kind === "saved"
+      ? [`/api/v1/scenarios/${source.scenarioId}/curve?points=96${x === "slow" ? "&slow=1" : ""}`, null]
+      : [source.url, JSON.stringify({ inputs: source.inputs, points: 96 })];
   const { data, error, isLoading } = useSWR(key, fetchCurve, { keepPreviousData: true, revalidateOnFocus: false });
   // The curve's own unit (it follows the assumptions it was drawn for), else the caller's.
   const unit = effectUnit(data?.effectName ?? effectName);
@@ -35,7 +37,12 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
   const yKey = view === "mdes" ? "mdes" : "powerAtTarget";
   // With a prior saved, the power view carries a second line: the assurance at each budget's n.
   const assuranceAt = new Map((data?.assurance ?? []).map((a) => [a.n, a.assurance]));
-  const points = (data?.points ?? []).map((p) => (assuranceAt.size ? { ...p, assurance: assuranceAt.get(p.n) } : p));
+  // At a slow enrolment, each point sits at the budget its study needs if enrolment takes the forecast's 80th percentile.
+  const slowAt = new Map((data?.slow ?? []).map((p) => [p.n, p.budget]));
+  const points = (data?.points ?? [])
+    .map((p) => (assuranceAt.size ? { ...p, assurance: assuranceAt.get(p.n) } : p))
+    .filter((p) => x !== "slow" || slowAt.has(p.n))
+    .map((p) => (x === "slow" ? { ...p, slow: slowAt.get(p.n)! } : p));
   const withAssurance = view === "power" && assuranceAt.size > 0;
   const maxY = view === "mdes" ? Math.min(2, Math.max(0.1, ...(points.length ? [points[Math.min(points.length - 1, 3)]!.mdes] : [1]))) : 1;
   return (
@@ -52,9 +59,10 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
           </label>
           <label className="flex items-center gap-1">
             against
-            <select className="input py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct")} aria-label="Budget axis">
+            <select className="input py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct" | "slow")} aria-label="Budget axis">
               <option value="budget">total budget</option>
               <option value="direct">direct costs</option>
+              {source.kind === "saved" ? <option value="slow">total budget if enrolment is slow (80th percentile)</option> : null}
             </select>
           </label>
         </div>
@@ -64,6 +72,13 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
           ? `The smallest effect the study can detect for each budget, at the scenario's alpha, sides and power, as the ${unit.noun}.`
           : `Power to detect the target effect (${formatEffect(unit.name, data?.targetEffect)}) for each budget${withAssurance ? "; dashed: the assurance, the chance of success averaged over your expectation of the effect (saved under Uncertainty)" : ""}.`}
       </p>
+      {x === "slow" ? (
+        <p className="text-sm text-ink-soft" data-testid="reach-slow-note">
+          {data?.slow
+            ? "Each study is placed at the budget it needs if enrolment takes as long as the recruitment forecast's 80th percentile (see “How likely the plan is”); read against the planned budget, the shift is what a slow enrolment costs."
+            : "Forecasting each study's enrolment…"}
+        </p>
+      ) : null}
       {error ? <p className="alert">{(error as Error).message}</p> : null}
       <div
         className="h-80 w-full"
@@ -85,7 +100,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
                   <ReferenceArea key="l" y1={0.5} y2={0.8} fill="#f8e7de" fillOpacity={0.3} ifOverflow="hidden" />,
                 ]
               : null}
-            <XAxis dataKey={x} type="number" domain={["dataMin", "dataMax"]} tickFormatter={money} label={{ value: x === "budget" ? "Total budget" : "Direct costs", position: "insideBottom", offset: -10 }} />
+            <XAxis dataKey={x} type="number" domain={["dataMin", "dataMax"]} tickFormatter={money} label={{ value: x === "budget" ? "Total budget" : x === "slow" ? "Total budget at a slow enrolment (80th percentile)" : "Direct costs", position: "insideBottom", offset: -10 }} />
             <YAxis
               type="number"
               domain={[0, maxY]}

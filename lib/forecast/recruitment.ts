@@ -34,6 +34,8 @@ export type ForecastInput = {
   deadlines: { enrolment: number; funded?: number | null };
   seed?: number;
   runs?: number;
+  /** Leave out the monthly milestone table (the reach curve asks only for the percentiles, at every point). */
+  milestones?: boolean;
 };
 
 export type MilestoneRow = { month: number; planned: number; low: number; median: number; high: number };
@@ -160,7 +162,7 @@ export function forecastRecruitment(input: ForecastInput): Forecast {
     finishMonth: finish,
     // The table runs to the 90th percentile's month, but no further than three times the plan: past
     // that the band says only that enrolment is far behind, and a chart of it hides the plan.
-    milestones: milestones(input, starts, Math.min(MAX_MONTHS, Math.ceil(Math.max(Math.min(finish.p90, 3 * plannedFinish), plannedFinish)) + 1), random),
+    milestones: input.milestones === false ? [] : milestones(input, starts, Math.min(MAX_MONTHS, Math.ceil(Math.max(Math.min(finish.p90, 3 * plannedFinish), plannedFinish)) + 1), random),
   };
 }
 

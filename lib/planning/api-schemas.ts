@@ -22,6 +22,8 @@ export const reviewSchema = z.object({
 export const curveQuerySchema = z.object({
   points: z.coerce.number().int().min(8, "points: 8 to 512.").max(512, "points: 8 to 512.").default(64),
   x: z.enum(["total", "direct"]).default("total"),
+  /** "1": also the budget each point needs if enrolment is as slow as the forecast's 80th percentile. */
+  slow: z.enum(["0", "1"], { error: "slow: 0 or 1." }).default("0"),
 });
 export const previewSchema = z.object({ inputs: scenarioInputsSchema, points: z.number().int().min(8).max(512).optional() });
 

@@ -7,6 +7,7 @@ import { sensitivity, type SensitivityRow } from "@/lib/planning/sensitivity";
 import { forecastScenario, type ScenarioForecast } from "@/lib/planning/forecast";
 import { scenarioAssurance, type ScenarioAssurance } from "@/lib/planning/assurance";
 import { assuranceAlongCurve, type CurvePointAssurance } from "@/lib/planning/curve-assurance";
+import { slowBudgetsAlongCurve, type SlowPoint } from "@/lib/planning/curve-slow";
 import type { ScenarioResults, StudyContext } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import type { RateBook } from "@/lib/costing";
@@ -54,6 +55,19 @@ export function assuranceCurveCached(curve: ReachCurve, inputs: ScenarioInputs, 
   if (!answer) {
     answer = assuranceAlongCurve(curve, inputs, prior);
     curveAssurances.set(key, answer);
+  }
+  return answer;
+}
+
+const slowCurves = new LRUCache<string, SlowPoint[]>({ max: 100 });
+
+/** The slow-enrolment budgets along a curve: a small forecast per point (~2 ms each), kept once computed. */
+export function slowCurveCached(curve: ReachCurve, inputs: ScenarioInputs, rates: RateBook, study: StudyContext): SlowPoint[] {
+  const key = keyOf([curve.points.map((p) => p.n), inputs, rates, study]);
+  let answer = slowCurves.get(key);
+  if (!answer) {
+    answer = slowBudgetsAlongCurve(curve, inputs, rates, study);
+    slowCurves.set(key, answer);
   }
   return answer;
 }

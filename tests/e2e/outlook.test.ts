@@ -57,6 +57,20 @@ describe("the investigator reads how likely the plan is", () => {
     await waitForText(page.getByText(/dashed: the assurance/), /averaged over your expectation of the effect/);
   });
 
+  it("the reach curve against the budget at a slow enrolment: no study costs less than at the planned rate", async () => {
+    const planned = await page.getByTestId("reach-chart").getAttribute("data-signature");
+    await page.getByRole("combobox", { name: "Budget axis" }).selectOption({ label: "total budget if enrolment is slow (80th percentile)" });
+    await waitForText(page.getByTestId("reach-slow-note"), /Each study is placed at the budget it needs if enrolment takes as long as the recruitment forecast's 80th percentile/);
+    const api = await page.evaluate(async (url) => (await (await fetch(url)).json()).curve, page.url().replace(/\/studies\/\d+\/scenarios\/(\d+).*/, "/api/v1/scenarios/$1/curve?points=96&slow=1"));
+    expect(api.slow.length).toBeGreaterThan(0);
+    const byN = new Map(api.points.map((p: { n: number; budget: number }) => [p.n, p.budget]));
+    // Longer enrolment keeps sites open longer: never cheaper, and dearer for some studies.
+    for (const p of api.slow) expect(p.budget).toBeGreaterThanOrEqual((byN.get(p.n) as number) - 0.01);
+    expect(api.slow.some((p: { n: number; budget: number }) => p.budget > (byN.get(p.n) as number) + 1)).toBe(true);
+    expect(planned).toBeTruthy();
+    await page.getByRole("combobox", { name: "Budget axis" }).selectOption({ label: "total budget" });
+  });
+
   it("the chance of enrolling on time equals the closed form: time to enrol = (n / Kμ) × F(2n, 2Kα), one site at 20 a month, α = 1 / 0.5² = 4", async () => {
     const said = await waitForText(page.getByTestId("forecast-probability"), /Chance of enrolling all \d+ participants by the planned end of enrolment \(month \d+\): \d+%/);
     const n = number(said, /all (\d+) participants/);

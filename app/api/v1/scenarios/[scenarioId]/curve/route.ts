@@ -2,7 +2,7 @@ import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { validationError } from "@/lib/http/errors";
 import { curveQuerySchema, previewSchema } from "@/lib/planning/api-schemas";
-import { assuranceCurveCached, reachCurveCached } from "@/lib/server/planning-cache";
+import { assuranceCurveCached, reachCurveCached, slowCurveCached } from "@/lib/server/planning-cache";
 import { givenPrior } from "@/lib/planning/schema";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
@@ -10,7 +10,7 @@ import { json, parseId, readJson, withUser } from "@/lib/server/api";
 
 type P = { scenarioId: string };
 
-async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs): Promise<CurveResponse> {
+async function curveFor(user: Actor, id: number, points: number, inputs?: ScenarioInputs, slow = false): Promise<CurveResponse> {
   const ctx = await scenarioContext(user, id);
   const curve = await reachCurveCached(inputs ?? ctx.inputs, ctx.rates, ctx.study, { points, referenceTotal: Number(ctx.results.ledger.totals.total) });
   const used = inputs ?? ctx.inputs;
@@ -20,15 +20,16 @@ async function curveFor(user: Actor, id: number, points: number, inputs?: Scenar
     cap: ctx.study.sponsorCap ? Number(ctx.study.sponsorCap) : null,
     targetEffect: ctx.results.targetEffect,
     ...(prior ? { assurance: assuranceCurveCached(curve, used, prior) } : {}),
+    ...(slow ? { slow: slowCurveCached(curve, used, ctx.rates, ctx.study) } : {}),
     markers: await scenarioMarkers(user, ctx.studyId),
   };
 }
 
-/** GET ?points=N: the saved scenario's reach curve, with a marker for every scenario of the study. */
+/** GET ?points=N[&slow=1]: the saved scenario's reach curve, with a marker for every scenario of the study (and each point's budget at a slow enrolment). */
 export const GET = withUser<P>(async ({ req, user, params }) => {
   const parsed = curveQuerySchema.safeParse(Object.fromEntries(new URL(req.url).searchParams));
   if (!parsed.success) throw validationError(parsed.error);
-  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), parsed.data.points) });
+  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), parsed.data.points, undefined, parsed.data.slow === "1") });
 });
 
 /** POST { inputs, points? }: the curve for unsaved assumptions, priced with the scenario's edition. */
