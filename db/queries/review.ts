@@ -41,7 +41,8 @@ export async function reviewHistory(actor: Actor, scenarioId: number): Promise<R
 }
 
 /** What changed in a resubmitted scenario since the grants office last returned it. */
-export type SinceReturn = { returnedAt: string; reason: string | null; changed: string[]; totalThen: string | null; totalMove: string | null } | null;
+/** `changed` is null for a return carried over from before the history kept snapshots (migration 0012). */
+export type SinceReturn = { returnedAt: string; reason: string | null; changed: string[] | null; totalThen: string | null; totalMove: string | null } | null;
 
 export type QueueRow = {
   scenarioId: number;
@@ -107,7 +108,7 @@ export async function reviewQueue(actor: Actor): Promise<QueueRow[]> {
       sinceReturn = {
         returnedAt: lastReturn.at,
         reason: lastReturn.reason,
-        changed: lastReturn.inputs_json ? changedInputs(JSON.parse(lastReturn.inputs_json) as ScenarioInputs, JSON.parse(r.inputs_json) as ScenarioInputs) : [],
+        changed: lastReturn.inputs_json ? changedInputs(JSON.parse(lastReturn.inputs_json) as ScenarioInputs, JSON.parse(r.inputs_json) as ScenarioInputs) : null,
         totalThen: lastReturn.total,
         totalMove: lastReturn.total ? new Decimal(total).minus(lastReturn.total).toFixed(2) : null,
       };

@@ -199,7 +199,7 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
     });
     for (const w of WIDTHS) {
       const page = await pageAs("grants@demo.test", w);
-      for (const path of ["/rate-book", "/rate-book/1", `/rate-book/${draftId}`, "/rate-book/compare", "/rate-book/audit", "/studies", "/studies/1"]) await visit(page, path, `grants officer ${path} @${w}`);
+      for (const path of ["/rate-book", "/rate-book/1", `/rate-book/${draftId}`, "/rate-book/compare", "/rate-book/audit", "/studies", "/studies/1", "/review", "/review/scenarios"]) await visit(page, path, `grants officer ${path} @${w}`);
       // The main interaction: a rate sheet uploaded and previewed.
       await page.goto(`${baseUrl}/rate-book/${draftId}`);
       await page.locator('input[type="file"][name="file"]').setInputFiles({
@@ -215,7 +215,7 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
     }
     await grants.close();
     const finance = await pageAs("finance@demo.test", 1280);
-    for (const path of ["/rate-book", "/studies"]) await visit(finance, path, `finance ${path} @1280`);
+    for (const path of ["/rate-book", "/studies", "/review/scenarios"]) await visit(finance, path, `finance ${path} @1280`);
     report();
   }, 600_000);
 
@@ -290,7 +290,7 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
     const coi = await signedInPage(browser, baseUrl, "coi@demo.test", { width: 390 });
     for (const id of ids) expect(await sideways(coi, `/studies/1/scenarios/${id}`), `co-investigator /studies/1/scenarios/${id}`).toBeLessThanOrEqual(0);
     const grants = await signedInPage(browser, baseUrl, "grants@demo.test", { width: 390 });
-    for (const path of ["/rate-book", "/rate-book/1", "/rate-book/compare", "/rate-book/audit"]) expect(await sideways(grants, path), path).toBeLessThanOrEqual(0);
+    for (const path of ["/rate-book", "/rate-book/1", "/rate-book/compare", "/rate-book/audit", "/review", "/review/scenarios"]) expect(await sideways(grants, path), path).toBeLessThanOrEqual(0);
     const admin = await signedInPage(browser, baseUrl, "admin@demo.test", { width: 390 });
     for (const path of ["/admin/accounts", "/admin/outbox"]) expect(await sideways(admin, path), path).toBeLessThanOrEqual(0);
   }, 300_000);

@@ -66,7 +66,7 @@ export default async function ReviewQueuePage() {
                       <>
                         Returned {day(q.sinceReturn.returnedAt)}
                         {q.sinceReturn.reason ? <> (“{q.sinceReturn.reason}”)</> : null}:{" "}
-                        {q.sinceReturn.changed.length ? `changed ${q.sinceReturn.changed.join(", ")}` : "no assumption changed"}; {moved(q.sinceReturn.totalMove)}.
+                        {q.sinceReturn.changed === null ? "what changed was not recorded (returned before the review history was kept)" : q.sinceReturn.changed.length ? `changed ${q.sinceReturn.changed.join(", ")}` : "no assumption changed"}; {moved(q.sinceReturn.totalMove)}.
                       </>
                     )}
                   </td>
