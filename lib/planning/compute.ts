@@ -10,8 +10,11 @@ import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type Po
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import type { ScenarioInputs } from "./schema";
+import { sponsorCheckLines } from "./sponsor-checks";
+import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
-export type StudyContext = { startDate: string; sponsorCap: string | null };
+/** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
+export type StudyContext = StudySettings;
 
 export class ScenarioError extends Error {
   readonly code = "scenario";
@@ -122,7 +125,9 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
     personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
     other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
-    caps: { total: study.sponsorCap },
+    caps: sponsorRulesOf(study),
+    ...(study.siteArrangement ? { siteArrangement: study.siteArrangement } : {}),
+    ...(study.faLocation ? { faLocation: study.faLocation } : {}),
   };
 }
 
@@ -181,6 +186,8 @@ export type ScenarioResults = {
   warnings: string[];
   /** Time to event only: the accrual the power calculation used, and the months the timeline takes to enrol. */
   accrual?: AccrualFit;
+  /** The study's settings the figures were computed under (settingsFingerprint), to tell when they no longer match. */
+  studySettings?: string;
 };
 
 export function computeScenario(i: ScenarioInputs, rates: RateBook, study: StudyContext): ScenarioResults {
@@ -205,6 +212,8 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     );
   }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
+  // The other sponsor checks that fail are warnings too (the total cap's own wording is kept above).
+  for (const c of sponsorCheckLines(ledger)) if (!c.ok && c.key !== "total") warnings.push(c.text);
   return {
     computedAt: new Date().toISOString(),
     edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },
@@ -218,6 +227,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
     warnings,
     ...(accrual ? { accrual } : {}),
+    studySettings: settingsFingerprint(study),
   };
 }
 
