@@ -395,3 +395,20 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
     scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, justificationCheck: detail.justificationCheck, rates })),
   };
 }
+
+export type HistoryEntry = { at: string; who: string | null; action: string; field: string | null; note: string | null };
+
+/** A scenario's history from the audit record: who changed what, and why its figures were recomputed. */
+export async function scenarioHistory(actor: Actor, id: number): Promise<HistoryEntry[]> {
+  await access(actor, id);
+  const rows = await getDb()
+    .selectFrom("audit_log as a")
+    .leftJoin("users as u", "u.id", "a.user_id")
+    .select(["a.at", "u.name", "a.action", "a.field", "a.new_value"])
+    .where("a.entity", "=", "scenario")
+    .where("a.entity_id", "=", String(id))
+    .orderBy("a.id", "desc")
+    .limit(50)
+    .execute();
+  return rows.map((r) => ({ at: r.at, who: r.name, action: r.action, field: r.field, note: r.action === "recompute" && r.field === "study-settings" ? r.new_value : r.field === "state" ? r.new_value : null }));
+}

@@ -10,7 +10,6 @@ import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type Po
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import type { ScenarioInputs } from "./schema";
-import { sponsorCheckLines } from "./sponsor-checks";
 import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
 /** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
@@ -212,8 +211,6 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     );
   }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
-  // The other sponsor checks that fail are warnings too (the total cap's own wording is kept above).
-  for (const c of sponsorCheckLines(ledger)) if (!c.ok && c.key !== "total") warnings.push(c.text);
   return {
     computedAt: new Date().toISOString(),
     edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },

@@ -7,7 +7,7 @@ import { ResultsPanel } from "@/components/scenario/results-panel";
 import { JustificationEditor, ScenarioActions } from "@/components/scenario/scenario-actions";
 import { ScenarioForm } from "@/components/scenario/scenario-form";
 import { getEdition } from "@/db/queries/rate-book";
-import { getScenario } from "@/db/queries/scenarios";
+import { getScenario, scenarioHistory } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { mismatchLines } from "@/lib/planning/justification-figures";
@@ -37,6 +37,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
   const editable = can(user, "scenario.edit", ctx) && (s.state === "draft" || s.state === "returned");
   const ids = { studyId: s.studyId, scenarioId: s.id, version: s.version };
   const edition = await getEdition(user, s.editionId);
+  const history = await scenarioHistory(user, s.id);
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -68,7 +69,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             review: can(user, "scenario.review", ctx) && s.state === "in-review",
             edit: can(user, "scenario.edit", ctx),
             delete: editable,
-            recompute: editable && s.newerEdition !== null,
+            recompute: editable && (s.newerEdition !== null || s.settingsChanged),
           }}
           />
         </div>
@@ -90,6 +91,20 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         </p>
       ) : null}
       {s.state === "cleared" ? <p className="notice">Cleared by the grants office and frozen. To change it, clone it into a new draft.</p> : null}
+      {s.recomputeNote ? (
+        <p className="notice" data-testid="recompute-note">
+          {s.recomputeNote}
+        </p>
+      ) : null}
+      {s.settingsChanged ? (
+        <p className="alert" data-testid="settings-changed">
+          {s.state === "cleared"
+            ? "The study's settings or sponsor rules have changed since this scenario was cleared; its figures follow the settings it was cleared under. Clone it to cost it under the new ones."
+            : s.state === "in-review"
+              ? "The study's settings or sponsor rules have changed since this scenario was submitted; the grants office reviews the figures as submitted. Once returned, saving it recomputes it under the new ones."
+              : "The study's settings or sponsor rules have changed since these figures were computed; save or recompute to cost it under the new ones."}
+        </p>
+      ) : null}
       {editable ? (
         <ScenarioForm
           studyId={s.studyId}
@@ -118,6 +133,18 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       <PlannerPanel scenarioId={s.id} effectName={s.results.effectName} capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null} />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
       <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} />
+      <details className="card" data-testid="scenario-history">
+        <summary className="cursor-pointer font-medium">History ({history.length})</summary>
+        <ul className="mt-2 flex flex-col gap-1 text-sm">
+          {history.map((h, i) => (
+            <li key={i}>
+              <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")}</span> · {h.who ?? "—"} · {h.action}
+              {h.field && h.field !== "study-settings" ? ` (${h.field})` : ""}
+              {h.note ? `: ${h.note}` : ""}
+            </li>
+          ))}
+        </ul>
+      </details>
     </div>
   );
 }
