@@ -123,7 +123,11 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
     personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
-    other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
+    other: i.other.map((o) =>
+      o.unitCost !== undefined && o.quantity !== undefined
+        ? { label: o.label, category: o.category, unitCost: o.unitCost, quantity: o.quantity, period: o.period ?? 1 }
+        : { label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate },
+    ),
     caps: sponsorRulesOf(study),
     ...(study.siteArrangement ? { siteArrangement: study.siteArrangement } : {}),
     ...(study.faLocation ? { faLocation: study.faLocation } : {}),
