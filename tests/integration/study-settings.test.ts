@@ -27,9 +27,9 @@ beforeAll(async () => {
   who.other = { id: otherId, role: "investigator" };
   ids.studyA = (await db.selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
   ids.studyB = await createStudy(who.other, { code: "OTHER-1", title: "Another invented study", sponsor: "Invented Fund", startDate: "2027-03-01" });
-  ids.draftB = await createScenario(who.other, ids.studyB, { name: "B draft", inputs: DEMO_SCENARIOS[0]!.inputs });
+  ids.draftB = await createScenario(who.other, ids.studyB!, { name: "B draft", inputs: DEMO_SCENARIOS[0]!.inputs });
   // The demo study's scenarios in every state: a draft, a returned one, one in review, a cleared one.
-  const scen = await db.selectFrom("scenarios").select(["id", "state"]).where("study_id", "=", ids.studyA).orderBy("id").execute();
+  const scen = await db.selectFrom("scenarios").select(["id", "state"]).where("study_id", "=", ids.studyA!).orderBy("id").execute();
   ids.draft = scen[0]!.id;
   ids.returned = scen[1]!.id;
   ids.review = scen[2]!.id;
@@ -68,11 +68,11 @@ async function formOf(actor: Actor, studyId: number, change: Partial<StudySettin
 describe("who may change a study's settings (DESIGN.md, roles: edit a study and its sponsor rules)", () => {
   it("the co-investigator, finance and the administrator are refused (403); another investigator is told the study is not there (404); nothing changes", async () => {
     const before = await snapshot();
-    for (const k of ["coi", "finance", "admin"]) await expect(getStudySettings(who[k]!, ids.studyA)).rejects.toMatchObject({ status: 403 });
-    await expect(getStudySettings(who.other!, ids.studyA)).rejects.toMatchObject({ status: 404 });
-    const form = await formOf(who.pi!, ids.studyA, { modular: true });
-    for (const k of ["coi", "finance", "admin"]) await expect(updateStudy(who[k]!, ids.studyA, form)).rejects.toMatchObject({ status: 403 });
-    await expect(updateStudy(who.other!, ids.studyA, form)).rejects.toMatchObject({ status: 404 });
+    for (const k of ["coi", "finance", "admin"]) await expect(getStudySettings(who[k]!, ids.studyA!)).rejects.toMatchObject({ status: 403 });
+    await expect(getStudySettings(who.other!, ids.studyA!)).rejects.toMatchObject({ status: 404 });
+    const form = await formOf(who.pi!, ids.studyA!, { modular: true });
+    for (const k of ["coi", "finance", "admin"]) await expect(updateStudy(who[k]!, ids.studyA!, form)).rejects.toMatchObject({ status: 403 });
+    await expect(updateStudy(who.other!, ids.studyA!, form)).rejects.toMatchObject({ status: 404 });
     expect(await snapshot()).toBe(before);
   });
 });
@@ -82,7 +82,7 @@ describe("the investigator changes the sponsor's rules of their own study", () =
   let kept: Record<string, string> = {};
   beforeAll(async () => {
     kept = { review: await results(ids.review!), cleared: await results(ids.cleared!) };
-    outcome = await updateStudy(who.pi!, ids.studyA, await formOf(who.pi!, ids.studyA, { title: "Walking after knee surgery, renamed", modular: true, priorApproval: true, faCapRate: "0.1", faExcluded: ["travel"] }));
+    outcome = await updateStudy(who.pi!, ids.studyA!, await formOf(who.pi!, ids.studyA!, { title: "Walking after knee surgery, renamed", modular: true, priorApproval: true, faCapRate: "0.1", faExcluded: ["travel"] }));
   });
 
   it("recomputes the draft and the returned scenario, and keeps the one in review and the cleared one as they were", async () => {
@@ -118,13 +118,13 @@ describe("the investigator changes the sponsor's rules of their own study", () =
       expect(s.recomputeNote).toBeNull();
       expect(s.settingsChanged).toBe(true);
     }
-    const study = await getDb().selectFrom("studies").select(["title", "sponsor_rules_json"]).where("id", "=", ids.studyA).executeTakeFirstOrThrow();
+    const study = await getDb().selectFrom("studies").select(["title", "sponsor_rules_json"]).where("id", "=", ids.studyA!).executeTakeFirstOrThrow();
     expect(study.title).toBe("Walking after knee surgery, renamed");
   });
 
   it("a save that changes nothing that costs recomputes nothing", async () => {
     const before = await results(ids.draft!);
-    const out = await updateStudy(who.pi!, ids.studyA, await formOf(who.pi!, ids.studyA, { sponsor: "Invented Foundation for Mobility" }));
+    const out = await updateStudy(who.pi!, ids.studyA!, await formOf(who.pi!, ids.studyA!, { sponsor: "Invented Foundation for Mobility" }));
     expect(out.recomputed).toEqual([]);
     expect(await results(ids.draft!)).toBe(before);
   });
@@ -132,16 +132,16 @@ describe("the investigator changes the sponsor's rules of their own study", () =
 
 describe("refusals save nothing", () => {
   it("settings opened before someone else's change: 409, nothing saved", async () => {
-    const stale = await formOf(who.pi!, ids.studyA, { modular: false });
-    await updateStudy(who.grants!, ids.studyA, await formOf(who.grants!, ids.studyA, { directPerYear: "400000" }));
+    const stale = await formOf(who.pi!, ids.studyA!, { modular: false });
+    await updateStudy(who.grants!, ids.studyA!, await formOf(who.grants!, ids.studyA!, { directPerYear: "400000" }));
     const before = await snapshot();
-    await expect(updateStudy(who.pi!, ids.studyA, stale)).rejects.toMatchObject({ status: 409 });
+    await expect(updateStudy(who.pi!, ids.studyA!, stale)).rejects.toMatchObject({ status: 409 });
     expect(await snapshot()).toBe(before);
   });
   it("a setting a draft cannot be costed under (off-campus where the edition has no off-campus rate): 422 naming the scenario, nothing saved", async () => {
     await getDb().updateTable("rate_book_editions").set({ fa_rate_off_campus: null }).execute();
     const before = await snapshot();
-    const err = await updateStudy(who.pi!, ids.studyA, await formOf(who.pi!, ids.studyA, { faLocation: "off-campus" })).catch((e: unknown) => e);
+    const err = await updateStudy(who.pi!, ids.studyA!, await formOf(who.pi!, ids.studyA!, { faLocation: "off-campus" })).catch((e: unknown) => e);
     expect(err).toMatchObject({ status: 422 });
     expect((err as Error).message).toMatch(/^Nothing was saved: the scenario ".+" cannot be costed with these settings\. .*off-campus F&A rate/);
     expect(await snapshot()).toBe(before);
@@ -151,7 +151,7 @@ describe("refusals save nothing", () => {
 
 describe("the grants office changes another investigator's study", () => {
   it("off-campus: the B draft is recomputed at 26% with the reason", async () => {
-    const out = await updateStudy(who.grants!, ids.studyB, await formOf(who.grants!, ids.studyB, { faLocation: "off-campus", siteArrangement: "subaward" }));
+    const out = await updateStudy(who.grants!, ids.studyB!, await formOf(who.grants!, ids.studyB!, { faLocation: "off-campus", siteArrangement: "subaward" }));
     expect(out.recomputed.map((r) => r.id)).toEqual([ids.draftB]);
     const s = await getScenario(who.other!, ids.draftB!);
     expect(s.results.ledger.faRate).toBe("0.26");
