@@ -13,6 +13,10 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBro
  * - Off-campus 26% (the demo agreement's invented off-campus rate): F&A 47,800 × 0.26 = 12,428.00, total $60,228.00.
  * - Modular (NIH Grants Policy Statement, modular applications): 47,800 ≤ 250,000 → ⌈47,800 / 25,000⌉ = 2 modules.
  * - The sponsor's F&A limit of 10% (below 26%): F&A 47,800 × 0.10 = 4,780.00, total $52,580.00.
+ * - A purchase at the demo's equipment threshold of $10,000 (2 CFR 200.1: "equals or exceeds" → equipment,
+ *   outside MTDC): direct 57,800, base 47,800, F&A 4,780.00, total $62,580.00. At $9,999.99 (supplies, in
+ *   MTDC): direct and base 57,799.99, F&A 5,779.999 → 5,780.00, total $63,579.99. At $10,000.01: equipment,
+ *   direct 57,800.01, F&A 4,780.00, total $62,580.01.
  */
 
 const baseUrl = inject("baseUrl");
@@ -108,4 +112,24 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("settings-changed"), /changed since this scenario was cleared; its figures follow the settings it was cleared under/);
     // The co-investigator of the demo study has no settings link on it, and the page says who may change them.
   }, 120_000);
+
+  it("a purchase on the draft is equipment at and above the rate book's threshold, supplies below it", async () => {
+    await pi.goto(draftUrl);
+    const other = pi.getByRole("group", { name: "Costs: other direct costs" });
+    await other.getByRole("button", { name: "Add an item" }).click();
+    await textField(pi, /^Item$/).fill("Force plate");
+    await textField(pi, "Unit cost").fill("10000");
+    await textField(pi, "Quantity").fill("1");
+    await waitForText(pi.getByTestId("result-total"), "$62,580.00");
+    await textField(pi, "Unit cost").fill("9999.99");
+    await waitForText(pi.getByTestId("result-total"), "$63,579.99");
+    await textField(pi, "Unit cost").fill("10000.01");
+    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    await pi.getByRole("button", { name: "Save changes" }).click();
+    await pi.getByText("Saved, with its results.").waitFor();
+    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    // The line says what it is: quantity × unit cost, equipment.
+    await pi.locator("summary", { hasText: /^Cost lines/ }).first().click();
+    await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).waitFor();
+  }, 180_000);
 });
