@@ -157,3 +157,16 @@ describe("the study's settings", () => {
     expect(ok).toMatchObject({ faCapRate: "0.08", faExcluded: ["travel"], modular: true, priorApproval: false });
   });
 });
+
+describe("the rate book's off-campus F&A rate (a setting the grants office may leave empty)", () => {
+  it("takes a percentage or a share, empty for none, and refuses more than 100% with the field's name", async () => {
+    const { SETTING_BY_KEY, settingSchema } = await import("@/lib/rate-book/fields");
+    const schema = settingSchema(SETTING_BY_KEY.get("faRateOffCampus")!);
+    expect(schema.parse("26%")).toBe("0.26");
+    expect(schema.parse("0.26")).toBe("0.26");
+    expect(schema.parse("")).toBeNull();
+    const bad = schema.safeParse("126%");
+    expect(bad.success).toBe(false);
+    expect(bad.error!.issues[0]!.message).toMatch(/^F&A rate, off-campus must be at most 100%/);
+  });
+});
