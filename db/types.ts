@@ -50,6 +50,12 @@ export interface StudiesTable {
   /** Decimal string in dollars (decimal.js), never a float. */
   sponsor_cap: string | null;
   start_date: string;
+  /** Months the sponsor funds; null when not set. */
+  project_months: ColumnType<number | null, number | null | undefined, number | null>;
+  site_arrangement: ColumnType<"internal" | "subaward" | "contract", "internal" | "subaward" | "contract" | undefined, "internal" | "subaward" | "contract">;
+  fa_location: ColumnType<"on-campus" | "off-campus", "on-campus" | "off-campus" | undefined, "on-campus" | "off-campus">;
+  /** lib/studies/rules.ts: the sponsor's rules beyond the total cap, as JSON. */
+  sponsor_rules_json: ColumnType<string, string | undefined, string>;
   owner_id: number;
   created_at: CreatedAt;
   updated_at: string;
@@ -88,6 +94,7 @@ export interface RateBookEditionsTable {
   published_by: number | null;
   published_at: string | null;
   fa_rate: string;
+  fa_rate_off_campus: ColumnType<string | null, string | null | undefined, string | null>;
   fa_base: "mtdc" | "tdc";
   mtdc_subaward_threshold: string;
   equipment_threshold: string;
@@ -145,6 +152,8 @@ export interface ScenariosTable {
   /** The figures an edited justification was written against (JSON list of { key, label, value }); null for a generated text. */
   justification_figures_json: ColumnType<string | null, string | null | undefined, string | null>;
   review_note: string | null;
+  /** Why the figures last changed without an edit of the scenario's own (a change of the study's rules); cleared by its next edit. */
+  recompute_note: ColumnType<string | null, string | null | undefined, string | null>;
   cloned_from: number | null;
   created_by: number;
   created_at: CreatedAt;

@@ -8,6 +8,7 @@ export const DEMO_RATES = {
   // Fiscal year 2027 begins on 1 July 2026 (a common academic fiscal year); in force from then.
   effective_date: "2026-07-01",
   fa_rate: "0.565",
+  fa_rate_off_campus: "0.26",
   fa_base: "mtdc" as const,
   mtdc_subaward_threshold: "50000.00",
   equipment_threshold: "10000.00",
@@ -98,6 +99,7 @@ export function demoRateBook(editionId: number): RateBook {
     label: r.label,
     effectiveDate: r.effective_date,
     faRate: r.fa_rate,
+    faRateOffCampus: r.fa_rate_off_campus,
     faBase: r.fa_base,
     mtdcSubawardThreshold: r.mtdc_subaward_threshold,
     equipmentThreshold: r.equipment_threshold,

@@ -6,6 +6,7 @@ import { formatRate } from "@/lib/format/rates";
 import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
 import { formatEffect } from "@/lib/power/effect-units";
+import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
@@ -31,6 +32,21 @@ function OneOffNote({ lines }: { lines: LedgerLine[] }) {
         ))}
       </ul>
     </div>
+  );
+}
+
+/** The sponsor's checks beyond the total cap (said above): direct costs per year, modular, prior approval, project length, F&A terms. */
+function SponsorChecks({ results }: { results: ScenarioResults }) {
+  const lines = sponsorCheckLines(results.ledger).filter((c) => c.key !== "total");
+  if (!lines.length) return null;
+  return (
+    <ul className="flex flex-col gap-1" data-testid="sponsor-checks" aria-label="The sponsor's checks">
+      {lines.map((c) => (
+        <li key={c.key} className={c.ok ? "notice" : "alert"} data-testid={`check-${c.key}`}>
+          <span className="font-medium">{c.label}:</span> {c.text}
+        </li>
+      ))}
+    </ul>
   );
 }
 
@@ -102,6 +118,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
             : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
         </p>
       ) : null}
+      <SponsorChecks results={results} />
       {/* Periods run down the rows, so the table keeps four columns however many periods there are and
           its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
       <ScrollRegion label="Cost by budget period" testId="budget-table">

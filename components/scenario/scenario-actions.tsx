@@ -160,7 +160,7 @@ export function ScenarioActions({
           </form>
         </>
       ) : null}
-      {can.recompute ? <ActionButton ids={ids} action={recomputeAction} label="Recompute with the new edition" /> : null}
+      {can.recompute ? <ActionButton ids={ids} action={recomputeAction} label="Recompute with the rate book in force and the study's settings" /> : null}
       {can.edit ? <ActionButton ids={ids} action={cloneAction} label="Clone" testId="clone" /> : null}
       {can.delete ? (
         <ActionButton

@@ -57,7 +57,7 @@ function toFormValues(i: ScenarioInputs) {
     recruitment: strings(i.recruitment),
     visits: i.visits.map(visitFormValues),
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
-    other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
+    other: i.other.map((o) => ({ ...strings(o), escalate: o.escalate ? "on" : "" })),
     uncertainty: {
       rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
       effectPrior: {
@@ -534,7 +534,10 @@ export function ScenarioForm({
               <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.label} label="Item" />
                 <Choice meta={f.category} label="Category" options={COST_OPTIONS} />
-                <Text meta={f.perPeriod} label="Per budget period" />
+                <Text meta={f.perPeriod} label="Per budget period" hint="Or, for a purchase, the three fields below" />
+                <Text meta={f.unitCost} label="Unit cost" hint="Supplies or equipment by the rate book's equipment threshold" />
+                <Text meta={f.quantity} label="Quantity" />
+                <Text meta={f.period} label="Bought in period" hint="1 unless later" />
                 <label className="flex items-center gap-1.5 pb-2 text-sm">
                   <input {...getInputProps(snapshotField(f.escalate), { type: "checkbox" })} key={f.escalate.key} /> escalate
                 </label>
@@ -544,7 +547,7 @@ export function ScenarioForm({
               </div>
             );
           })}
-          <button {...form.insert.getButtonProps({ name: i.other.name, defaultValue: { label: "", category: "supplies", perPeriod: "", escalate: "on" } })} className="btn btn-quiet self-start">
+          <button {...form.insert.getButtonProps({ name: i.other.name, defaultValue: { label: "", category: "supplies", perPeriod: "", unitCost: "", quantity: "", period: "", escalate: "on" } })} className="btn btn-quiet self-start">
             Add an item
           </button>
         </Section>

@@ -100,6 +100,7 @@ export function editionToRateBook(e: EditionDetail): RateBook {
     label: e.label,
     effectiveDate: e.effectiveDate,
     faRate: s.faRate!,
+    ...(s.faRateOffCampus ? { faRateOffCampus: s.faRateOffCampus } : {}),
     faBase: s.faBase as "mtdc" | "tdc",
     mtdcSubawardThreshold: s.mtdcSubawardThreshold!,
     equipmentThreshold: s.equipmentThreshold!,

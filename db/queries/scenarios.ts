@@ -18,6 +18,7 @@ import { recordReviewEvent } from "./review";
 import { editionForCosting, editionInForceLabel, editionToRateBook, getEdition } from "./rate-book";
 import { costingDate, isoDay } from "@/lib/rate-book/in-force";
 import { membershipOf } from "./studies";
+import { settingsFingerprint, settingsOfRow } from "@/lib/studies/rules";
 
 export type ScenarioSummary = {
   id: number;
@@ -40,6 +41,10 @@ export type ScenarioDetail = ScenarioSummary & {
   /** The text the scenario generates now, for "regenerate" to show before it replaces an edited one. */
   generatedJustification: string;
   reviewNote: string | null;
+  /** Why the figures last changed without an edit of the scenario's own (the study's rules changed). */
+  recomputeNote: string | null;
+  /** The study's settings changed since the figures were computed (an in-review or cleared scenario keeps its figures). */
+  settingsChanged: boolean;
   clonedFrom: number | null;
   study: { id: number; code: string; title: string; sponsorCap: string | null; startDate: string };
   membership: Membership;
@@ -55,7 +60,7 @@ async function loadRow(id: number) {
     .selectFrom("scenarios as s")
     .innerJoin("studies as st", "st.id", "s.study_id")
     .selectAll("s")
-    .select(["st.code as study_code", "st.title as study_title", "st.sponsor_cap", "st.start_date"])
+    .select(["st.code as study_code", "st.title as study_title", "st.sponsor_cap", "st.start_date", "st.project_months", "st.site_arrangement", "st.fa_location", "st.sponsor_rules_json"])
     .where("s.id", "=", id)
     .executeTakeFirst();
 }
@@ -103,8 +108,10 @@ async function access(actor: Actor, id: number, action: Parameters<typeof decide
 }
 
 function studyContext(row: NonNullable<Row>): StudyContext {
-  return { startDate: row.start_date, sponsorCap: row.sponsor_cap };
+  return settingsOfRow(row);
 }
+
+const STUDY_SETTINGS = ["start_date", "sponsor_cap", "project_months", "site_arrangement", "fa_location", "sponsor_rules_json"] as const;
 
 /** Computation errors are the user's to fix: say what, as a 422. */
 function compute(inputs: ScenarioInputs, rates: Parameters<typeof computeScenario>[1], study: StudyContext): ScenarioResults {
@@ -150,6 +157,8 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
     justificationCheck: checkJustification(row.justification !== null, parseFigures(row.justification_figures_json), justificationFigures(inputs, results, study)),
     generatedJustification: generated,
     reviewNote: row.review_note,
+    recomputeNote: row.recompute_note,
+    settingsChanged: results.studySettings !== undefined && results.studySettings !== settingsFingerprint(study),
     clonedFrom: row.cloned_from,
     study: { id: row.study_id, code: row.study_code, title: row.study_title, sponsorCap: row.sponsor_cap, startDate: row.start_date },
     membership,
@@ -161,19 +170,19 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
 export async function previewScenario(actor: Actor, studyId: number, inputs: ScenarioInputs): Promise<ScenarioResults> {
   const membership = await membershipOf(actor.id, studyId);
   enforce(decide(actor, "study.view", { membership }), "That study");
-  const study = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  const study = await getDb().selectFrom("studies").select(STUDY_SETTINGS).where("id", "=", studyId).executeTakeFirst();
   if (!study) throw notFound("That study was not found.");
   const edition = await editionForCosting(actor, study.start_date);
-  return compute(inputs, editionToRateBook(edition), { startDate: study.start_date, sponsorCap: study.sponsor_cap });
+  return compute(inputs, editionToRateBook(edition), settingsOfRow(study));
 }
 
 export async function createScenario(actor: Actor, studyId: number, input: { name: string; inputs: ScenarioInputs }, clonedFrom: number | null = null): Promise<number> {
   const membership = await membershipOf(actor.id, studyId);
-  const exists = await getDb().selectFrom("studies").select(["id", "start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  const exists = await getDb().selectFrom("studies").select(["id", ...STUDY_SETTINGS]).where("id", "=", studyId).executeTakeFirst();
   enforce(exists ? decide(actor, "scenario.edit", { membership, scenarioState: "draft" }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
   if (!exists) throw notFound("That study was not found.");
   const edition = await editionForCosting(actor, exists.start_date);
-  const results = compute(input.inputs, editionToRateBook(edition), { startDate: exists!.start_date, sponsorCap: exists!.sponsor_cap });
+  const results = compute(input.inputs, editionToRateBook(edition), settingsOfRow(exists));
   return getDb()
     .transaction()
     .execute(async (trx) => {
@@ -240,6 +249,8 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
           ...(patch.justification !== undefined ? { justification: patch.justification, justification_figures_json: figures } : {}),
           // Time to event: the derived accrual is stored with the inputs (lib/planning/accrual.ts).
           inputs_json: JSON.stringify(patch.inputs || patch.recompute ? withSettledAccrual(inputs) : inputs),
+          // The investigator's own recompute or edit supersedes a note of a recompute by a change of the study's rules.
+          ...(results ? { recompute_note: null } : {}),
           results_json,
           rate_edition_id: editionId,
           version: row.version + 1,
@@ -378,10 +389,10 @@ export async function scenarioMarkers(actor: Actor, studyId: number) {
 
 export async function studyContextFor(actor: Actor, studyId: number): Promise<{ study: StudyContext; rates: ReturnType<typeof editionToRateBook> }> {
   const membership = await membershipOf(actor.id, studyId);
-  const s = await getDb().selectFrom("studies").select(["start_date", "sponsor_cap"]).where("id", "=", studyId).executeTakeFirst();
+  const s = await getDb().selectFrom("studies").select(STUDY_SETTINGS).where("id", "=", studyId).executeTakeFirst();
   enforce(s ? decide(actor, "study.view", { membership }) : actor.role === "admin" ? "forbidden" : "not-found", "That study");
   const edition = await editionForCosting(actor, s!.start_date);
-  return { study: { startDate: s!.start_date, sponsorCap: s!.sponsor_cap }, rates: editionToRateBook(edition) };
+  return { study: settingsOfRow(s!), rates: editionToRateBook(edition) };
 }
 
 /** Everything a workbook needs for these scenarios of one study, each checked for workbook.download. */
@@ -419,4 +430,21 @@ export async function adoptPlannerAnswer(actor: Actor, id: number, answer: "chea
     draft = adoptCapBuys(ctx.inputs, ctx.results.capBuys, ctx.results.effectName);
   }
   return createScenario(actor, row.study_id, { name: draft.name.slice(0, 80), inputs: draft.inputs }, id);
+}
+
+export type HistoryEntry = { at: string; who: string | null; action: string; field: string | null; note: string | null };
+
+/** A scenario's history from the audit record: who changed what, and why its figures were recomputed. */
+export async function scenarioHistory(actor: Actor, id: number): Promise<HistoryEntry[]> {
+  await access(actor, id);
+  const rows = await getDb()
+    .selectFrom("audit_log as a")
+    .leftJoin("users as u", "u.id", "a.user_id")
+    .select(["a.at", "u.name", "a.action", "a.field", "a.new_value"])
+    .where("a.entity", "=", "scenario")
+    .where("a.entity_id", "=", String(id))
+    .orderBy("a.id", "desc")
+    .limit(50)
+    .execute();
+  return rows.map((r) => ({ at: r.at, who: r.name, action: r.action, field: r.field, note: r.action === "recompute" && r.field === "study-settings" ? r.new_value : r.field === "state" ? r.new_value : null }));
 }

@@ -18,6 +18,7 @@ export type Action =
   | "study.create"
   | "study.invite"
   | "study.view"
+  | "study.edit"
   | "scenario.view"
   | "scenario.edit"
   | "scenario.comment"
@@ -78,6 +79,14 @@ export function decide(actor: Actor, action: Action, ctx: Context = {}): Decisio
       return role === "investigator" ? "allow" : "forbidden";
     case "study.view":
       return studyVisibility(actor, ctx.membership ?? null);
+    case "study.edit": {
+      // The study and its sponsor rules: its investigator, or the grants office for any study.
+      if (role === "grants-officer") return "allow";
+      if (role !== "investigator") return "forbidden";
+      const seen = studyVisibility(actor, ctx.membership ?? null);
+      if (seen !== "allow") return seen;
+      return owner ? "allow" : "forbidden";
+    }
     case "scenario.view":
       return scenarioVisibility(actor, ctx);
     case "study.invite":

@@ -1,30 +1,28 @@
-/** The sponsor's limits checked against a ledger: the total cap, direct costs per year, and the modular budget. */
+/**
+ * The sponsor's limits checked against a ledger: the total cap, direct costs in any one year, the
+ * modular budget (modular.ts), the prior-approval test (prior-approval.ts) and the project's length.
+ */
 import { D, toCents, ZERO, type Money } from "./money";
-import type { CostInputs } from "./types";
+import { directLessConsortiumFa } from "./sponsor-base";
+import { modularCheck, type ModularCheck } from "./modular";
+import { priorApprovalCheck, type PriorApprovalCheck } from "./prior-approval";
+import { projectLengthCheck, type ProjectLengthCheck } from "./project-length";
+import type { SponsorRules } from "./types";
 
 export type CapChecks = {
   total: { cap: string; total: string; within: boolean; over: string } | null;
   directPerYear: { cap: string; byPeriod: { direct: string; within: boolean }[]; within: boolean } | null;
-  modular: { eligible: boolean; modulesByPeriod: number[]; requestedByPeriod: string[]; reason: string | null } | null;
+  modular: ModularCheck | null;
+  priorApproval: PriorApprovalCheck | null;
+  projectLength?: ProjectLengthCheck | null;
 };
 
-const MODULE = new D(25000);
-const MODULAR_MAX_PER_YEAR = new D(250000);
+export type CapCheckInput = { direct: Money[]; grand: Money; consortiumFa?: (Money | string)[]; studyMonths?: number };
 
-export function capChecks(caps: CostInputs["caps"], direct: Money[], grand: Money): CapChecks {
+export function capChecks(caps: SponsorRules | undefined, { direct, grand, consortiumFa, studyMonths }: CapCheckInput): CapChecks {
   const totalCap = caps?.total ? new D(caps.total) : null;
   const yearCap = caps?.directPerYear ? new D(caps.directPerYear) : null;
-  let modular: CapChecks["modular"] = null;
-  if (caps?.modular) {
-    const over = direct.some((d) => d.greaterThan(MODULAR_MAX_PER_YEAR));
-    const modules = direct.map((d) => d.div(MODULE).ceil().toNumber());
-    modular = {
-      eligible: !over,
-      modulesByPeriod: modules,
-      requestedByPeriod: modules.map((m) => toCents(MODULE.times(m))),
-      reason: over ? "Direct costs exceed $250,000 in at least one year, so a modular budget is not available; use a detailed budget." : null,
-    };
-  }
+  const tested = directLessConsortiumFa(direct, consortiumFa);
   return {
     total: totalCap ? { cap: toCents(totalCap), total: toCents(grand), within: grand.lessThanOrEqualTo(totalCap), over: toCents(D.max(ZERO, grand.minus(totalCap))) } : null,
     directPerYear: yearCap
@@ -34,6 +32,8 @@ export function capChecks(caps: CostInputs["caps"], direct: Money[], grand: Mone
           within: direct.every((d) => d.lessThanOrEqualTo(yearCap)),
         }
       : null,
-    modular,
+    modular: caps?.modular ? modularCheck(tested) : null,
+    priorApproval: caps?.priorApproval ? priorApprovalCheck(tested) : null,
+    projectLength: studyMonths === undefined ? null : projectLengthCheck(caps?.projectMonths, studyMonths),
   };
 }

@@ -10,8 +10,12 @@ import { MTDC_EXCLUDED, type CostCategory, type RateBook } from "./types";
 
 export type BaseLine<T> = { category: CostCategory; amounts: T[]; subawardId?: string };
 
+/** The rate book's base rules, and the categories on which the sponsor pays no F&A (fa-cap.ts). */
+type BaseRules = Pick<RateBook, "faBase" | "mtdcSubawardThreshold"> & { faExcluded?: readonly CostCategory[] };
+
 /** For each line, the part of each period's amount that counts in the base. */
-export function faBaseByLine<T>(lines: BaseLine<T>[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">, A: Arith<T>): T[][] {
+export function faBaseByLine<T>(lines: BaseLine<T>[], rates: BaseRules, A: Arith<T>): T[][] {
+  const sponsorExcluded = new Set(rates.faExcluded ?? []);
   const threshold = A.of(rates.mtdcSubawardThreshold);
   const used = new Map<string, T>();
   const periods = lines[0]?.amounts.length ?? 0;
@@ -20,7 +24,8 @@ export function faBaseByLine<T>(lines: BaseLine<T>[], rates: Pick<RateBook, "faB
   for (let p = 0; p < periods; p++) {
     lines.forEach((line, i) => {
       const amount = line.amounts[p] ?? A.zero;
-      if (rates.faBase === "tdc") out[i]!.push(amount);
+      if (sponsorExcluded.has(line.category)) out[i]!.push(A.zero);
+      else if (rates.faBase === "tdc") out[i]!.push(amount);
       else if (MTDC_EXCLUDED.has(line.category)) out[i]!.push(A.zero);
       else if (line.category === "subaward") {
         const id = line.subawardId ?? `line-${i}`;
@@ -35,7 +40,7 @@ export function faBaseByLine<T>(lines: BaseLine<T>[], rates: Pick<RateBook, "faB
 }
 
 /** Direct costs, the base, F&A (rounded per period) by period, for priced lines in the given arithmetic. */
-export function faByPeriod<T>(lines: BaseLine<T>[], periods: number, rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold" | "faRate">, A: Arith<T>) {
+export function faByPeriod<T>(lines: BaseLine<T>[], periods: number, rates: BaseRules & Pick<RateBook, "faRate">, A: Arith<T>) {
   const inBase = faBaseByLine(lines, rates, A);
   const direct: T[] = [];
   const base: T[] = [];
@@ -55,7 +60,7 @@ export function faByPeriod<T>(lines: BaseLine<T>[], periods: number, rates: Pick
 }
 
 /** The same on decimal strings, in and out (cents). */
-export function faBaseOfAmounts(lines: BaseLine<string>[], rates: Pick<RateBook, "faBase" | "mtdcSubawardThreshold">): string[][] {
+export function faBaseOfAmounts(lines: BaseLine<string>[], rates: BaseRules): string[][] {
   const parsed = lines.map((l) => ({ ...l, amounts: l.amounts.map((a) => exact.of(a)) }));
   return faBaseByLine<Money>(parsed, rates, exact).map((row) => row.map(toCents));
 }

@@ -10,6 +10,7 @@ import { computeTimeline, type Period, type TimelineResult } from "./timeline";
 import { approximate, exact } from "./arith";
 import { faByPeriod } from "./fa";
 import { capChecks, type CapChecks } from "./caps";
+import { faTerms, type FaTerms } from "./fa-cap";
 import { CostingError } from "./errors";
 import { escalationOf, LineList, priceLines, type LineSpec } from "./pricing";
 import type { LedgerLine, LineGroup } from "./lines";
@@ -23,13 +24,18 @@ import type { CostInputs, RateBook } from "./types";
 export { CostingError } from "./errors";
 export type { LedgerLine, LineGroup } from "./lines";
 export type { CapChecks } from "./caps";
+export type { FaTerms } from "./fa-cap";
 
 export type Ledger = {
   periods: Period[];
   lines: LedgerLine[];
-  byPeriod: { direct: string[]; base: string[]; fa: string[]; total: string[] };
-  totals: { direct: string; base: string; fa: string; total: string };
+  /** consortiumFa: the subaward sites' own indirect costs (missing = zeros); the sponsor's size tests subtract it. */
+  byPeriod: { direct: string[]; base: string[]; fa: string[]; total: string[]; consortiumFa?: string[] };
+  totals: { direct: string; base: string; fa: string; total: string; consortiumFa?: string };
+  /** The rate applied to the base: the agreement's rate for the study's location, limited by the sponsor (fa-cap.ts). */
   faRate: string;
+  /** Absent in ledgers computed before the study chose a location and the sponsor's F&A rule existed. */
+  faTerms?: FaTerms;
   faBase: "mtdc" | "tdc";
   mtdcSubawardThreshold: string;
   timeline: Pick<TimelineResult, "activationMonths" | "monthsToEnrol" | "firstEnrolmentMonth" | "lastEnrolmentMonth" | "lastVisitMonth" | "studyMonths">;
@@ -45,6 +51,7 @@ export type CostStructure = {
   specs: LineSpec[];
   counts: Ledger["counts"];
   sites: number;
+  fa: FaTerms;
 };
 
 /** Everything but the prices: the timeline, and each line's quantities, salaries and amounts by period. */
@@ -68,6 +75,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     tl,
     specs: lines.specs,
     sites: inputs.timeline.sites,
+    fa: faTerms(inputs, rates),
     counts: { evaluable, enrolled, screened, screenFailures: screened - enrolled, dropouts: enrolled - evaluable, sites: inputs.timeline.sites, visitsAttended: attendance.reduce((a, b) => a + b, 0) },
   };
 }
@@ -79,7 +87,7 @@ export function approximateTotals(structure: CostStructure, rates: RateBook): { 
   const { direct, fa } = faByPeriod(
     structure.specs.map((s, i) => ({ category: s.category, amounts: amounts[i]!, subawardId: s.subawardId })),
     P,
-    rates,
+    faRules(structure, rates),
     approximate,
   );
   const d = direct.reduce((a, b) => a + b, 0);
@@ -90,6 +98,11 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
   return priceStructure(buildCostStructure(inputs, rates), inputs, rates);
 }
 
+/** The rate book's base rules with the study's F&A terms: its rate, and the categories the sponsor pays no F&A on. */
+function faRules(structure: CostStructure, rates: RateBook) {
+  return { ...rates, faRate: structure.fa.rate, faExcluded: structure.fa.excluded };
+}
+
 export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs, "caps">, rates: RateBook): Ledger {
   const { tl, specs, counts } = structure;
   const P = tl.periods.length;
@@ -97,7 +110,7 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
   const { inBase, direct, base, fa } = faByPeriod(
     specs.map((s, i) => ({ category: s.category, amounts: amounts[i]!, subawardId: s.subawardId })),
     P,
-    rates,
+    faRules(structure, rates),
     exact,
   );
   // Money in the structure is as typed; the ledger shows it in cents.
@@ -118,12 +131,13 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
   const share = (part: Money) => (directTotal.isZero() ? "0.0000" : part.div(directTotal).toFixed(4));
   const ratio = (n: number) => (n > 0 ? toCents(cents(grand.div(n))) : "0.00");
 
-  return {
+  const ledger: Omit<Ledger, "caps"> = {
     periods: tl.periods,
     lines,
     byPeriod: { direct: direct.map(toCents), base: base.map(toCents), fa: fa.map(toCents), total: total.map(toCents) },
     totals: { direct: toCents(directTotal), base: toCents(sum(base)), fa: toCents(sum(fa)), total: toCents(grand) },
-    faRate: rates.faRate,
+    faRate: structure.fa.rate,
+    faTerms: structure.fa,
     faBase: rates.faBase,
     mtdcSubawardThreshold: rates.mtdcSubawardThreshold,
     timeline: {
@@ -142,6 +156,7 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
       fixedShare: share(directTotal.minus(perParticipant)),
       perParticipantShare: share(perParticipant),
     },
-    caps: capChecks(inputs.caps, direct, grand),
   };
+  // The sponsor's size tests count direct costs less the subawards' own indirects (byPeriod.consortiumFa; zeros when absent).
+  return { ...ledger, caps: capChecks(inputs.caps, { direct, grand, consortiumFa: ledger.byPeriod.consortiumFa, studyMonths: tl.studyMonths }) };
 }

@@ -35,7 +35,10 @@ export type RateBook = {
   editionId?: number;
   label?: string;
   effectiveDate?: string;
+  /** The rate agreement's on-campus rate. */
   faRate: string;
+  /** The rate agreement's off-campus rate (work done mainly in space the institution does not own or lease); absent in older editions. */
+  faRateOffCampus?: string;
   faBase: "mtdc" | "tdc";
   /** Each subaward's first this-many dollars, over the life of the award, count in MTDC ($50,000 since the 2024 revision; $25,000 before). */
   mtdcSubawardThreshold: string;
@@ -87,7 +90,12 @@ export type PersonnelLine = {
 
 export type OtherCost = {
   label: string;
+  /** For a purchased item (unitCost and quantity), "supplies" and "equipment" are decided by the equipment threshold (equipment.ts). */
   category: CostCategory;
+  /** A purchase: the cost of one unit, the number bought, and the budget period (1-based) it is bought in. */
+  unitCost?: string;
+  quantity?: number;
+  period?: number;
   /** Amounts by budget period; a shorter list leaves later periods at zero. */
   byPeriod?: string[];
   /** Or one amount per period, escalated from period 2 on when escalate is true. */
@@ -113,5 +121,30 @@ export type CostInputs = {
   other: OtherCost[];
   /** Overrides of the rate book's escalation: salaries (and fringe), other costs, or one category. */
   escalation?: { salaries?: string; costs?: string; byCategory?: Partial<Record<CostCategory, string>> };
-  caps?: { total?: string | null; directPerYear?: string | null; modular?: boolean };
+  caps?: SponsorRules;
+  /** The study's default site arrangement (undefined = internal): the costing of subaward and contract sites reads it. */
+  siteArrangement?: SiteArrangement;
+  /** Which of the rate agreement's F&A rates the study uses (undefined = on-campus). */
+  faLocation?: FaLocation;
+};
+
+export const SITE_ARRANGEMENTS = ["internal", "subaward", "contract"] as const;
+export type SiteArrangement = (typeof SITE_ARRANGEMENTS)[number];
+export const FA_LOCATIONS = ["on-campus", "off-campus"] as const;
+export type FaLocation = (typeof FA_LOCATIONS)[number];
+
+/** A study's sponsor rules (DESIGN.md, "Sponsor rules"): each is checked against the ledger, or shapes its F&A. */
+export type SponsorRules = {
+  /** Total cost over the whole award. */
+  total?: string | null;
+  /** Direct costs in any one budget period. */
+  directPerYear?: string | null;
+  /** The sponsor asks for a modular budget (modular.ts). */
+  modular?: boolean;
+  /** The sponsor applies the prior-approval test for large budgets (prior-approval.ts). */
+  priorApproval?: boolean;
+  /** The sponsor's limit on F&A (fa-cap.ts): at most this share of the base, and no F&A on these categories. */
+  faCap?: { rate?: string | null; excluded?: CostCategory[] } | null;
+  /** The project's length in months: the study's timeline should end within it. */
+  projectMonths?: number | null;
 };

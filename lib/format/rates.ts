@@ -9,8 +9,8 @@ export function formatRate(value: string | null | undefined): string {
 }
 
 export function formatSetting(kind: SettingKind, value: string | null): string {
-  if (value == null) return kind === "money-optional" ? "no cap" : "—";
-  if (kind === "rate") return formatRate(value);
+  if (value == null) return kind === "money-optional" ? "no cap" : kind === "rate-optional" ? "none" : "—";
+  if (kind === "rate" || kind === "rate-optional") return formatRate(value);
   if (kind === "money" || kind === "money-optional") return formatMoney(value);
   if (kind === "base") return value === "mtdc" ? "MTDC" : "Total direct costs";
   return value;

@@ -10,8 +10,10 @@ import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type Po
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import type { ScenarioInputs } from "./schema";
+import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
-export type StudyContext = { startDate: string; sponsorCap: string | null };
+/** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
+export type StudyContext = StudySettings;
 
 export class ScenarioError extends Error {
   readonly code = "scenario";
@@ -122,8 +124,14 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
     personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
-    other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
-    caps: { total: study.sponsorCap },
+    other: i.other.map((o) =>
+      o.unitCost !== undefined && o.quantity !== undefined
+        ? { label: o.label, category: o.category, unitCost: o.unitCost, quantity: o.quantity, period: o.period ?? 1 }
+        : { label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate },
+    ),
+    caps: sponsorRulesOf(study),
+    ...(study.siteArrangement ? { siteArrangement: study.siteArrangement } : {}),
+    ...(study.faLocation ? { faLocation: study.faLocation } : {}),
   };
 }
 
@@ -182,6 +190,8 @@ export type ScenarioResults = {
   warnings: string[];
   /** Time to event only: the accrual the power calculation used, and the months the timeline takes to enrol. */
   accrual?: AccrualFit;
+  /** The study's settings the figures were computed under (settingsFingerprint), to tell when they no longer match. */
+  studySettings?: string;
 };
 
 export function computeScenario(i: ScenarioInputs, rates: RateBook, study: StudyContext): ScenarioResults {
@@ -219,6 +229,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
     warnings,
     ...(accrual ? { accrual } : {}),
+    studySettings: settingsFingerprint(study),
   };
 }
 

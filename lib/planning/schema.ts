@@ -132,12 +132,26 @@ export const personnelSchema = z.object({
   follows: z.enum(["study", "enrolment"], { error: "Effort runs: choose the whole study, or recruitment and visits." }).default("study"),
 });
 
-export const otherCostSchema = z.object({
-  label: text("Item", 80, "Name the item.").min(2, "Name the item."),
-  category: z.enum(COST_CATEGORIES, { error: "Choose a category." }),
-  perPeriod: money("Per budget period"),
-  escalate: z.preprocess((v) => v === "on" || v === true || v === "true", z.boolean()).default(false),
-});
+/**
+ * An other direct cost: an amount per budget period, or a purchase (a unit cost, a quantity and the
+ * period it is bought in), which the rate book's equipment threshold makes equipment or supplies.
+ */
+export const otherCostSchema = z
+  .object({
+    label: text("Item", 80, "Name the item.").min(2, "Name the item."),
+    category: z.enum(COST_CATEGORIES, { error: "Choose a category." }),
+    perPeriod: opt(money("Per budget period")),
+    unitCost: opt(money("Unit cost")),
+    quantity: opt(n("Quantity").int("Quantity: a whole number, like 2.").min(1, "Quantity: at least 1.").max(10000, "Quantity: at most 10,000.")),
+    period: opt(n("Bought in period").int("Bought in period: a whole number, like 1.").min(1, "Bought in period: 1 or later.").max(20, "Bought in period: at most 20.")),
+    escalate: z.preprocess((v) => v === "on" || v === true || v === "true", z.boolean()).default(false),
+  })
+  .superRefine((o, ctx) => {
+    const purchase = o.unitCost !== undefined || o.quantity !== undefined;
+    if (purchase && o.unitCost === undefined) ctx.addIssue({ code: "custom", path: ["unitCost"], message: "Unit cost: enter the cost of one unit, like 12500, or clear the quantity." });
+    if (purchase && o.quantity === undefined) ctx.addIssue({ code: "custom", path: ["quantity"], message: "Quantity: enter how many are bought, like 2, or clear the unit cost." });
+    if (!purchase && o.perPeriod === undefined) ctx.addIssue({ code: "custom", path: ["perPeriod"], message: "Per budget period: enter dollars, like 1200; or, for a purchase, a unit cost and a quantity." });
+  });
 
 export const pilotSchema = z.object({
   kind: z.enum(["sd", "proportion"]),

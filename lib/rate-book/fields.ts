@@ -6,7 +6,7 @@ import { z } from "zod";
 import { percentToShare } from "@/lib/format/percent-input";
 import "@/lib/validation/plain-messages";
 
-export type SettingKind = "rate" | "money" | "money-optional" | "count" | "base";
+export type SettingKind = "rate" | "rate-optional" | "money" | "money-optional" | "count" | "base";
 
 export type SettingField = {
   key: SettingKey;
@@ -18,6 +18,7 @@ export type SettingField = {
 
 export const SETTING_KEYS = [
   "faRate",
+  "faRateOffCampus",
   "faBase",
   "mtdcSubawardThreshold",
   "equipmentThreshold",
@@ -36,7 +37,8 @@ export const SETTING_KEYS = [
 export type SettingKey = (typeof SETTING_KEYS)[number];
 
 export const SETTING_FIELDS: SettingField[] = [
-  { key: "faRate", column: "fa_rate", label: "F&A rate", kind: "rate", hint: "From the negotiated rate agreement, e.g. 56.5%" },
+  { key: "faRate", column: "fa_rate", label: "F&A rate", kind: "rate", hint: "On-campus, from the negotiated rate agreement, e.g. 56.5%" },
+  { key: "faRateOffCampus", column: "fa_rate_off_campus", label: "F&A rate, off-campus", kind: "rate-optional", hint: "From the same agreement, e.g. 26%; a study whose work is mainly off campus chooses it. Empty for none." },
   { key: "faBase", column: "fa_base", label: "F&A base", kind: "base", hint: "mtdc (modified total direct costs) or tdc (total direct costs)" },
   { key: "mtdcSubawardThreshold", column: "mtdc_subaward_threshold", label: "MTDC subaward threshold", kind: "money", hint: "Each subaward's first dollars in the base: 50000 (2024 revision) or 25000" },
   { key: "equipmentThreshold", column: "equipment_threshold", label: "Equipment threshold", kind: "money", hint: "Unit cost from which an item is equipment: 10000 (2024 revision) or 5000" },
@@ -87,6 +89,11 @@ export function settingSchema(field: SettingField): z.ZodType<string | null> {
   switch (field.kind) {
     case "rate":
       return rateText(field.label) as z.ZodType<string>;
+    case "rate-optional":
+      return z
+        .union([z.string(), z.number(), z.null()], { error: `${field.label}: enter a percentage like 26%, or leave it empty for none.` })
+        .transform((v) => (v === null || String(v).trim() === "" ? null : String(v)))
+        .pipe(z.union([z.null(), rateText(field.label) as unknown as z.ZodType<string, string>])) as z.ZodType<string | null>;
     case "money":
       return decimalText(field.label, 1e11, 2) as z.ZodType<string>;
     case "money-optional":

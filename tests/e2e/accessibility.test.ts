@@ -128,7 +128,7 @@ describe("accessibility (axe-core: serious and critical fail, moderate printed)"
     const seeded = await scenarioIds(setup, 1);
     for (const w of WIDTHS) {
       const page = await pageAs("pi@demo.test", w);
-      for (const path of ["/studies", "/studies/1", `/studies/${designs.studyId}`, "/studies/1/calculator", "/studies/1/scenarios/new"]) await visit(page, path, `investigator ${path} @${w}`);
+      for (const path of ["/studies", "/studies/1", "/studies/1/settings", `/studies/${designs.studyId}`, "/studies/1/calculator", "/studies/1/scenarios/new"]) await visit(page, path, `investigator ${path} @${w}`);
       const all = [...seeded.map((s) => ({ ...s, studyId: 1 })), ...designs.scenarios.map((s) => ({ ...s, studyId: designs.studyId, state: "draft" }))];
       for (const s of all) {
         const where = `investigator scenario “${s.name}” @${w}`;

@@ -90,7 +90,7 @@ describe("keyboard only", () => {
   it("the investigator's pages: studies, study, scenario, calculator, comparison", async () => {
     const page = await pageAs("pi@demo.test");
     const p = await firstScenarioPath(page);
-    for (const path of ["/studies", p.study, p.scenario, `${p.study}/calculator`, `${p.study}/compare?ids=${p.ids.join("&ids=")}`, "/rate-book"]) await checkPage(page, path);
+    for (const path of ["/studies", p.study, p.scenario, `${p.study}/settings`, `${p.study}/calculator`, `${p.study}/compare?ids=${p.ids.join("&ids=")}`, "/rate-book"]) await checkPage(page, path);
   });
 
   it("the grants officer's rate book pages and the admin's pages", async () => {

@@ -139,7 +139,16 @@ const onScenario = (k: string, study: "A" | "B", extra: () => Promise<Record<str
   ...(await extra()),
 });
 
+/** The study settings form as the page posts it, with the study's current version (updated_at) and one rule changed. */
+const settingsForm = (k: "studyA" | "studyB") => async () => {
+  const s = await getDb().selectFrom("studies").select(["id", "title", "sponsor", "start_date", "updated_at", "sponsor_rules_json"]).where("id", "=", ids[k]!).executeTakeFirstOrThrow();
+  const modular = (JSON.parse(s.sponsor_rules_json) as { modular?: boolean }).modular === true;
+  return { studyId: s.id, updatedAt: s.updated_at, title: s.title, sponsor: s.sponsor, startDate: s.start_date, siteArrangement: "internal", faLocation: "on-campus", modular: !modular };
+};
+
 const CASES: Case[] = [
+  { name: "change study A's settings and sponsor rules", call: (f) => studies.updateStudySettingsAction(null, f), form: settingsForm("studyA"), row: "edit a study and its sponsor rules", study: "A" },
+  { name: "change study B's settings and sponsor rules", call: (f) => studies.updateStudySettingsAction(null, f), form: settingsForm("studyB"), row: "edit a study and its sponsor rules", study: "B" },
   { name: "create an account", call: (f) => accounts.createAccountAction(null, f), form: async () => ({ email: "matrix@demo.test", name: "Matrix Person", role: "finance" }), row: "manage accounts, see the outbox", study: null },
   { name: "send a password reset link", call: (f) => accounts.sendResetAction(null, f), form: async () => ({ userId: ids.spare }), row: "manage accounts, see the outbox", study: null },
   { name: "change a role", call: (f) => accounts.changeRoleAction(null, f), form: async () => ({ userId: ids.spare, role: "co-investigator" }), row: "manage accounts, see the outbox", study: null },

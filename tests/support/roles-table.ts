@@ -16,7 +16,7 @@ const rows = new Map(
 );
 const COLUMN = { admin: 0, investigator: 1, "co-investigator": 2, "grants-officer": 3, finance: 4 } as const;
 export type Role = keyof typeof COLUMN;
-export type Row = "manage accounts, see the outbox" | "see a study and its scenarios" | "create, edit, clone, delete a draft scenario" | "comment on a scenario" | "submit a scenario for review, withdraw a submission" | "return or clear a scenario" | "edit and publish rate-book editions, import a rate sheet" | "read the rate book" | "download a workbook" | "create a study, invite members" | "use the power calculator" | "see the review queue" | "see the list of in-review and cleared scenarios" | "change one's own password and e-mail settings";
+export type Row = "manage accounts, see the outbox" | "see a study and its scenarios" | "create, edit, clone, delete a draft scenario" | "comment on a scenario" | "submit a scenario for review, withdraw a submission" | "return or clear a scenario" | "edit and publish rate-book editions, import a rate sheet" | "read the rate book" | "download a workbook" | "create a study, invite members" | "use the power calculator" | "see the review queue" | "see the list of in-review and cleared scenarios" | "change one's own password and e-mail settings" | "edit a study and its sponsor rules";
 
 const NOT_STUDY_BOUND: Row[] = ["read the rate book", "edit and publish rate-book editions, import a rate sheet", "manage accounts, see the outbox", "use the power calculator", "see the review queue", "see the list of in-review and cleared scenarios", "change one's own password and e-mail settings"];
 

@@ -28,6 +28,7 @@ const ACTIONS_OF_ROW: Record<string, Action[]> = {
   "submit a scenario for review, withdraw a submission": ["scenario.submit"],
   "return or clear a scenario": ["scenario.review"],
   "edit and publish rate-book editions, import a rate sheet": ["ratebook.edit"],
+  "edit a study and its sponsor rules": ["study.edit"],
   "see the review queue": ["review.queue"],
   "see the list of in-review and cleared scenarios": ["review.list"],
   "read the rate book": ["ratebook.read"],

@@ -24,7 +24,15 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
     ws.getCell(`D${r}`).value = safeText(source);
     r++;
   };
-  add("F&A rate", Number(s.rates.faRate), RATE, name(ctx, "FA_RATE"));
+  // The rate the ledger applied: the agreement's on- or off-campus rate, limited by the sponsor where it says so (lib/costing/fa-cap.ts).
+  const terms = s.results.ledger.faTerms;
+  add(
+    "F&A rate",
+    Number(s.results.ledger.faRate),
+    RATE,
+    name(ctx, "FA_RATE"),
+    terms ? `${edition}, ${terms.location} rate${terms.limitedTo ? `, limited by the sponsor to this rate` : ""}${terms.excluded.length ? `; no F&A on ${terms.excluded.join(", ")}` : ""}` : edition,
+  );
   add("F&A base", s.rates.faBase === "mtdc" ? "MTDC" : "Total direct costs");
   add("MTDC subaward threshold (per subaward, life of award)", Number(s.rates.mtdcSubawardThreshold), MONEY, name(ctx, "MTDC_THRESHOLD"));
   add("Escalation, salaries (per year from period 2)", Number(s.rates.escalation.salaries), RATE, name(ctx, "ESC_SALARIES"));

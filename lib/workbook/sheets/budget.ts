@@ -86,7 +86,8 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   for (let p = 0; p < P; p++) {
     const c = col(first + p);
     ws.getCell(rows.direct, first + p).value = fx(subtotalList.map((x) => `${c}${x}`).join("+"));
-    ws.getCell(rows.base, first + p).value = fx(s.rates.faBase === "tdc" ? `${c}${rows.direct}` : [flagRange(c), ...subawardBaseRows.map((x) => `${c}${x}`)].filter(Boolean).join("+") || "0");
+    // A sponsor that pays no F&A on some categories: the base is the flagged lines, whatever the rate book's base.
+    ws.getCell(rows.base, first + p).value = fx(s.rates.faBase === "tdc" && !ledger.faTerms?.excluded.length ? `${c}${rows.direct}` : [flagRange(c), ...subawardBaseRows.map((x) => `${c}${x}`)].filter(Boolean).join("+") || "0");
     ws.getCell(rows.fa, first + p).value = fx(`ROUND(${c}${rows.base}*${name(ctx, "FA_RATE")},2)`);
     ws.getCell(rows.total, first + p).value = fx(`${c}${rows.direct}+${c}${rows.fa}`);
   }

@@ -6,6 +6,7 @@ import { effectUnit } from "@/lib/power/effect-units";
 import { col, quoteSheet, safeText } from "../text";
 import { CAUTION, finish, fx, MONEY, title, type Ctx, type WorkbookScenario, type WorkbookStudy } from "../cells";
 import type { BudgetLayout } from "./budget";
+import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 
 export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layout: BudgetLayout, ws: ExcelJS.Worksheet): void {
   title(ws, `${study.code}: ${s.name}`, CAUTION);
@@ -60,6 +61,19 @@ export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario
   ws.getCell(`B${r}`).numFmt = MONEY;
   if (cap) {
     ws.getCell(`C${r}`).value = fx(`IF(${layout.grandTotal}<=B${r},"within the cap","over the cap")`);
+  }
+  // The sponsor's other checks, as the scenario page says them (lib/planning/sponsor-checks.ts).
+  const checks = sponsorCheckLines(l).filter((c) => c.key !== "total");
+  if (checks.length) {
+    r += 2;
+    ws.getCell(`A${r}`).value = "Sponsor's checks";
+    ws.getCell(`A${r}`).font = { bold: true };
+    for (const c of checks) {
+      r++;
+      ws.getCell(`A${r}`).value = c.label;
+      ws.getCell(`B${r}`).value = c.ok ? "meets it" : "does not meet it";
+      ws.getCell(`C${r}`).value = safeText(c.text);
+    }
   }
   r += 2;
   ws.getCell(`A${r}`).value = `Generated on ${ctx.generatedOn} by Delta Ledger.`;

@@ -121,7 +121,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                       action={updateSettingAction}
                       hidden={{ editionId: e.id, version: e.version, key: f.key }}
                       fields={[
-                        f.kind === "rate"
+                        f.kind === "rate" || f.kind === "rate-optional"
                           ? { name: "value", label: `New value for ${f.label}`, defaultValue: formatRate(e.settings[f.key]), help: RATE_HELP }
                           : { name: "value", label: `New value for ${f.label}`, defaultValue: e.settings[f.key] },
                       ]}

@@ -23,6 +23,7 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
   const scenarios = await listScenarios(user, study.id);
   const mayInvite = can(user, "study.invite", { membership: study.membership });
   const mayCreate = can(user, "scenario.edit", { membership: study.membership, scenarioState: "draft" });
+  const mayEditStudy = can(user, "study.edit", { membership: study.membership });
   const STATE = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
   return (
     <div className="flex flex-col gap-6">
@@ -31,7 +32,14 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
       </nav>
       <header>
         <p className="num text-sm text-ink-soft">{study.code}</p>
-        <h1>{study.title}</h1>
+        <div className="flex flex-wrap items-baseline justify-between gap-3">
+          <h1>{study.title}</h1>
+          {mayEditStudy ? (
+            <Link className="btn btn-quiet" href={`/studies/${study.id}/settings`} data-testid="study-settings-link">
+              Study settings and sponsor rules
+            </Link>
+          ) : null}
+        </div>
         <dl className="mt-3 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4">
           <div>
             <dt className="text-ink-soft">Sponsor</dt>

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { scenarioContext, scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
 import { givenPrior } from "@/lib/planning/schema";
 import { outlookCached, type Outlook } from "@/lib/server/planning-cache";
+import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 import { HttpError } from "@/lib/auth/errors";
 import { formatMoney } from "@/lib/format/money";
 import { designName } from "@/lib/power/design-names";
@@ -101,6 +102,19 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       { label: "Total", values: (s) => formatMoney(s.results.ledger.totals.total, { cents: false }) },
     ],
   };
+  // The sponsor's checks, one row per check any of the scenarios has (older ledgers may lack some).
+  const checkLabels = new Map<string, string>();
+  for (const s of list) for (const c of sponsorCheckLines(s.results.ledger)) checkLabels.set(c.key, c.label);
+  const checks: { section: string; rows: Row[] } = {
+    section: "Sponsor's checks",
+    rows: [...checkLabels].map(([key, label]) => ({
+      label,
+      values: (s: ScenarioDetail) => {
+        const c = sponsorCheckLines(s.results.ledger).find((x) => x.key === key);
+        return c ? `${c.ok ? "Meets it." : "Does not meet it."} ${c.text}` : "—";
+      },
+    })),
+  };
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -136,7 +150,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
               ))}
             </tr>
           </thead>
-          {[...ROWS, likely, money].map((sec) => (
+          {[...ROWS, likely, money, ...(checks.rows.length ? [checks] : [])].map((sec) => (
             <tbody key={sec.section}>
               <tr>
                 <th scope="rowgroup" colSpan={list!.length + 1} className="bg-paper">

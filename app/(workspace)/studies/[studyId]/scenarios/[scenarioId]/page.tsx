@@ -11,7 +11,7 @@ import { JustificationEditor, ScenarioActions } from "@/components/scenario/scen
 import { ScenarioForm } from "@/components/scenario/scenario-form";
 import { getEdition } from "@/db/queries/rate-book";
 import { reviewHistory } from "@/db/queries/review";
-import { getScenario } from "@/db/queries/scenarios";
+import { getScenario, scenarioHistory } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { mismatchLines } from "@/lib/planning/justification-figures";
@@ -22,6 +22,10 @@ import { loadOr404 } from "@/lib/server/page";
 import { notFound } from "next/navigation";
 
 export const metadata: Metadata = { title: "Scenario" };
+
+/** The audit record's words, as a person says them. */
+const CHANGE_WORDS: Record<string, string> = { create: "created", update: "changed", recompute: "recomputed", regenerate: "regenerated", delete: "deleted", clone: "cloned", submit: "submitted", return: "returned", clear: "cleared", withdraw: "withdrew" };
+const FIELD_WORDS: Record<string, string> = { inputs: "the assumptions", name: "the name", justification: "the justification", rate_edition_id: "with another rate-book edition", state: "the review state" };
 
 const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
 
@@ -45,6 +49,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
   const edition = await getEdition(user, s.editionId);
   const history = await reviewHistory(user, s.id);
   const mayDraft = can(user, "scenario.edit", { membership: s.membership, scenarioState: "draft" });
+  const changes = await scenarioHistory(user, s.id);
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -77,7 +82,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             review: can(user, "scenario.review", ctx) && s.state === "in-review",
             edit: can(user, "scenario.edit", ctx),
             delete: editable,
-            recompute: editable && s.newerEdition !== null,
+            recompute: editable && (s.newerEdition !== null || s.settingsChanged),
           }}
           />
         </div>
@@ -104,6 +109,20 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         </p>
       ) : null}
       {s.state === "cleared" ? <p className="notice">Cleared by the grants office and frozen. To change it, clone it into a new draft.</p> : null}
+      {s.recomputeNote ? (
+        <p className="notice" data-testid="recompute-note">
+          {s.recomputeNote}
+        </p>
+      ) : null}
+      {s.settingsChanged ? (
+        <p className="alert" data-testid="settings-changed">
+          {s.state === "cleared"
+            ? "The study's settings or sponsor rules have changed since this scenario was cleared; its figures follow the settings it was cleared under. Clone it to cost it under the new ones."
+            : s.state === "in-review"
+              ? "The study's settings or sponsor rules have changed since this scenario was submitted; the grants office reviews the figures as submitted. Once returned, saving it recomputes it under the new ones."
+              : "The study's settings or sponsor rules have changed since these figures were computed; save or recompute to cost it under the new ones."}
+        </p>
+      ) : null}
       {editable ? (
         <ScenarioForm
           studyId={s.studyId}
@@ -156,6 +175,18 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
       <ReviewHistory entries={history} state={s.state} />
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
+      <details className="card" data-testid="scenario-history">
+        <summary className="cursor-pointer font-medium">Every change ({changes.length})</summary>
+        <ul className="mt-2 flex flex-col gap-1 text-sm">
+          {changes.map((h, i) => (
+            <li key={i}>
+              <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")}</span> · {h.who ?? "—"} · {CHANGE_WORDS[h.action] ?? h.action}
+              {h.field && h.field !== "study-settings" ? ` ${FIELD_WORDS[h.field] ?? h.field}` : ""}
+              {h.note ? `: ${h.note}` : ""}
+            </li>
+          ))}
+        </ul>
+      </details>
     </div>
   );
 }

@@ -1,0 +1,135 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+
+/**
+ * The study's settings and sponsor rules through the pages: the investigator edits their study and a
+ * rule and reads the draft recomputed with the reason; the grants officer edits another investigator's
+ * study; a cleared scenario keeps its figures and says the settings changed since.
+ *
+ * Worked by hand for the plan in `fillHandWorkedScenario` (journey-investigator.test.ts has the lines;
+ * demo rate book "2027 rates", scripts/demo-data.ts): direct costs $47,800.00, all in MTDC, one budget period.
+ * - On-campus 56.5%: F&A 27,007.00, total $74,807.00.
+ * - Off-campus 26% (the demo agreement's invented off-campus rate): F&A 47,800 × 0.26 = 12,428.00, total $60,228.00.
+ * - Modular (NIH Grants Policy Statement, modular applications): 47,800 ≤ 250,000 → ⌈47,800 / 25,000⌉ = 2 modules.
+ * - The sponsor's F&A limit of 10% (below 26%): F&A 47,800 × 0.10 = 4,780.00, total $52,580.00.
+ * - A purchase at the demo's equipment threshold of $10,000 (2 CFR 200.1: "equals or exceeds" → equipment,
+ *   outside MTDC): direct 57,800, base 47,800, F&A 4,780.00, total $62,580.00. At $9,999.99 (supplies, in
+ *   MTDC): direct and base 57,799.99, F&A 5,779.999 → 5,780.00, total $63,579.99. At $10,000.01: equipment,
+ *   direct 57,800.01, F&A 4,780.00, total $62,580.01.
+ */
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let pi: Page;
+let grants: Page;
+
+const STUDY = { code: "JRN-RULES", title: "Stride Again: an invented gait-retraining trial", sponsor: "Invented Institute for Joint Health", cap: "100000", start: "2028-01-01" };
+let studyUrl = "";
+let draftUrl = "";
+let clearedUrl = "";
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(pi, baseUrl, "pi@demo.test");
+  await signIn(grants, baseUrl, "grants@demo.test");
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function newScenario(name: string): Promise<string> {
+  await pi.goto(studyUrl);
+  await pi.getByRole("link", { name: "New scenario" }).click();
+  await pi.waitForURL(/\/scenarios\/new$/);
+  await fillHandWorkedScenario(pi, name);
+  await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+  await pi.getByRole("button", { name: "Create scenario" }).click();
+  await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
+  return pi.url().replace(/\?.*$/, "");
+}
+
+describe("the study's settings and sponsor rules", () => {
+  it("sets up: a draft, and a scenario the grants office clears", async () => {
+    studyUrl = await createStudyFromPage(pi, baseUrl, STUDY);
+    draftUrl = await newScenario("Draft under the rules");
+    clearedUrl = await newScenario("Cleared before the change");
+    await clickAndConfirm(pi, pi.getByTestId("submit-review"));
+    await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    await grants.goto(clearedUrl);
+    await clickAndConfirm(grants, grants.getByTestId("clear-review"));
+    await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+  }, 300_000);
+
+  it("the investigator edits the study and a rule; a refused save keeps what was typed; the draft is recomputed with the reason", async () => {
+    await pi.goto(studyUrl);
+    await pi.getByTestId("study-settings-link").click();
+    await pi.waitForURL(/\/settings$/);
+    await textField(pi, "Title").fill(`${STUDY.title}, revised`);
+    await pi.getByRole("combobox", { name: /^F&A rate from the rate agreement/ }).selectOption({ label: "Off-campus (26%)" });
+    await pi.getByRole("checkbox", { name: "Modular budget" }).check();
+    // A limit above 100% is refused with the field's name and what to type; the title typed stays.
+    await textField(pi, "F&A limit").fill("150");
+    await pi.getByRole("button", { name: "Save the study's settings" }).click();
+    await pi.getByRole("alert").filter({ hasText: "F&A limit: at most 100%; type the % sign, like 10%." }).first().waitFor();
+    expect(await textField(pi, "Title").inputValue()).toBe(`${STUDY.title}, revised`);
+    await textField(pi, "F&A limit").fill("");
+    await pi.getByRole("button", { name: "Save the study's settings" }).click();
+    await waitForText(pi.getByTestId("settings-saved"), "Saved. One draft or returned scenario was recomputed under the new settings; 1 in review or cleared kept its figures.");
+    await screenshotWidths(pi, "study-settings-saved");
+
+    await pi.goto(draftUrl);
+    await waitForText(pi.getByTestId("result-total"), "$60,228.00");
+    await waitForText(pi.getByTestId("recompute-note"), /because .+ changed the study's settings: F&A rate on-campus → off-campus; modular budget off → on\.$/);
+    await waitForText(pi.getByTestId("check-modular"), /request 2 modules in period 1 \(2 in all\)/);
+    await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%.");
+    await pi.getByTestId("scenario-history").locator("summary").click();
+    await waitForText(pi.getByTestId("scenario-history"), /recompute: Recomputed on .+ F&A rate on-campus → off-campus/);
+    await pi.goto(studyUrl);
+    await pi.getByRole("heading", { level: 1, name: `${STUDY.title}, revised` }).waitFor();
+  }, 240_000);
+
+  it("the grants officer edits another investigator's study: the sponsor's F&A limit of 10%", async () => {
+    await grants.goto(studyUrl);
+    await grants.getByTestId("study-settings-link").click();
+    await grants.waitForURL(/\/settings$/);
+    await textField(grants, "F&A limit").fill("10%");
+    await grants.getByRole("button", { name: "Save the study's settings" }).click();
+    await waitForText(grants.getByTestId("settings-saved"), /^Saved\. One draft or returned scenario was recomputed/);
+    await pi.goto(draftUrl);
+    await waitForText(pi.getByTestId("result-total"), "$52,580.00");
+    await waitForText(pi.getByTestId("recompute-note"), /changed the study's settings: F&A limit none → 10%\.$/);
+    await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%; limited by the sponsor to 10%.");
+  }, 240_000);
+
+  it("a cleared scenario is untouched, and says the settings changed since", async () => {
+    await pi.goto(clearedUrl);
+    await pi.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    expect(await pi.getByTestId("recompute-note").count()).toBe(0);
+    await waitForText(pi.getByTestId("settings-changed"), /changed since this scenario was cleared; its figures follow the settings it was cleared under/);
+    // The co-investigator of the demo study has no settings link on it, and the page says who may change them.
+  }, 120_000);
+
+  it("a purchase on the draft is equipment at and above the rate book's threshold, supplies below it", async () => {
+    await pi.goto(draftUrl);
+    const other = pi.getByRole("group", { name: "Costs: other direct costs" });
+    await other.getByRole("button", { name: "Add an item" }).click();
+    await textField(pi, /^Item$/).fill("Force plate");
+    await textField(pi, "Unit cost").fill("10000");
+    await textField(pi, "Quantity").fill("1");
+    await waitForText(pi.getByTestId("result-total"), "$62,580.00");
+    await textField(pi, "Unit cost").fill("9999.99");
+    await waitForText(pi.getByTestId("result-total"), "$63,579.99");
+    await textField(pi, "Unit cost").fill("10000.01");
+    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    await pi.getByRole("button", { name: "Save changes" }).click();
+    await pi.getByText("Saved, with its results.").waitFor();
+    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    // The line says what it is: quantity × unit cost, equipment.
+    await pi.locator("summary", { hasText: /^Cost lines/ }).first().click();
+    await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).waitFor();
+  }, 180_000);
+});
