@@ -35,7 +35,7 @@ export type ForecastOptions = {
   rateShape?: number;
   /** Or the coefficient of variation of sites' rates (shape = 1 / CV²), as the page asks for it. */
   rateSpread?: number;
-  /** Months of the funded period, from the study's start, when the study has one. */
+  /** Months of the funded period, from the study's start; the study's project length when not given. */
   fundedMonths?: number | null;
 };
 
@@ -50,7 +50,7 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
   // period, early enough that the last visits and close-out still fit in it.
   const deadlines = {
     enrolment: tl.lastEnrolmentMonth + 1,
-    funded: options.fundedMonths ? options.fundedMonths - lastVisitOffset - closeout : null,
+    funded: (options.fundedMonths ?? study.projectMonths) ? (options.fundedMonths ?? study.projectMonths)! - lastVisitOffset - closeout : null,
   };
   const forecast = forecastRecruitment({
     target: results.power.funnel.total.enrolled,

@@ -141,9 +141,10 @@ const onScenario = (k: string, study: "A" | "B", extra: () => Promise<Record<str
 
 /** The study settings form as the page posts it, with the study's current version (updated_at) and one rule changed. */
 const settingsForm = (k: "studyA" | "studyB") => async () => {
-  const s = await getDb().selectFrom("studies").select(["id", "title", "sponsor", "start_date", "updated_at", "sponsor_rules_json"]).where("id", "=", ids[k]!).executeTakeFirstOrThrow();
+  const s = await getDb().selectFrom("studies").select(["id", "title", "sponsor", "sponsor_cap", "start_date", "updated_at", "sponsor_rules_json"]).where("id", "=", ids[k]!).executeTakeFirstOrThrow();
   const modular = (JSON.parse(s.sponsor_rules_json) as { modular?: boolean }).modular === true;
-  return { studyId: s.id, updatedAt: s.updated_at, title: s.title, sponsor: s.sponsor, startDate: s.start_date, siteArrangement: "internal", faLocation: "on-campus", modular: !modular };
+  // The cap is posted as it is, as the page does: an empty cap would remove it (and what the cap buys with it).
+  return { studyId: s.id, updatedAt: s.updated_at, title: s.title, sponsor: s.sponsor, sponsorCap: s.sponsor_cap ?? "", startDate: s.start_date, siteArrangement: "internal", faLocation: "on-campus", modular: !modular };
 };
 
 const CASES: Case[] = [
