@@ -10,8 +10,8 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { createAccount } from "@/db/queries/accounts";
-import { addComment } from "@/db/queries/comments";
-import { acceptInvitation, inviteToStudy } from "@/db/queries/invitations";
+import { addComment, updateComment } from "@/db/queries/comments";
+import { acceptInvitation, inviteToStudy, removeMember, revokeInvitation } from "@/db/queries/invitations";
 import { createScenario } from "@/db/queries/scenarios";
 import { createStudy } from "@/db/queries/studies";
 import { DEMO_SCENARIOS } from "@/scripts/demo-data";
@@ -171,6 +171,39 @@ describe("authorization matrix from DESIGN.md's roles table", () => {
         expect(res.status, `${a.key}: ${res.status === cs.ok ? "" : await res.text()}`).toBe(cs.ok);
         if (cs.effect) await cs.effect();
         else expect(await snapshot(), `${a.key}'s read changed the database`).toBe(before);
+      }
+    });
+  }
+});
+
+describe("the data layer re-checks rights behind the routes (DESIGN.md: every action re-checks the user's right to the record)", () => {
+  const actorOf = async (a: Actor) => {
+    const u = await getDb().selectFrom("users").select(["id", "role"]).where("email", "=", `${a.key}@demo.test`).executeTakeFirstOrThrow();
+    return { id: u.id, role: u.role as Actor["role"] };
+  };
+  const refusal = async (call: Promise<unknown>) => {
+    try {
+      await call;
+      return "allow";
+    } catch (err) {
+      return (err as { status?: number }).status ?? String(err);
+    }
+  };
+  // Called directly, as a future route or action might: a missing check in the query function shows here
+  // even while the route in front of it refuses first.
+  const CALLS = [
+    { name: "removeMember", row: "create a study, invite members" as Row, state: undefined, call: (actor: { id: number; role: Actor["role"] }) => removeMember(actor, ids.studyA!, ids.member!) },
+    { name: "revokeInvitation", row: "create a study, invite members" as Row, state: undefined, call: (actor: { id: number; role: Actor["role"] }) => revokeInvitation(actor, ids.studyA!, ids.invitation!) },
+    { name: "updateComment (resolve)", row: "comment on a scenario" as Row, state: "in-review", call: (actor: { id: number; role: Actor["role"] }) => updateComment(actor, ids.reviewA!, ids.comment!, { resolved: false }) },
+  ];
+  for (const c of CALLS) {
+    it(`${c.name} refuses every role the table refuses, changing nothing`, async () => {
+      for (const a of ACTORS) {
+        const want = expected(a.role, a.memberOfA, c.row, c.state);
+        if (want === "allow") continue;
+        const before = await snapshot();
+        expect(await refusal(c.call(await actorOf(a))), a.key).toBe(want);
+        expect(await snapshot(), a.key).toBe(before);
       }
     });
   }
