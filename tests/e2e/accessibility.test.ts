@@ -10,21 +10,16 @@ import { createHash } from "node:crypto";
 import Database from "better-sqlite3";
 import fs from "node:fs";
 import { createRequire } from "node:module";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, pageAs as signedInPage } from "./browser";
+import { useBrowser, pageAs as signedInPage } from "./browser";
 import { ensureDesignStudy } from "./design-study";
 
 const baseUrl = inject("baseUrl");
 const axeSource = fs.readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
 const WIDTHS = [1280, 390] as const;
 let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 type Violation = { id: string; impact: string | null; help: string; nodes: { target: string[] }[] };
 

@@ -1,6 +1,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { chromium, type Browser, type BrowserContext, type Dialog, type Locator, type Page } from "playwright-core";
+import { afterAll, beforeAll } from "vitest";
 
 export const SCREENSHOT_DIR = path.resolve(import.meta.dirname, "../../test-results/screenshots");
 
@@ -16,6 +17,22 @@ function watch(context: BrowserContext): BrowserContext {
     pageErrors.push(`${e.error().message}${page ? ` (on ${page.url()})` : ""}`);
   });
   return context;
+}
+
+/**
+ * The file's browser: launched before the file's own beforeAll (call this above it, so that hook can
+ * open pages) and closed after all its tests and its own afterAll. Every browser test file used to
+ * repeat this launch and close.
+ */
+export function useBrowser(set: (browser: Browser) => void): void {
+  let launched: Browser | undefined;
+  beforeAll(async () => {
+    launched = await launchBrowser();
+    set(launched);
+  });
+  afterAll(async () => {
+    await launched?.close();
+  });
 }
 
 /** Debian's Chromium through playwright-core; the flags keep it off this machine's closed network. */

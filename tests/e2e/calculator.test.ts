@@ -2,20 +2,17 @@
  * The power calculator as a person uses it: a question first (the participants needed, the power
  * reached, or the smallest effect detectable), then only the fields that answer needs.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let page: Page;
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
   await signIn(page, baseUrl, "coi@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 const text = async (id: string) => (await page.getByTestId(id).textContent())?.trim();

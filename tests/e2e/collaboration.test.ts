@@ -1,20 +1,17 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let coi: Page;
 let pi: Page;
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   coi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(coi, baseUrl, "coi@demo.test");
   await signIn(pi, baseUrl, "pi@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 async function openScenario(page: Page, name: string) {

@@ -2,18 +2,13 @@
  * Actions that cannot be undone ask first, in the page (not a browser dialog), and say afterwards
  * what happened: deleting a draft scenario (kept, then deleted), and deactivating an account.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { launchBrowser, pageAs, screenshot } from "./browser";
+import { useBrowser, pageAs, screenshot } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 describe("confirm before it cannot be undone, then say what happened", () => {
   // Generous limits: each test signs in, builds pages and waits for several server round trips on a shared machine.

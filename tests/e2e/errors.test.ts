@@ -6,7 +6,7 @@ import fs from "node:fs";
 import Database from "better-sqlite3";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -14,8 +14,8 @@ const serverLog = inject("serverLog");
 let browser: Browser;
 let brokenId = 0;
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   // A scenario whose stored results cannot be read: a copy of the first with its results damaged.
   const db = new Database(databasePath);
   const cols = (db.prepare("pragma table_info(scenarios)").all() as { name: string }[]).map((c) => c.name).filter((c) => c !== "id");
@@ -28,7 +28,6 @@ afterAll(async () => {
   const db = new Database(databasePath);
   db.prepare("delete from scenarios where id = ?").run(brokenId);
   db.close();
-  await browser?.close();
 });
 
 describe("error pages", () => {

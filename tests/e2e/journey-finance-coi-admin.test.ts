@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { readMailbox } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
 
 /**
  * Finance, the co-investigator and the administrator, each through the pages. Where a journey needs
@@ -13,12 +13,7 @@ const baseUrl = inject("baseUrl");
 const mailboxDir = inject("mailboxDir");
 let browser: Browser;
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 async function createScenario(pi: Page, studyUrl: string, name: string): Promise<string> {
   await pi.goto(studyUrl);

@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
 
 /**
  * The grants officer's review, with the investigator's side in a second browser context: return with a
@@ -18,15 +18,12 @@ const STUDY = { code: "JRN-GO", title: "Steady Steps: an invented balance-traini
 const NAME = "For the grants office";
 const REASON = "Attrition of 20% is low for a 6-month follow-up in this population; plan for 36% as in the invented audit.";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(pi, baseUrl, "pi@demo.test");
   await signIn(grants, baseUrl, "grants@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 describe("the grants officer's journey", () => {

@@ -1,10 +1,10 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { readMailbox } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
 
 /**
  * The investigator's whole job through the pages, as a person clicks and types: a study, scenarios
@@ -28,6 +28,7 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBro
  *   month 10, 11 months. Screening 250 × 85 = 21,250; failures 50 × 25 = 1,250; incentives 200 × 40 = 8,000;
  *   start-up 12,000; annual 3,500; monitoring ⌈4 × 10/12⌉ = 4 × 1,800 = 7,200; close-out 2,500. Direct 55,700;
  *   F&A 31,470.50; total $87,170.50.
+ * - Sensitivity, attrition 10% and 30%: worked beside the check below.
  * - Pilot CSV (two arms of five: 1–5 and 2–6): pooled SD √2.5 = 1.5811; upper one-sided 80% limit
  *   s·√(8/χ²₀.₂,₈) = 2.0866 (Browne 1995; χ² quantile from scipy.stats.chi2). Mean difference 1 with SD 1.5811
  *   → d = 0.6325 → 41 per arm (R power.t.test(delta = 1, sd = 1.5811, power = 0.8): n = 40.2; scipy nct: power 0.8076 at 41).
@@ -43,13 +44,10 @@ let firstScenarioUrl = "";
 const STUDY = { code: "JRN-PI", title: "Stride Together: an invented community walking trial", sponsor: "Invented Charitable Trust", cap: "100000", start: "2028-01-01" };
 const INVITEE = "rowan.achterberg@demo.test";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(pi, baseUrl, "pi@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 describe("the investigator's journey", () => {
@@ -97,6 +95,15 @@ describe("the investigator's journey", () => {
     );
     // Fewer sites cost less here (each adds fees), so one site is the cheapest way to reach the target power.
     await waitForText(pi.getByTestId("cheapest"), /^1 site, \$74,807(\.00)?, 8 months to enrol\.$/);
+    // The sensitivity table's attrition row, worked by hand like the scenario above (n stays 64: attrition moves
+    // only the funnel). 10%: 64 / 0.9 → 72 enrolled, 90 screened per arm (144 / 180), 8 months; screening 15,300,
+    // failures 900, incentives 5,760, start-up 12,000, annual 3,500, monitoring 3 × 1,800, close-out 2,500: direct
+    // 45,360, F&A 25,628.40, total $70,988.40. 30%: 64 / 0.7 → 92 enrolled, 115 screened per arm (184 / 230),
+    // 10 months; 19,550 + 1,150 + 7,360 + 12,000 + 3,500 + 4 × 1,800 + 2,500 = 53,260, F&A 30,091.90, total $83,351.90.
+    await waitForText(
+      pi.getByTestId("sensitivity-table").getByRole("row").filter({ hasText: /^Attrition/ }),
+      /^Attrition\s*10%\s*n 64 · \$70,988 · 8 mo\s*20%\s*n 64 · \$74,807 · 8 mo\s*30%\s*n 64 · \$83,352 · 10 mo$/,
+    );
     // The justification quotes the same figures.
     const text = await pi.getByLabel("Justification text").inputValue();
     expect(text).toContain("64 and 64 evaluable participants per arm (128 in total)");

@@ -4,21 +4,18 @@
  * workbook with the warning beside the text, then regenerate (preview first) and see the warning go.
  * Works on a clone of a demo scenario, renamed, so the other browser tests' scenarios are left alone.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import path from "node:path";
-import { launchBrowser, screenshot, SCREENSHOT_DIR, signIn } from "./browser";
+import { useBrowser, screenshot, SCREENSHOT_DIR, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let page: Page;
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(page, baseUrl, "pi@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 /** The justification card alone (and the header's buttons), small enough to read in a screenshot. */

@@ -2,18 +2,13 @@
  * Keyboard-only use of every main page: Tab reaches every visible control in turn, each focused control
  * shows a focus ring, focus never sticks (no trap), and the main tasks finish without a mouse.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, pageAs as signedInPage } from "./browser";
+import { useBrowser, pageAs as signedInPage } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 const pageAs = (email: string) => signedInPage(browser, baseUrl, email);
 

@@ -2,18 +2,13 @@
  * Messages in the page's words, beside the field they are about: an empty invitation e-mail, and an
  * empty scenario name (once "Invalid input: expected string, received undefined").
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser, Locator } from "playwright-core";
-import { launchBrowser, pageAs, screenshot } from "./browser";
+import { useBrowser, pageAs, screenshot } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 /** The text a screen reader reads with the field: its hint and its message. */
 const describedText = (field: Locator) =>

@@ -9,13 +9,13 @@ import fs from "node:fs";
 import path from "node:path";
 import Database from "better-sqlite3";
 import Decimal from "decimal.js";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Locator, Page } from "playwright-core";
 import { formatMoney } from "@/lib/format/money";
 import { computeScenario } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { demoRateBook } from "@/scripts/demo-data";
-import { launchBrowser, pageAs, screenshot, SCREENSHOT_DIR } from "./browser";
+import { useBrowser, pageAs, screenshot, SCREENSHOT_DIR } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -26,6 +26,7 @@ let url = "";
 let originalTotal = "";
 let stored: { inputs: ScenarioInputs; editionId: number; startDate: string; sponsorCap: string | null };
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
   const db = new Database(databasePath, { readonly: true });
   const row = db
@@ -33,11 +34,7 @@ beforeAll(async () => {
     .get(SCENARIO) as { inputs_json: string; rate_edition_id: number; start_date: string; sponsor_cap: string | null };
   db.close();
   stored = { inputs: JSON.parse(row.inputs_json), editionId: row.rate_edition_id, startDate: row.start_date, sponsorCap: row.sponsor_cap };
-  browser = await launchBrowser();
   page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 /** The engine's total for the stored inputs with the given changes to the visits, as the page shows it. */

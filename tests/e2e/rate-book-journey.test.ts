@@ -8,20 +8,19 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, pageAs, screenshot } from "./browser";
+import { useBrowser, pageAs, screenshot } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let page: Page;
 let tmp = "";
 let scheduledUrl = "";
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await pageAs(browser, baseUrl, "grants@demo.test", { width: 1440 });
   tmp = fs.mkdtempSync(path.join(os.tmpdir(), "rate-sheet-"));
 });
 afterAll(async () => {
-  await browser?.close();
   fs.rmSync(tmp, { recursive: true, force: true });
 });
 

@@ -1,17 +1,14 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let page: Page;
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
   await signIn(page, baseUrl, "grants@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 describe("the grants officer keeps the rate book", () => {

@@ -4,9 +4,9 @@
  * scenario's ICC edited; a share typed as a percentage; a refused submit that shows its messages beside
  * the fields and in a summary at the top whose links move focus, keeping what was typed.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn, waitForText } from "./browser";
 
 const baseUrl = inject("baseUrl");
 /** Each journey saves twice and waits for previews and curves; on a loaded two-core machine that can pass a minute. */
@@ -17,8 +17,8 @@ let page: Page;
 let demoUrl = "";
 let studyUrl = "";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   page.setDefaultTimeout(60_000);
   await signIn(page, baseUrl, "pi@demo.test");
@@ -35,9 +35,6 @@ beforeAll(async () => {
   await page.waitForURL(/\/studies\/\d+$/);
   studyUrl = page.url();
 }, 120_000);
-afterAll(async () => {
-  await browser?.close();
-});
 
 const field = (label: string) => page.getByLabel(label, { exact: true });
 const designSelect = () => page.getByRole("combobox", { name: "Design", exact: true });
@@ -52,6 +49,13 @@ async function openStudy(url = studyUrl) {
 async function waitForSaved(version: number) {
   await page.getByText(`· version ${version}`).waitFor();
   await page.getByTestId("results-status").filter({ hasText: `Saved as version ${version}.` }).waitFor();
+}
+
+/** A cluster design's preview: k + k clusters of m̄, k·m̄ evaluable per arm, costed at 2k sites. */
+async function clusterFigures(k: number, m: number) {
+  await waitForText(page.getByTestId("result-n"), `${k * m} + ${k * m}`, 60_000);
+  await waitForText(page.getByTestId("result-n").locator("xpath=following-sibling::dd[1]"), `${k} + ${k} clusters`);
+  await waitForText(page.getByTestId("result-months"), new RegExp(`^${2 * k} · \\d+$`));
 }
 
 /** New scenario → choose the design → fill → Create; then one edit saved. */
@@ -133,8 +137,16 @@ describe("a scenario of each design, created and edited from the form", () => {
         expect(await field("Sites").count()).toBe(0);
         await field("Mean cluster size").fill("22");
         await field("ICC").fill("0.15");
+        // The template's difference 5 with SD 12 (d = 0.4167), m̄ 22, ICC .15 (design effect 4.15), power .8: 19 clusters
+        // per arm (scipy noncentral t on 36 df: power 0.8205 at 19, 0.7984 at 18; see CLUSTER_MEANS_ORACLE), 418
+        // participants per arm, costed at 38 sites.
+        await clusterFigures(19, 22);
       },
-      () => field("ICC").fill("0.06"),
+      async () => {
+        await field("ICC").fill("0.06");
+        // ICC .06 (design effect 2.26): 11 clusters (power 0.8263; 0.7850 at 10).
+        await clusterFigures(11, 22);
+      },
     );
     await screenshot(page, "scenario-form-cluster");
   }, JOURNEY);
@@ -148,8 +160,15 @@ describe("a scenario of each design, created and edited from the form", () => {
         await field("Target intervention proportion (p2)").fill("0.45");
         await field("Mean cluster size").fill("22");
         await field("ICC").fill("0.15");
+        // p .3 vs .45, m̄ 22, ICC .15, power .8: 31 clusters per arm (R's power.prop.test formula at k·m̄/DE:
+        // 0.8048 at 31, 0.7918 at 30; see CLUSTER_PROPORTIONS_ORACLE).
+        await clusterFigures(31, 22);
       },
-      () => field("ICC").fill("0.06"),
+      async () => {
+        await field("ICC").fill("0.06");
+        // ICC .06: 17 clusters (0.8076 at 17, 0.7834 at 16).
+        await clusterFigures(17, 22);
+      },
     );
   }, JOURNEY);
 

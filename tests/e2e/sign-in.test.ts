@@ -1,15 +1,10 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 const ACCOUNTS = [
   { email: "admin@demo.test", role: "Administrator", nav: ["Rate book", "Accounts", "Outbox"], landing: "/admin/accounts", heading: "Accounts" },

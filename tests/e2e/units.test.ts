@@ -2,9 +2,9 @@
  * Effects are shown with their unit and designs by name (the study and comparison pages, the reach
  * curve), and the budget table's total is in view without scrolling on a desktop screen (issue 13).
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { launchBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn } from "./browser";
 import { ensureDesignStudy } from "./design-study";
 
 const baseUrl = inject("baseUrl");
@@ -12,15 +12,12 @@ let browser: Browser;
 let studyId: number;
 const RAW_IDS = /\b(two-means|one-mean|two-proportions|cluster-two-means|cluster-two-proportions|time-to-event)\b/;
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   const setup = await browser.newPage({ viewport: { width: 1280, height: 900 } });
   await signIn(setup, baseUrl, "pi@demo.test");
   studyId = (await ensureDesignStudy(setup, baseUrl)).studyId;
   await setup.close();
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 async function investigator(width: number): Promise<Page> {
@@ -106,7 +103,10 @@ describe("effects with their units, designs by name", () => {
     expect(note).toMatch(/Dots: the study's scenarios measured as the intervention proportion p2 \(Walking goal reached; Clinics, goal reached\)/);
     expect(note).toMatch(/Not drawn, because their effects are in another unit.*Means, two arms \(standardized effect d\).*Time to first fall \(hazard ratio HR\)/);
     expect(await page.getByText("MDES (p2)").count()).toBeGreaterThan(0);
-    expect(await page.getByTestId("result-mdes").textContent()).toMatch(/^p2 = 0\.\d{3} \(proportion\)$/);
+    // p1 .4, p2 .55, alpha .05 two-sided, power .9 (tests/e2e/design-study.ts): 231 per arm, and at 231 the
+    // detectable p2 is 0.54994 (R's power.prop.test formula, evaluated with scipy: power 0.90021 at 231, 0.89896 at 230).
+    expect(await page.getByTestId("result-n").textContent()).toBe("231 + 231");
+    expect(await page.getByTestId("result-mdes").textContent()).toBe("p2 = 0.550 (proportion)");
     await page.close();
   });
 });

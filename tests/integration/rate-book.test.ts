@@ -8,6 +8,7 @@ import * as importsRoute from "@/app/api/v1/rate-book/editions/[editionId]/impor
 import * as templateRoute from "@/app/api/v1/rate-book/template/route";
 import { commitImport, editionToRateBook, getEdition, getImport, latestPublishedEdition } from "@/db/queries/rate-book";
 import { computeLedger } from "@/lib/costing";
+import { demoRateBook } from "@/scripts/demo-data";
 import { SMALL_STUDY } from "../fixtures/rate-books";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { ORIGIN, params, request, signInAs } from "../support/http";
@@ -58,9 +59,16 @@ describe("reading the rate book", () => {
   });
   it("the seeded edition prices a ledger", async () => {
     const e = (await latestPublishedEdition(grants()))!;
-    const ledger = computeLedger(SMALL_STUDY.visits.length ? { ...SMALL_STUDY, visits: [{ name: "Baseline", month: 0, procedures: [{ code: "LAB-PANEL" }] }] } : SMALL_STUDY, editionToRateBook(e));
-    expect(Number(ledger.totals.total)).toBeGreaterThan(0);
+    // SMALL_STUDY's timeline (worked by hand in tests/unit/costing.test.ts: 84 screened in period 1, 116 in
+    // period 2; 42 enrolled in period 1, 58 in period 2) priced at the seeded rates, 3% escalation from period 2:
+    // screening 84 × $85 = 7,140.00 and 116 × $87.55 = 10,155.80; the metabolic panel at the baseline visit
+    // 42 × $38 = 1,596.00 and 58 × $39.14 = 2,270.12.
+    const ledger = computeLedger({ ...SMALL_STUDY, visits: [{ name: "Baseline", month: 0, procedures: [{ code: "LAB-PANEL" }] }] }, editionToRateBook(e));
+    expect(ledger.lines.find((l) => l.key === "screening")!.amounts).toEqual(["7140.00", "10155.80"]);
+    expect(ledger.lines.find((l) => l.key.startsWith("procedure:LAB-PANEL@"))!.amounts).toEqual(["1596.00", "2270.12"]);
     expect(ledger.faRate).toBe("0.565");
+    // And the stored edition prices exactly as the seed's own rate book does.
+    expect(ledger.totals).toEqual(computeLedger({ ...SMALL_STUDY, visits: [{ name: "Baseline", month: 0, procedures: [{ code: "LAB-PANEL" }] }] }, demoRateBook(e.id)).totals);
   });
 });
 

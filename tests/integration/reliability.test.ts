@@ -5,7 +5,17 @@ import os from "node:os";
 import path from "node:path";
 import SQLite from "better-sqlite3";
 import { Migrator } from "kysely";
+import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { closeDb, getDb } from "@/db";
+import { enqueueMail } from "@/db/queries/outbox";
+import { createScenario } from "@/db/queries/scenarios";
+import { commentMail } from "@/lib/mail/templates";
+import * as sessionRoute from "@/app/api/v1/session/route";
+import * as scenariosRoute from "@/app/api/v1/studies/[studyId]/scenarios/route";
+import { DEMO_SCENARIOS } from "@/scripts/demo-data";
+import { readMailbox, startMailServer } from "@/scripts/mail-server";
+import { params, request, signInAs } from "../support/http";
 import { backupDatabase, integrityOk, restoreDatabase } from "@/db/backup";
 import { createKysely } from "@/db/connection";
 import { migrateToLatest } from "@/db/migrate";
@@ -79,12 +89,12 @@ describe("backups", () => {
 });
 
 describe("crash safety", () => {
-  it("a writer killed with SIGKILL at random moments leaves a sound database with whole scenarios only", async () => {
+  it("a writer creating scenarios through createScenario, killed with SIGKILL at random moments, leaves a sound database with whole scenarios only", async () => {
     const crashDb = path.join(dir, "crash.sqlite");
     await copyDb(file, crashDb);
     for (let round = 0; round < 5; round++) {
       // One process (node with tsx's loader, not the tsx wrapper), so SIGKILL hits the writer itself.
-      const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "tests/support/crash-writer.ts"), crashDb], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
+      const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/crash-writer.ts"), crashDb], { cwd: root, stdio: ["ignore", "pipe", "inherit"] });
       await new Promise<void>((resolve, reject) => {
         child.stdout.on("data", (d: Buffer) => d.toString().includes("ready") && resolve());
         child.once("exit", (code) => reject(new Error(`writer exited early (${code})`)));
@@ -94,19 +104,25 @@ describe("crash safety", () => {
       await new Promise((r) => child.once("exit", r));
       expect(integrityOk(crashDb), `round ${round}`).toEqual({ ok: true, detail: "ok" });
       const db = new SQLite(crashDb, { readonly: true });
+      // createScenario writes the row and its "create" audit line in one transaction: never one without the other.
       const orphans = db
         .prepare(
-          `select count(*) as n from scenarios s where s.name like 'crash-%' and not exists (select 1 from audit_log a where a.entity = 'scenario' and a.entity_id = cast(s.id as text) and a.field = 'crash-test')`,
+          `select count(*) as n from scenarios s where s.name like 'crash-%' and not exists (select 1 from audit_log a where a.entity = 'scenario' and a.action = 'create' and a.entity_id = cast(s.id as text) and a.new_value = s.name)`,
         )
         .get() as { n: number };
       const ghosts = db
-        .prepare(`select count(*) as n from audit_log a where a.field = 'crash-test' and not exists (select 1 from scenarios s where cast(s.id as text) = a.entity_id)`)
+        .prepare(`select count(*) as n from audit_log a where a.action = 'create' and a.new_value like 'crash-%' and not exists (select 1 from scenarios s where cast(s.id as text) = a.entity_id)`)
         .get() as { n: number };
-      const written = db.prepare(`select count(*) as n from scenarios where name like 'crash-%'`).get() as { n: number };
+      const rows = db.prepare(`select inputs_json, results_json from scenarios where name like 'crash-%'`).all() as { inputs_json: string; results_json: string }[];
       db.close();
       expect(orphans.n, `round ${round}`).toBe(0);
       expect(ghosts.n, `round ${round}`).toBe(0);
-      expect(written.n).toBeGreaterThan(0);
+      expect(rows.length).toBeGreaterThan(0);
+      // Whole scenarios: inputs a user could save, and results with a ledger total.
+      for (const r of rows) {
+        expect(scenarioInputsSchema.safeParse(JSON.parse(r.inputs_json)).success).toBe(true);
+        expect(JSON.parse(r.results_json).ledger.totals.total).toMatch(/^\d+\.\d{2}$/);
+      }
     }
   }, 120_000);
 });
@@ -134,38 +150,87 @@ describe("two server workers on one file", () => {
   }, 60_000);
 });
 
+describe("two outbox senders in two processes (as two server workers run them)", () => {
+  it("deliver each queued message exactly once", async () => {
+    const shared = path.join(dir, "senders.sqlite");
+    await copyDb(file, shared);
+    const kept = process.env.DATABASE_PATH;
+    await closeDb();
+    process.env.DATABASE_PATH = shared;
+    const to = (k: number) => `both-${k}@demo.test`;
+    let queued = 0;
+    try {
+      await enqueueMail(getDb(), [0, 1, 2, 3, 4, 5, 6, 7].map((k) => commentMail({ to: to(k), author: "A", scenario: "S", body: `message ${k}`, link: "http://localhost:3000/", reply: false })));
+      queued = Number((await getDb().selectFrom("outbox").select((eb) => eb.fn.countAll<number>().as("n")).where("sent_at", "is", null).executeTakeFirstOrThrow()).n);
+    } finally {
+      await closeDb();
+      process.env.DATABASE_PATH = kept;
+    }
+    const mailDir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-senders-"));
+    const mail = await startMailServer({ port: 0, dir: mailDir });
+    try {
+      const now = new Date(Date.now() + 3600_000).toISOString();
+      const senders = [0, 1].map(() => {
+        const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/mail-sender.ts"), shared, now], {
+          cwd: root,
+          stdio: ["pipe", "pipe", "inherit"],
+          env: { ...process.env, SMTP_HOST: "127.0.0.1", SMTP_PORT: String(mail.port) },
+        });
+        let out = "";
+        const ready = new Promise<void>((resolve) => child.stdout.on("data", (d: Buffer) => (out += d.toString()).includes("ready") && resolve()));
+        const done = new Promise<string>((resolve, reject) => child.once("exit", (code) => (code === 0 ? resolve(out.replace("ready\n", "").trim()) : reject(new Error(`sender exited with ${code}`)))));
+        return { child, ready, done };
+      });
+      await Promise.all(senders.map((s) => s.ready));
+      for (const s of senders) s.child.stdin!.end("go\n");
+      const outputs = await Promise.all(senders.map((s) => s.done));
+      const sent = outputs.map((o) => Number(/sent=(\d+) failed=0/.exec(o)![1]));
+      expect(sent[0]! + sent[1]!, outputs.join(" | ")).toBe(queued);
+      const box = readMailbox(mailDir);
+      for (const k of [0, 1, 2, 3, 4, 5, 6, 7]) expect(box.filter((m) => m.to.includes(to(k))).length, to(k)).toBe(1);
+      expect(box.length).toBe(queued);
+      const check = new SQLite(shared, { readonly: true });
+      expect((check.prepare("select count(*) as n from outbox where sent_at is null").get() as { n: number }).n).toBe(0);
+      check.close();
+    } finally {
+      await mail.close();
+      fs.rmSync(mailDir, { recursive: true, force: true });
+    }
+  }, 60_000);
+});
+
 describe("a full disk", () => {
-  it("a write that does not fit fails clearly, rolls back, and leaves the database intact", async () => {
+  it("creating a scenario that does not fit, through the API and through createScenario, fails clearly, rolls back, and leaves the database intact", async () => {
     const small = path.join(dir, "small.sqlite");
     await copyDb(file, small);
-    const before = count(small, "scenarios");
-    // A size limit just above the current size stands in for a tiny filesystem.
-    const raw = new SQLite(small);
-    const current = raw.pragma("page_count", { simple: true }) as number;
-    raw.close();
-    const limited = new SQLite(small);
-    limited.pragma(`max_page_count = ${current + 2}`);
-    const study = limited.prepare("select id, owner_id from studies").get() as { id: number; owner_id: number };
-    const edition = limited.prepare("select id from rate_book_editions").get() as { id: number };
-    const big = "x".repeat(200_000);
-    const write = limited.transaction(() => {
-      limited.prepare("insert into audit_log (at, action, entity) values ('now', 'before-full', 'x')").run();
-      limited.prepare("insert into scenarios (study_id, name, inputs_json, results_json, rate_edition_id, created_by) values (?, 'too big', ?, ?, ?, ?)").run(study.id, big, big, edition.id, study.owner_id);
-    });
-    let code = "";
+    const vac = new SQLite(small);
+    vac.exec("vacuum"); // no free pages left for the write to reuse
+    vac.close();
+    const kept = process.env.DATABASE_PATH;
+    await closeDb();
+    process.env.DATABASE_PATH = small;
+    let before: { scenarios: number; audit: number };
     try {
-      write();
-    } catch (err) {
-      code = (err as { code?: string }).code ?? "";
+      const cookie = await signInAs(sessionRoute, "pi@demo.test");
+      const db = getDb();
+      const study = await db.selectFrom("studies").select(["id", "owner_id"]).executeTakeFirstOrThrow();
+      before = { scenarios: count(small, "scenarios"), audit: count(small, "audit_log") };
+      // A size limit at the current size stands in for a full filesystem: the next new page fails.
+      const { rows } = await sql<{ page_count: number }>`pragma page_count`.execute(db);
+      await sql.raw(`pragma max_page_count = ${rows[0]!.page_count}`).execute(db);
+      const body = { name: "Too big for the disk", inputs: DEMO_SCENARIOS[0]!.inputs };
+      const res = await scenariosRoute.POST(request("POST", `/api/v1/studies/${study.id}/scenarios`, { cookie, body }), params({ studyId: String(study.id) }));
+      expect(res.status).toBe(507);
+      expect((await res.json()).error).toEqual({ code: "storage-full", message: "The server's storage is full, so nothing was saved. Tell your administrator." });
+      await expect(createScenario({ id: study.owner_id, role: "investigator" }, study.id, body)).rejects.toMatchObject({ code: "SQLITE_FULL" });
+    } finally {
+      await closeDb();
+      process.env.DATABASE_PATH = kept;
     }
-    limited.close();
-    expect(code).toBe("SQLITE_FULL");
     expect(integrityOk(small).ok).toBe(true);
-    expect(count(small, "scenarios")).toBe(before);
-    const check = new SQLite(small, { readonly: true });
-    expect((check.prepare("select count(*) as n from audit_log where action = 'before-full'").get() as { n: number }).n).toBe(0);
-    check.close();
-  });
+    // Neither the scenario nor its audit line: the transaction rolled back whole.
+    expect({ scenarios: count(small, "scenarios"), audit: count(small, "audit_log") }).toEqual(before);
+  }, 60_000);
   it("the API answers a full disk with a clear 507, never a stack trace", async () => {
     const { errorResponse } = await import("@/lib/server/api");
     const res = errorResponse(Object.assign(new Error("database or disk is full"), { code: "SQLITE_FULL" }));

@@ -1,21 +1,22 @@
 /**
- * A child process for the crash test: writes scenarios (each with its audit line, in one
- * transaction) in a loop until it is killed. Usage: tsx crash-writer.ts DB_PATH
+ * A child process for the crash test: creates scenarios through createScenario, the function the API's
+ * POST /studies/:id/scenarios and the scenario form's action call (validation, computation, the row and
+ * its audit line in one transaction), in a loop until it is killed. Says "ready" after its first
+ * scenario. Usage: node --conditions=react-server --import tsx crash-writer.ts DB_PATH
+ * (react-server: the query modules are marked server-only, as under Next).
  */
-import { createKysely } from "@/db/connection";
+process.env.DATABASE_PATH = process.argv[2]!;
+const { getDb } = await import("@/db");
+const { createScenario } = await import("@/db/queries/scenarios");
+const { DEMO_SCENARIOS } = await import("@/scripts/demo-data");
 
-const db = createKysely(process.argv[2]!);
+const db = getDb();
 const study = await db.selectFrom("studies").select(["id", "owner_id"]).executeTakeFirstOrThrow();
-const edition = await db.selectFrom("rate_book_editions").select("id").executeTakeFirstOrThrow();
-const big = JSON.stringify({ filler: "x".repeat(20000) });
-process.stdout.write("ready\n");
+const owner = await db.selectFrom("users").select(["id", "role"]).where("id", "=", study.owner_id).executeTakeFirstOrThrow();
+const actor = { id: owner.id, role: owner.role as "investigator" };
 for (let k = 0; ; k++) {
-  await db.transaction().execute(async (trx) => {
-    const { id } = await trx
-      .insertInto("scenarios")
-      .values({ study_id: study.id, name: `crash-${process.pid}-${k}`, inputs_json: big, results_json: big, rate_edition_id: edition.id, created_by: study.owner_id })
-      .returning("id")
-      .executeTakeFirstOrThrow();
-    await trx.insertInto("audit_log").values({ at: new Date().toISOString(), user_id: study.owner_id, action: "create", entity: "scenario", entity_id: String(id), field: "crash-test", old_value: null, new_value: null }).execute();
-  });
+  await createScenario(actor, study.id, { name: `crash-${process.pid}-${k}`, inputs: DEMO_SCENARIOS[k % DEMO_SCENARIOS.length]!.inputs });
+  if (k === 0) process.stdout.write("ready\n");
 }
+
+export {};

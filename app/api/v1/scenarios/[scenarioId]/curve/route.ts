@@ -1,3 +1,5 @@
+import { forbidden } from "@/lib/auth/errors";
+import { roleMay } from "@/lib/auth/permissions";
 import { scenarioContext, scenarioMarkers } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { validationError } from "@/lib/http/errors";
@@ -34,6 +36,8 @@ export const GET = withUser<P>(async ({ req, user, params }) => {
 
 /** POST { inputs, points? }: the curve for unsaved assumptions, priced with the scenario's edition. */
 export const POST = withUser<P>(async ({ req, user, params }) => {
+  // A role that may never see a study is refused before its body is read, as on every other route.
+  if (!roleMay(user, "scenario.view")) throw forbidden();
   const { inputs, points } = await readJson(req, previewSchema);
   return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), points ?? 64, inputs) });
 });

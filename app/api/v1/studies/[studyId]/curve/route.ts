@@ -1,13 +1,16 @@
+import { roleMay } from "@/lib/auth/permissions";
 import { scenarioMarkers, studyContextFor } from "@/db/queries/scenarios";
 import { previewSchema } from "@/lib/planning/api-schemas";
 import { computeScenario } from "@/lib/planning/compute";
 import { reachCurveCached } from "@/lib/server/planning-cache";
 import type { CurveResponse } from "@/lib/planning/curve-response";
-import { HttpError } from "@/lib/auth/errors";
+import { HttpError, forbidden } from "@/lib/auth/errors";
 import { json, parseId, readJson, withUser } from "@/lib/server/api";
 
 /** POST { inputs, points? }: the reach curve for a scenario not yet saved, priced with the edition in force. */
 export const POST = withUser<{ studyId: string }>(async ({ req, user, params }) => {
+  // A role that may never see a study is refused before its body is read, as on every other route.
+  if (!roleMay(user, "study.view")) throw forbidden();
   const studyId = parseId(params.studyId, "That study");
   const { inputs, points } = await readJson(req, previewSchema);
   const { study, rates } = await studyContextFor(user, studyId);
