@@ -1,3 +1,4 @@
+import { HYPOTHESIS_NAMES } from "@/lib/power/designs/hypothesis";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
 import { ONE_OFF_MARK } from "@/lib/costing/types";
@@ -8,7 +9,7 @@ import { TableHead } from "@/components/table-head";
 import { formatEffect } from "@/lib/power/effect-units";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
-export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
+export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : name === "margin" ? "Margin" : "Effect size d");
 
 /**
  * One-off procedures are priced by the investigator, not the rate book: a short note beside the ledger
@@ -34,6 +35,16 @@ function OneOffNote({ lines }: { lines: LedgerLine[] }) {
   );
 }
 
+/** The claim and the analysis, in a line: what the n above was computed for. */
+export function analysisSummary(p: ScenarioResults["power"]): string {
+  const parts: string[] = [HYPOTHESIS_NAMES[p.hypothesis ?? "superiority"]];
+  if (p.margin !== undefined) parts[0] += ` with a margin of ${Number(p.margin.toPrecision(4))}`;
+  if (p.baselineCorrelation !== undefined) parts.push(`ANCOVA on the baseline (correlation ${p.baselineCorrelation})`);
+  if (p.followUps !== undefined && p.followUps > 1) parts.push(`mean of ${p.followUps} follow-ups (correlation ${p.repeatedCorrelation})`);
+  if (p.arms !== undefined) parts.push(`${p.arms} arms against one control, ${p.multiplicity === "dunnett" ? "Dunnett" : p.multiplicity === "bonferroni" ? "Bonferroni" : "no multiplicity adjustment"}`);
+  return `Analysis: ${parts.join("; ")}.`;
+}
+
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
 export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
   const p = results.power;
@@ -45,9 +56,10 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         <div>
           <dt className="text-sm text-ink-soft">Evaluable per arm</dt>
           <dd className="num text-xl font-medium" data-testid="result-n">
-            {p.n2 === null ? p.n1 : `${p.n1} + ${p.n2}`}
+            {p.armSizes ? `${p.arms} × ${p.n1} + ${p.n2}` : p.n2 === null ? p.n1 : `${p.n1} + ${p.n2}`}
           </dd>
           {p.clusters1 !== undefined ? <dd className="text-xs text-ink-soft">{`${p.clusters1} + ${p.clusters2} clusters`}</dd> : null}
+          {p.armSizes ? <dd className="text-xs text-ink-soft">{`${p.arms} treatment arms of ${p.n1} and a control of ${p.n2}`}</dd> : null}
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Enrolled / screened</dt>
@@ -76,7 +88,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <dd className="num text-lg">{formatEffect(results.effectName, results.targetEffect)}</dd>
         </div>
         <div>
-          <dt className="text-sm text-ink-soft">MDES at this n</dt>
+          <dt className="text-sm text-ink-soft">{results.effectName === "margin" ? "Smallest margin supportable at this n" : "MDES at this n"}</dt>
           <dd className="num text-lg" data-testid="result-mdes">
             {formatEffect(results.effectName, results.mdes)}
           </dd>
@@ -86,6 +98,9 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <dd className="num text-lg">{formatMoney(l.unit.perEvaluable, { cents: false })}</dd>
         </div>
       </dl>
+      <p className="text-sm text-ink-soft" data-testid="result-analysis">
+        {analysisSummary(p)}
+      </p>
       {caps ? (
         <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">
           {caps.within
