@@ -1,4 +1,4 @@
-import { HYPOTHESIS_NAMES } from "@/lib/power/designs/hypothesis";
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
 import { ONE_OFF_MARK } from "@/lib/costing/types";
@@ -33,16 +33,6 @@ function OneOffNote({ lines }: { lines: LedgerLine[] }) {
       </ul>
     </div>
   );
-}
-
-/** The claim and the analysis, in a line: what the n above was computed for. */
-export function analysisSummary(p: ScenarioResults["power"]): string {
-  const parts: string[] = [HYPOTHESIS_NAMES[p.hypothesis ?? "superiority"]];
-  if (p.margin !== undefined) parts[0] += ` with a margin of ${Number(p.margin.toPrecision(4))}`;
-  if (p.baselineCorrelation !== undefined) parts.push(`ANCOVA on the baseline (correlation ${p.baselineCorrelation})`);
-  if (p.followUps !== undefined && p.followUps > 1) parts.push(`mean of ${p.followUps} follow-ups (correlation ${p.repeatedCorrelation})`);
-  if (p.arms !== undefined) parts.push(`${p.arms} arms against one control, ${p.multiplicity === "dunnett" ? "Dunnett" : p.multiplicity === "bonferroni" ? "Bonferroni" : "no multiplicity adjustment"}`);
-  return `Analysis: ${parts.join("; ")}.`;
 }
 
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
@@ -99,7 +89,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </div>
       </dl>
       <p className="text-sm text-ink-soft" data-testid="result-analysis">
-        {analysisSummary(p)}
+        Analysis: {analysisWords(p)}.
       </p>
       {caps ? (
         <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">

@@ -5,6 +5,7 @@
  * follow. The app's own figures are the reference: tests recalculate the workbook with LibreOffice
  * and compare every subtotal and total to the ledger, to the cent.
  */
+import { analysisWords } from "@/lib/planning/analysis-words";
 import ExcelJS from "exceljs";
 import { ONE_OFF_MARK, type LedgerLine, type RateBook } from "@/lib/costing";
 import type { ScenarioResults } from "@/lib/planning/compute";
@@ -111,6 +112,7 @@ function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Worksheet {
   add("Alpha", d.alpha, undefined, undefined, entered);
   add("Sides", d.sides, undefined, undefined, entered);
   add("Target power", d.power, undefined, undefined, entered);
+  add("Analysis", analysisWords(s.results.power), undefined, undefined, d.marginRationale || d.correlationSource || entered);
   add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
   if (s.results.power.sdUsed !== undefined) add("Planning SD", s.results.power.sdUsed, undefined, undefined, s.inputs.pilot ? `Pilot data (${s.inputs.pilot.fileName})` : d.sdSource || entered);
   if (d.p1 !== undefined) add("Control proportion", d.p1, undefined, undefined, d.sdSource || entered);
@@ -319,6 +321,7 @@ function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario, layou
     ["Review state", s.state],
     ["Rate-book edition", safeText(`${s.rates.label} (effective ${s.rates.effectiveDate})`)],
     ["Design", designName(s.inputs.design.design)],
+    ["Analysis", analysisWords(p)],
     ["Method", p.method],
     ["Evaluable, arm 1", p.n1],
     ["Evaluable, arm 2", p.n2 ?? "—"],
@@ -422,6 +425,7 @@ function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list: Workb
   ws.getRow(4).font = { bold: true };
   const rows: [string, (s: WorkbookScenario) => ExcelJS.CellValue][] = [
     ["Design", (s) => designName(s.inputs.design.design)],
+    ["Analysis", (s) => analysisWords(s.results.power)],
     // Scenarios of different designs measure effects in different units: each column says its own.
     ["Effect measured as", (s) => effectUnit(s.results.effectName).noun],
     ["Alpha", (s) => s.inputs.design.alpha],
