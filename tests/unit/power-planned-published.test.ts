@@ -141,10 +141,17 @@ describe(DUNNETT_1955.source, () => {
     expect(bonf).toBeGreaterThan(d.nExact);
     expect(none).toBeLessThan(d.nExact);
   });
-  it("past 400 df the interpolated critical value still has coverage 1 − α to 1e-8", () => {
-    for (const df of [450, 1000, 20000]) {
-      const c = dunnettCritical(3, 1 / (1 + Math.sqrt(3)), 0.025, 1, df);
-      expect(Math.abs(dunnettCoverage(c, 3, 1 / (1 + Math.sqrt(3)), 1, df) - 0.975)).toBeLessThan(1e-8);
+  it("from 24 df up the interpolated critical value still has coverage 1 − α to 5e-7 (k 2–10, one- and two-sided)", () => {
+    for (const [k, rho, alpha, sides] of [
+      [2, 0.5, 0.025, 1],
+      [3, 1 / (1 + Math.sqrt(3)), 0.025, 1],
+      [5, 0.5, 0.05, 2],
+      [10, 0.3, 0.01, 1],
+    ] as const) {
+      for (const df of [25, 37, 70, 150, 450, 1000, 20000]) {
+        const c = dunnettCritical(k, rho, alpha, sides, df);
+        expect(Math.abs(dunnettCoverage(c, k, rho, sides, df) - (1 - alpha)), `k ${k}, df ${df}`).toBeLessThan(5e-7);
+      }
     }
   });
 });
