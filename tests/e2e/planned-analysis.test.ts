@@ -29,7 +29,7 @@ const answer = (value: string | RegExp) => page.getByTestId("calc-answer-value")
 
 describe("the calculator sizes the planned analysis", () => {
   it("non-inferiority of means, then ANCOVA, then two arms against one control", async () => {
-    await page.goto(`${baseUrl}/calculator`);
+    await page.goto(`${studyUrl}/calculator`);
     await page.getByRole("group", { name: "What do you want to find?" }).waitFor();
     await page.getByRole("radio", { name: "As a mean difference and SD" }).check();
     await field("Hypothesis").selectOption({ label: "Non-inferiority (against a margin)" });
@@ -70,7 +70,7 @@ describe("the calculator sizes the planned analysis", () => {
     await page.getByTestId("calc-n").filter({ hasText: "2 × 99 + 99" }).waitFor();
     await page.getByTestId("calc-critical").filter({ hasText: "2.223" }).waitFor();
     await screenshot(page, "calculator-several-arms-1440");
-  });
+  }, JOURNEY);
 });
 
 async function newScenario(name: string) {
