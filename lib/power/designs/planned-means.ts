@@ -9,7 +9,7 @@ import { noncentralTCdf, studentQuantile } from "../distributions";
 import { dunnettCritical } from "../multivariate-t";
 import { MAX_N_PER_ARM } from "../schema";
 import { effectForPower, smallestN, UnreachableError } from "../search";
-import { normalQuantile } from "../special";
+import { normalCdf, normalQuantile } from "../special";
 import { covariateDf, varianceFactor, type Analysis } from "./analysis";
 import { tostPowerExact } from "./equivalence";
 import type { Hypothesis, Multiplicity } from "./hypothesis";
@@ -45,7 +45,10 @@ export function standardError(z: Sizes, s: PlannedMeansSettings): { c: number; d
 /** The critical value of each comparison's t test: one-sided under non-inferiority. */
 export function criticalValue(z: Sizes, df: number, s: PlannedMeansSettings): number {
   const sides = s.hypothesis === "non-inferiority" ? 1 : s.sides;
-  if (s.arms > 1 && s.multiplicity === "dunnett" && z.n2 !== null) return dunnettCritical(s.arms, z.n1 / (z.n1 + z.n2), s.alpha, sides, df);
+  // The correlation between comparisons from the planned allocation, 1/(1 + control allocation), not from
+  // the rounded arm sizes (which move it by less than 1/n): one set of cached critical values then serves
+  // every n the search and the reach curve try.
+  if (s.arms > 1 && s.multiplicity === "dunnett" && z.n2 !== null) return dunnettCritical(s.arms, 1 / (1 + s.ratio), s.alpha, sides, df);
   const alpha = s.arms > 1 && s.multiplicity === "bonferroni" ? s.alpha / s.arms : s.alpha;
   return studentQuantile(1 - alpha / sides, df);
 }
@@ -83,7 +86,8 @@ export function plannedMeansN(delta: number, margin: number, target: number, s: 
   const zb = normalQuantile(s.hypothesis === "equivalence" && delta === 0 ? 1 - (1 - target) / 2 : target);
   const za = normalQuantile(1 - alpha / sides);
   const perN = s.oneSample ? 1 : 1 + 1 / s.ratio;
-  const start = ((za + zb) ** 2 * varianceFactor(s.analysis) * perN) / (gap * gap) + 1;
+  let start = ((za + zb) ** 2 * varianceFactor(s.analysis) * perN) / (gap * gap) + 1;
+  if (s.hypothesis === "equivalence") start = equivalenceStart(delta, margin, target, za, varianceFactor(s.analysis) * perN, start);
   const what = s.oneSample ? "number of participants" : "number of participants per arm";
   return sizesFor(smallestN((n) => plannedMeansPower(delta, margin, sizesFor(n, s), s), target, start, 2, MAX_N_PER_ARM, what), s);
 }
@@ -102,4 +106,25 @@ export function plannedMeansMargin(delta: number, target: number, z: Sizes, s: P
   const zb = normalQuantile(s.hypothesis === "equivalence" && delta === 0 ? 1 - (1 - target) / 2 : target);
   const start = floor + (normalQuantile(1 - s.alpha) + zb) * c;
   return effectForPower((m) => plannedMeansPower(delta, m, z, s), target, start, floor + 1e-9, floor + 10, "margin up to 10 standard deviations beyond the expected difference");
+}
+
+/**
+ * Equivalence: the n at which the normal approximation of both tails reaches the target, found by
+ * bisection on cheap normal probabilities, so that the exact search starts within a step or two.
+ */
+function equivalenceStart(delta: number, margin: number, target: number, z: number, perN: number, guess: number): number {
+  const at = (n: number) => {
+    const c = Math.sqrt(perN / n);
+    return normalCdf((margin - delta) / c - z) + normalCdf((margin + delta) / c - z) - 1;
+  };
+  let lo = 1;
+  let hi = Math.max(2, guess);
+  while (at(hi) < target && hi < MAX_N_PER_ARM) hi *= 2;
+  for (let i = 0; i < 60 && hi - lo > 0.25; i++) {
+    const mid = (lo + hi) / 2;
+    if (at(mid) >= target) hi = mid;
+    else lo = mid;
+  }
+  // The t's heavier tails need about z²/4 more per arm (the usual correction).
+  return hi + (z * z) / 4;
 }
