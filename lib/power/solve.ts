@@ -126,22 +126,20 @@ function solveTwoMeans(v: Parsed<"two-means">): PowerResult {
           { size: sized, effect: given, power: v.power },
           { size: (d) => twoMeansN(d, v.power!, s), effect: (a) => twoMeansEffect(v.power!, a.n1, a.n2, s), power: (d, a) => twoMeansPower(d, a.n1, a.n2, s) },
         );
-  return finish(
-    v,
-    {
-      design: v.design,
-      solvedFor,
-      allocationRatio: v.n2 !== undefined ? n2 / n1 : v.allocationRatio,
-      n1,
-      n2,
-      power,
-      effectSize: d,
-      method: METHOD.twoMeans,
-      context: effectContext("d", d),
-      ...sdFields(d, sdUsed, pilot),
-    },
-    standardWarnings({ power, perGroup: [n1, n2], standardizedEffect: d }),
-  );
+  const core: Parameters<typeof finish>[1] = {
+    design: v.design,
+    solvedFor,
+    allocationRatio: v.n2 !== undefined ? n2 / n1 : v.allocationRatio,
+    n1,
+    n2,
+    power,
+    effectSize: d,
+    method: METHOD.twoMeans,
+    context: effectContext("d", d),
+  };
+  // Added only when there is an SD: a spread in the literal made every result slower to build (hot path).
+  if (sdUsed !== undefined || pilot) Object.assign(core, sdFields(d, sdUsed, pilot));
+  return finish(v, core, standardWarnings({ power, perGroup: [n1, n2], standardizedEffect: d }));
 }
 
 function solveOneMean(v: Parsed<"one-mean">): PowerResult {
