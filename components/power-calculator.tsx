@@ -13,7 +13,8 @@ type Find = "n" | "power" | "effect";
 type EffectAs = "d" | "raw";
 type Values = Record<string, string>;
 
-type FieldSpec = { name: string; label: string; hint?: string; kind?: "number" | "select"; options?: [string, string][] };
+/** `optional`: may stay empty (an option of the analysis, not a figure the answer needs). */
+type FieldSpec = { name: string; label: string; hint?: string; kind?: "number" | "select"; options?: [string, string][]; optional?: boolean };
 
 const F = {
   alpha: { name: "alpha", label: L.alpha, hint: "The false-positive rate the test allows, like 0.05 or 5%" },
@@ -28,6 +29,19 @@ const F = {
   p1: { name: "p1", label: L.p1, hint: "Share with the outcome without the intervention, like 0.30" },
   p2: { name: "p2", label: L.p2, hint: "Share with the outcome with it, like 0.45" },
   method: { name: "method", label: L.method, kind: "select", options: [["normal", "Normal approximation"], ["continuity-corrected", "With continuity correction"], ["arcsine", "Arcsine (Cohen's h)"]] },
+  methodMargin: { name: "method", label: L.method, kind: "select", options: [["farrington-manning", "Farrington–Manning (restricted ML variance)"], ["normal", "Normal approximation, unpooled"]] },
+  hypothesis: { name: "hypothesis", label: L.hypothesis, kind: "select", options: [["superiority", "Superiority"], ["non-inferiority", "Non-inferiority (against a margin)"], ["equivalence", "Equivalence (within a margin)"]] },
+  margin: { name: "margin", label: L.margin, hint: "In the effect's units: SD units with d, outcome units with a difference, a risk difference, or a hazard ratio above 1" },
+  expectedD: { name: "effectSize", label: "Expected true difference (d)", hint: "0 if none is expected; negative favours the control" },
+  expectedDifference: { name: "meanDifference", label: "Expected true difference", hint: "In the outcome's units; 0 if none is expected" },
+  expectedP2: { name: "p2", label: "Expected intervention proportion", hint: "The same as the control's if no difference is expected" },
+  expectedHr: { name: "hazardRatio", label: "Expected hazard ratio", hint: "1 if no difference is expected" },
+  baselineCorrelation: { name: "baselineCorrelation", label: L.baselineCorrelation, hint: "Empty for no adjustment; ANCOVA on the baseline, like 0.5", optional: true },
+  followUps: { name: "followUps", label: L.followUps, hint: "Empty for one measurement", optional: true },
+  repeatedCorrelation: { name: "repeatedCorrelation", label: L.repeatedCorrelation, hint: "Compound symmetry, like 0.6; with 2 or more follow-ups", optional: true },
+  arms: { name: "arms", label: L.arms, hint: "Each compared with one control; empty for two groups", optional: true },
+  multiplicity: { name: "multiplicity", label: L.multiplicity, kind: "select", options: [["dunnett", "Dunnett"], ["bonferroni", "Bonferroni"], ["none", "None"]] },
+  controlAllocation: { name: "controlAllocation", label: L.controlAllocation, hint: "Control participants per treatment participant; √k is a common choice", optional: true },
   directionP: { name: "direction", label: L.direction, kind: "select", options: [["increase", "The intervention raises the proportion"], ["decrease", "The intervention lowers it"]] },
   clusterSize: { name: "clusterSize", label: L.clusterSize, hint: "Participants per cluster, like 20" },
   icc: { name: "icc", label: L.icc, hint: "Intracluster correlation, from 0 to below 1" },
@@ -43,12 +57,28 @@ const F = {
   screenFailure: { name: "screenFailure", label: L.screenFailure, hint: "Share of those screened who are not enrolled, like 0.30 or 30%" },
 } satisfies Record<string, FieldSpec>;
 
-/** Each design's sample-size field, effect fields and design fields. */
-function layout(design: Design, effectAs: EffectAs): { n: FieldSpec; effect: FieldSpec[]; design: FieldSpec[] } {
+const offersMargin = (design: Design) => design === "two-means" || design === "one-mean" || design === "two-proportions" || design === "time-to-event";
+const withMargin = (hypothesis: string | undefined) => hypothesis === "non-inferiority" || hypothesis === "equivalence";
+
+/**
+ * Each design's sample-size field, effect fields and design fields. With a margin the margin is the
+ * quantity found or given, and the effect fields hold the expected true difference, always given.
+ */
+function layout(design: Design, effectAs: EffectAs, hypothesis = "superiority"): { n: FieldSpec; effect: FieldSpec[]; design: FieldSpec[]; expected: FieldSpec[] } {
+  const margined = offersMargin(design) && withMargin(hypothesis);
+  const claim = offersMargin(design) ? [F.hypothesis] : [];
+  const base = baseLayout(design, effectAs);
+  if (!margined) return { ...base, design: [...claim, ...base.design], expected: [] };
+  const expected = design === "time-to-event" ? [F.expectedHr] : design === "two-proportions" ? [F.expectedP2] : effectAs === "d" ? [F.expectedD] : [F.expectedDifference, F.sd];
+  const designFields = base.design.filter((f) => f.name !== "direction").map((f) => (f.name === "method" && design === "two-proportions" ? F.methodMargin : f));
+  return { n: base.n, effect: [F.margin], design: [...claim, ...designFields], expected };
+}
+
+function baseLayout(design: Design, effectAs: EffectAs): { n: FieldSpec; effect: FieldSpec[]; design: FieldSpec[] } {
   const means = effectAs === "d" ? [F.effectSize] : [F.meanDifference, F.sd];
   switch (design) {
     case "two-means":
-      return { n: F.n1, effect: means, design: [F.allocationRatio] };
+      return { n: F.n1, effect: means, design: [F.allocationRatio, F.baselineCorrelation, F.followUps, F.repeatedCorrelation, F.arms, F.multiplicity, F.controlAllocation] };
     case "one-mean":
       return { n: F.nOne, effect: means, design: [] };
     case "two-proportions":
@@ -63,11 +93,11 @@ function layout(design: Design, effectAs: EffectAs): { n: FieldSpec; effect: Fie
 }
 
 /** The fields to fill for one question: never the one being found. */
-function fieldsFor(design: Design, find: Find, effectAs: EffectAs): FieldSpec[] {
-  const l = layout(design, effectAs);
-  const out: FieldSpec[] = [];
+function fieldsFor(design: Design, find: Find, effectAs: EffectAs, hypothesis?: string): FieldSpec[] {
+  const l = layout(design, effectAs, hypothesis);
+  const out: FieldSpec[] = [...l.expected];
   if (find !== "effect") out.push(...l.effect);
-  else if (effectAs === "raw") out.push(F.sd); // to give the smallest effect in the outcome's units too
+  else if (effectAs === "raw" && !l.expected.length) out.push(F.sd); // to give the smallest effect in the outcome's units too
   if (find !== "n") out.push(l.n);
   if (find !== "power") out.push(F.power);
   return out;
@@ -86,6 +116,9 @@ const DEFAULTS: Values = {
   p2: "0.45",
   method: "normal",
   direction: "increase",
+  hypothesis: "superiority",
+  margin: "",
+  multiplicity: "dunnett",
   clusterSize: "20",
   icc: "0.05",
   cv: "0",
@@ -98,13 +131,19 @@ const DEFAULTS: Values = {
   screenFailure: "0.30",
 };
 
-const SELECTS = new Set(["sides", "method", "direction"]);
+const SELECTS = new Set(["sides", "method", "direction", "hypothesis", "multiplicity"]);
 const SHARES = new Set(["alpha", "power", "attrition", "screenFailure", "p1", "p2", "icc"]);
 
 /** The request body: numbers parsed, empty fields left out, and the answer sought left out. */
 export function buildRequest(design: Design, find: Find, effectAs: EffectAs, v: Values): Record<string, unknown> {
-  const l = layout(design, effectAs);
-  const fields = [F.alpha, F.sides, F.attrition, F.screenFailure, ...l.design, ...fieldsFor(design, find, effectAs)];
+  const l = layout(design, effectAs, v.hypothesis);
+  const fields = [F.alpha, F.sides, F.attrition, F.screenFailure, ...l.design, ...fieldsFor(design, find, effectAs, v.hypothesis)].filter((f) => {
+    // Options that belong to another: the multiplicity and the control's allocation go with several arms.
+    if (f.name === "multiplicity" || f.name === "controlAllocation") return (v.arms ?? "").trim() !== "";
+    // Non-inferiority and equivalence are one-sided at alpha: the Test choice does not apply.
+    if (f.name === "sides") return !(offersMargin(design) && withMargin(v.hypothesis));
+    return true;
+  });
   const body: Record<string, unknown> = { design };
   for (const f of fields) {
     const raw = (v[f.name] ?? "").trim();
@@ -125,10 +164,10 @@ type Outcome = { kind: "idle" } | { kind: "ok"; result: PowerResult; find: Find;
 
 const fmt = (x: number | undefined | null, digits = 3) => (x == null ? "—" : x.toLocaleString("en-US", { maximumFractionDigits: digits }));
 
-const QUESTIONS: { value: Find; label: (cluster: boolean) => string }[] = [
+const QUESTIONS: { value: Find; label: (cluster: boolean, margin?: boolean) => string }[] = [
   { value: "n", label: (cluster) => (cluster ? "The clusters needed" : "The participants needed") },
   { value: "power", label: () => "The power reached" },
-  { value: "effect", label: () => "The smallest effect detectable" },
+  { value: "effect", label: (_c, margin) => (margin ? "The smallest margin the study can support" : "The smallest effect detectable") },
 ];
 
 export function PowerCalculator() {
@@ -139,13 +178,17 @@ export function PowerCalculator() {
   const [outcome, setOutcome] = useState<Outcome>({ kind: "idle" });
   const [busy, setBusy] = useState(false);
   const abort = useRef<AbortController | null>(null);
-  const l = layout(design, effectAs);
+  const hypothesis = offersMargin(design) ? values.hypothesis : "superiority";
+  const margined = withMargin(hypothesis);
+  const l = layout(design, effectAs, hypothesis);
   const body = useMemo(() => buildRequest(design, find, effectAs, values), [design, find, effectAs, values]);
 
   // Every number field on screen is needed for the answer: an empty one is named beside itself, and nothing is asked.
-  const shownFields: FieldSpec[] = [F.alpha, F.sides, F.attrition, F.screenFailure, ...l.design, ...fieldsFor(design, find, effectAs)];
-  const answerWords = QUESTIONS.find((q) => q.value === find)!.label(design.startsWith("cluster-")).toLowerCase();
-  const empty = shownFields.filter((f) => f.kind !== "select" && (values[f.name] ?? "").trim() === "");
+  const armsGiven = (values.arms ?? "").trim() !== "";
+  const designFields = l.design.filter((f) => armsGiven || (f.name !== "multiplicity" && f.name !== "controlAllocation"));
+  const shownFields: FieldSpec[] = [F.alpha, ...(margined ? [] : [F.sides]), F.attrition, F.screenFailure, ...designFields, ...fieldsFor(design, find, effectAs, hypothesis)];
+  const answerWords = (margined && find === "effect" ? "the smallest margin the study can support" : QUESTIONS.find((q) => q.value === find)!.label(design.startsWith("cluster-"))).toLowerCase();
+  const empty = shownFields.filter((f) => f.kind !== "select" && !f.optional && (values[f.name] ?? "").trim() === "");
   const emptyKey = empty.map((f) => f.name).join(",");
 
   useEffect(() => {
@@ -185,9 +228,20 @@ export function PowerCalculator() {
     setDesign(next);
     setValues((v) => ({
       ...v,
-      method: next === "time-to-event" ? "schoenfeld" : "normal",
+      method: next === "time-to-event" ? "schoenfeld" : next === "two-proportions" && withMargin(v.hypothesis) ? "farrington-manning" : "normal",
       direction: next === "time-to-event" ? "decrease" : "increase",
     }));
+  };
+  // A margin changes what the effect fields mean: the expected true difference, "no difference" to start with.
+  const chooseHypothesis = (next: string) => {
+    setValues((v) => {
+      const nowMargin = withMargin(next);
+      if (nowMargin === withMargin(v.hypothesis)) return { ...v, hypothesis: next };
+      const method = design === "two-proportions" ? (nowMargin ? "farrington-manning" : "normal") : design === "time-to-event" ? "schoenfeld" : (v.method ?? "normal");
+      if (!nowMargin) return { ...v, hypothesis: next, method, effectSize: DEFAULTS.effectSize!, meanDifference: DEFAULTS.meanDifference!, p2: DEFAULTS.p2!, hazardRatio: DEFAULTS.hazardRatio! };
+      const margin = design === "time-to-event" ? "1.3" : design === "two-proportions" ? "0.10" : effectAs === "d" ? "0.5" : "3";
+      return { ...v, hypothesis: next, method, margin: v.margin || margin, effectSize: "0", meanDifference: "0", p2: v.p1 ?? DEFAULTS.p1!, hazardRatio: "1" };
+    });
   };
   const fieldErrors = outcome.kind === "error" ? outcome.fields : {};
   const set = (name: string, value: string) => setValues((v) => ({ ...v, [name]: value }));
@@ -208,7 +262,7 @@ export function PowerCalculator() {
       <div className="field" key={f.name + f.label}>
         <label htmlFor={id}>{f.label}</label>
         {f.kind === "select" ? (
-          <select id={id} className="input" value={values[f.name] ?? ""} onChange={(e) => set(f.name, e.target.value)} aria-describedby={describedBy}>
+          <select id={id} className="input" value={values[f.name] ?? ""} onChange={(e) => (f.name === "hypothesis" ? chooseHypothesis(e.target.value) : set(f.name, e.target.value))} aria-describedby={describedBy}>
             {f.options!.map(([v, label]) => (
               <option key={v} value={v}>
                 {label}
@@ -245,8 +299,9 @@ export function PowerCalculator() {
   // A result answers the question it was asked; while a new one is on its way the old one is marked.
   const r = outcome.kind === "ok" ? outcome.result : null;
   const stale = outcome.kind === "ok" && outcome.asked !== JSON.stringify(body);
-  const effectLabel = design === "time-to-event" ? "Hazard ratio" : design.endsWith("proportions") ? "Intervention proportion" : "Effect size (d)";
-  const effectValue = r ? (r.hazardRatio ?? r.p2 ?? r.effectSize) : undefined;
+  const rMargined = r?.hypothesis === "non-inferiority" || r?.hypothesis === "equivalence";
+  const effectLabel = rMargined ? "Margin" : design === "time-to-event" ? "Hazard ratio" : design.endsWith("proportions") ? "Intervention proportion" : "Effect size (d)";
+  const effectValue = r ? (rMargined ? r.margin : (r.hazardRatio ?? r.p2 ?? r.effectSize)) : undefined;
   const perArm = r ? (isCluster ? (r.clusters1 === r.clusters2 ? `${r.clusters1}` : `${r.clusters1} and ${r.clusters2}`) : r.n2 === null ? `${r.n1}` : r.n1 === r.n2 ? `${r.n1}` : `${r.n1} and ${r.n2}`) : "";
   const answer = (() => {
     if (!r || outcome.kind !== "ok") return null;
@@ -255,6 +310,10 @@ export function PowerCalculator() {
       return { question: "Participants needed", value: r.n2 === null ? `${r.n1} evaluable` : `${perArm} per arm`, detail: r.n2 === null ? "" : `${r.nTotal} evaluable in all` };
     }
     if (outcome.find === "power") return { question: "Power reached", value: fmt(r.power, 3), detail: "" };
+    if (rMargined) {
+      const units = design === "time-to-event" ? "as a hazard ratio" : design === "two-proportions" ? "as a risk difference" : r.sdUsed !== undefined ? "in the outcome's units" : "in standard deviations";
+      return { question: "Smallest margin the study can support", value: `margin ${fmt(r.margin, 3)}`, detail: `${units}, at this sample size` };
+    }
     const unit = design === "time-to-event" ? "hazard ratio" : design.endsWith("proportions") ? "intervention proportion" : "d";
     return {
       question: "Smallest effect detectable",
@@ -275,7 +334,7 @@ export function PowerCalculator() {
             {QUESTIONS.map((q) => (
               <label key={q.value} className="flex items-center gap-1.5 font-normal">
                 <input type="radio" name="find" value={q.value} checked={find === q.value} onChange={() => setFind(q.value)} />
-                {q.label(isCluster)}
+                {q.label(isCluster, margined)}
               </label>
             ))}
           </div>
@@ -330,7 +389,7 @@ export function PowerCalculator() {
           <h3 id="calc-known" className="text-base">
             What you know
           </h3>
-          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">{fieldsFor(design, find, effectAs).map(renderField)}</div>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">{fieldsFor(design, find, effectAs, hypothesis).map(renderField)}</div>
         </section>
         <section aria-labelledby="calc-test" className="flex flex-col gap-3">
           <h3 id="calc-test" className="text-base">
@@ -338,8 +397,14 @@ export function PowerCalculator() {
           </h3>
           <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
             {renderField(F.alpha)}
-            {renderField(F.sides)}
-            {l.design.map(renderField)}
+            {margined ? (
+              <p className="text-sm text-ink-soft sm:self-end" data-testid="calc-one-sided">
+                {hypothesis === "equivalence" ? "Two one-sided tests, each at alpha." : "One-sided at alpha."}
+              </p>
+            ) : (
+              renderField(F.sides)
+            )}
+            {designFields.map(renderField)}
           </div>
         </section>
         <section aria-labelledby="calc-funnel" className="flex flex-col gap-3">
@@ -373,7 +438,7 @@ export function PowerCalculator() {
               <div>
                 <dt className="text-sm text-ink-soft">{isCluster ? "Clusters per arm" : r.n2 === null ? "Evaluable participants" : "Evaluable per arm"}</dt>
                 <dd className="num text-xl" data-testid="calc-n">
-                  {isCluster ? `${r.clusters1} + ${r.clusters2}` : r.n2 === null ? r.n1 : `${r.n1} + ${r.n2}`}
+                  {isCluster ? `${r.clusters1} + ${r.clusters2}` : r.armSizes ? `${r.arms} × ${r.n1} + ${r.n2}` : r.n2 === null ? r.n1 : `${r.n1} + ${r.n2}`}
                 </dd>
               </div>
               <div>
@@ -394,6 +459,20 @@ export function PowerCalculator() {
                   {fmt(effectValue, 4)}
                 </dd>
               </div>
+              {r.criticalValue !== undefined && r.arms !== undefined ? (
+                <div>
+                  <dt className="text-sm text-ink-soft">Critical value per comparison</dt>
+                  <dd className="num" data-testid="calc-critical">
+                    {fmt(r.criticalValue, 3)}
+                  </dd>
+                </div>
+              ) : null}
+              {r.varianceFactor !== undefined && r.varianceFactor !== 1 ? (
+                <div>
+                  <dt className="text-sm text-ink-soft">Variance factor of the analysis</dt>
+                  <dd className="num">{fmt(r.varianceFactor, 4)}</dd>
+                </div>
+              ) : null}
               {r.designEffect !== undefined ? (
                 <div>
                   <dt className="text-sm text-ink-soft">Design effect</dt>
@@ -419,7 +498,7 @@ export function PowerCalculator() {
                 <tbody>
                   {r.funnel.arms.map((a, i) => (
                     <tr key={i}>
-                      <td>{r.funnel.arms.length === 1 ? "Study" : `Arm ${i + 1}`}</td>
+                      <td>{r.funnel.arms.length === 1 ? "Study" : r.armSizes && i === r.funnel.arms.length - 1 ? "Control" : `Arm ${i + 1}`}</td>
                       <td className="num">{a.evaluable}</td>
                       <td className="num">{a.enrolled}</td>
                       <td className="num">{a.screened}</td>

@@ -4,7 +4,9 @@
  *   power engine, two-means: one power evaluation ≤ 5 µs, solve n ≤ 20 µs, solve the effect ≤ 40 µs;
  *   the reach curve: 256 points for a two-means scenario ≤ 20 ms;
  *   a four-scenario comparison workbook ≤ 500 ms;
- *   the recruitment forecast for 20 sites and assurance, each ≤ 50 ms.
+ *   the recruitment forecast for 20 sites and assurance, each ≤ 50 ms;
+ *   the planned analysis (ANCOVA, repeated measures, margins, several arms): solve n ≤ 40 µs per design;
+ *   the public solve(), validation included, at most twice one power evaluation on varied inputs.
  * Prints the median µs per call for each design and a PASS/FAIL line per target; exits 1 on a miss.
  */
 import { solve, solveParsed, powerInputSchema, type PowerInput } from "../lib/power";
@@ -92,6 +94,40 @@ for (const d of designs) {
 }
 record("two-means: solve() with zod validation, solve n", medianUsPerCall(() => solve(designs[0]!.n), 500));
 
+// The planned analysis (issue 16): one row per new design, solve n ≤ 40 µs each. Dunnett's critical
+// values are cached per (arms, allocation, alpha, df), as the t quantiles are, so a repeated input
+// measures the search, not the integral (the first call for a new df takes milliseconds).
+const planned: { name: string; input: PowerInput }[] = [
+  { name: "two-means, ANCOVA (ρ 0.5)", input: { design: "two-means", effectSize: 0.5, power: 0.8, baselineCorrelation: 0.5 } },
+  { name: "two-means, repeated measures (3 follow-ups)", input: { design: "two-means", effectSize: 0.4, power: 0.8, followUps: 3, repeatedCorrelation: 0.6, baselineCorrelation: 0.5 } },
+  { name: "two-means, non-inferiority", input: { design: "two-means", hypothesis: "non-inferiority", effectSize: 0, margin: 0.5, alpha: 0.025, power: 0.9 } },
+  { name: "two-means, equivalence (exact TOST)", input: { design: "two-means", hypothesis: "equivalence", effectSize: 0.1, margin: 0.5, power: 0.8 } },
+  { name: "one-mean (paired), equivalence", input: { design: "one-mean", hypothesis: "equivalence", effectSize: 0, margin: 0.3, power: 0.8 } },
+  { name: "two-means, 3 arms vs control, Dunnett", input: { design: "two-means", effectSize: 0.5, power: 0.9, arms: 3, alpha: 0.025, sides: 1, controlAllocation: 1.7 } },
+  { name: "two-proportions, non-inferiority (Farrington–Manning)", input: { design: "two-proportions", hypothesis: "non-inferiority", p1: 0.7, margin: 0.1, alpha: 0.025, power: 0.9 } },
+  { name: "two-proportions, equivalence", input: { design: "two-proportions", hypothesis: "equivalence", p1: 0.7, margin: 0.1, power: 0.8 } },
+  {
+    name: "time-to-event, non-inferiority",
+    input: { design: "time-to-event", hypothesis: "non-inferiority", margin: 1.3, controlMedian: 12, accrualMonths: 24, followUpMonths: 12, alpha: 0.025, power: 0.8 },
+  },
+];
+for (const p of planned) {
+  const parsedInput = powerInputSchema.parse(p.input);
+  record(`${p.name}: solve n`, medianUsPerCall(() => solveParsed(parsedInput), 500), 40);
+}
+
+// The public solve() on varied inputs (500 different requests, as API users send them), against the
+// evaluation alone on the same inputs: the public path may cost at most twice the evaluation.
+const varied = Array.from({ length: 500 }, (_, i) => ({ design: "two-means" as const, effectSize: 0.15 + (i % 37) / 40, n1: 10 + ((i * 7) % 301), alpha: [0.05, 0.01, 0.025][i % 3]!, sides: (i % 2 ? 1 : 2) as 1 | 2 }));
+const evalUs = medianUsPerCall((i) => {
+  const x = varied[i % 500]!;
+  return twoMeansPower(x.effectSize, x.n1, x.n1, { alpha: x.alpha, sides: x.sides, allocationRatio: 1 });
+});
+const publicUs = medianUsPerCall((i) => solve(varied[i % 500]!));
+record("two-means: one power evaluation, varied inputs", evalUs);
+record("two-means: public solve() incl. validation, varied inputs", publicUs);
+results.push({ name: "public solve() ÷ evaluation alone (ratio)", medianUs: publicUs / evalUs, target: 2 });
+
 // The reach curve: 256 points for the demo's two-means scenario (pricing, sites and MDES per point).
 const rates = demoRateBook(1);
 const study = { startDate: "2027-07-01", sponsorCap: "2400000.00" };
@@ -138,7 +174,7 @@ console.log("Delta Ledger benchmark (median µs per call, one core)\n");
 for (const r of results) {
   const verdict = r.target === undefined ? "" : r.medianUs <= r.target ? `PASS (target ≤ ${r.target} µs)` : `FAIL (target ≤ ${r.target} µs)`;
   if (verdict.startsWith("FAIL")) failed++;
-  const unit = r.name.includes("(ms") ? "ms" : "µs";
+  const unit = r.name.includes("(ms") ? "ms" : r.name.includes("(ratio") ? "×" : "µs";
   console.log(`${r.name.padEnd(58)} ${r.medianUs.toFixed(2).padStart(9)} ${unit}  ${verdict.replace("µs", unit)}`);
 }
 console.log(failed ? `\n${failed} target(s) missed` : "\nall targets met");

@@ -46,7 +46,7 @@ export function PlannerPanel({
         {data.capBuys ? (
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
-            {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: the detectable effect is{" "}
+            {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: {effectName === "margin" ? "the smallest margin it supports is" : "the detectable effect is"}{" "}
             <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
         ) : null}

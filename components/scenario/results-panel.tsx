@@ -1,3 +1,4 @@
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
 import { ONE_OFF_MARK } from "@/lib/costing/types";
@@ -9,7 +10,7 @@ import { formatEffect } from "@/lib/power/effect-units";
 import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
-export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : "Effect size d");
+export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : name === "margin" ? "Margin" : "Effect size d");
 
 /**
  * One-off procedures are priced by the investigator, not the rate book: a short note beside the ledger
@@ -61,9 +62,10 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         <div>
           <dt className="text-sm text-ink-soft">Evaluable per arm</dt>
           <dd className="num text-xl font-medium" data-testid="result-n">
-            {p.n2 === null ? p.n1 : `${p.n1} + ${p.n2}`}
+            {p.armSizes ? `${p.arms} × ${p.n1} + ${p.n2}` : p.n2 === null ? p.n1 : `${p.n1} + ${p.n2}`}
           </dd>
           {p.clusters1 !== undefined ? <dd className="text-xs text-ink-soft">{`${p.clusters1} + ${p.clusters2} clusters`}</dd> : null}
+          {p.armSizes ? <dd className="text-xs text-ink-soft">{`${p.arms} treatment arms of ${p.n1} and a control of ${p.n2}`}</dd> : null}
         </div>
         {p.events !== undefined ? (
           // Time to event: the power comes from the number of events; the participants are what it takes to observe them.
@@ -101,7 +103,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <dd className="num text-lg">{formatEffect(results.effectName, results.targetEffect)}</dd>
         </div>
         <div>
-          <dt className="text-sm text-ink-soft">MDES at this n</dt>
+          <dt className="text-sm text-ink-soft">{results.effectName === "margin" ? "Smallest margin supportable at this n" : "MDES at this n"}</dt>
           <dd className="num text-lg" data-testid="result-mdes">
             {formatEffect(results.effectName, results.mdes)}
           </dd>
@@ -111,6 +113,9 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <dd className="num text-lg">{formatMoney(l.unit.perEvaluable, { cents: false })}</dd>
         </div>
       </dl>
+      <p className="text-sm text-ink-soft" data-testid="result-analysis">
+        Analysis: {analysisWords(p)}.
+      </p>
       {caps ? (
         <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">
           {caps.within

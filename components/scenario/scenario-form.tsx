@@ -6,7 +6,7 @@ import { useActionState, useEffect, useRef, useState, type ChangeEvent, type Rea
 import { saveScenarioAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import type { ScenarioResults } from "@/lib/planning/compute";
-import { designSchema, PROCEDURE_LABELS, UNCERTAINTY_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
+import { designSchema, offersMargin, PROCEDURE_LABELS, UNCERTAINTY_LABELS, isClusterDesign, isMeansDesign, isProportionsDesign, scenarioFormSchema, type ScenarioInputs } from "@/lib/planning/schema";
 import { designTemplate } from "@/lib/planning/templates";
 import { DESIGN_NAMES, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names";
 import type { Design } from "@/lib/power/schema";
@@ -162,6 +162,59 @@ function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSp
         </div>
       </div>
     </Section>
+  );
+}
+
+const HYPOTHESIS_OPTIONS = [
+  ["superiority", "Superiority"],
+  ["non-inferiority", "Non-inferiority (against a margin)"],
+  ["equivalence", "Equivalence (within a margin)"],
+] as const;
+const MULTIPLICITY_OPTIONS = [
+  ["dunnett", "Dunnett (many-to-one)"],
+  ["bonferroni", "Bonferroni"],
+  ["none", "None"],
+] as const;
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type AnyField = FieldMetadata<any>;
+type AnalysisFields = Record<"hypothesis" | "margin" | "marginRationale" | "baselineCorrelation" | "followUps" | "repeatedCorrelation" | "correlationSource" | "arms" | "multiplicity" | "controlAllocation", AnyField>;
+
+/**
+ * The claim and the planned analysis: the hypothesis with its margin and how it was chosen; for two
+ * means, the baseline adjustment, repeated measures and several arms against one control.
+ */
+function PlannedAnalysis({ d, design }: { d: AnalysisFields; design: Design }) {
+  if (!offersMargin(design)) return null;
+  const hypothesis = (d.hypothesis.value as string | undefined) ?? "superiority";
+  const margined = hypothesis === "non-inferiority" || hypothesis === "equivalence";
+  const marginHint =
+    design === "time-to-event"
+      ? "A hazard ratio above 1 no longer acceptable, e.g. 1.3"
+      : design === "two-proportions"
+        ? "A risk difference, e.g. 0.10; the target p2 is the expected proportion"
+        : "In the effect's units (outcome units with a mean difference, SD units with d); the target is then the expected true difference, 0 or negative allowed";
+  return (
+    <div className="mt-4 grid gap-4 border-t border-line pt-4 sm:grid-cols-2" data-testid="planned-analysis">
+      <Choice meta={d.hypothesis} label="Hypothesis" options={HYPOTHESIS_OPTIONS} />
+      {margined ? (
+        <>
+          <Text meta={d.margin} label="Margin" hint={marginHint} />
+          <Text meta={d.marginRationale} label="How the margin was chosen" wide />
+        </>
+      ) : null}
+      {design === "two-means" ? (
+        <>
+          <Text meta={d.baselineCorrelation} label="Baseline correlation" hint="Empty for no baseline adjustment; ANCOVA on the baseline, e.g. 0.5" />
+          <Text meta={d.followUps} label="Follow-up measurements" hint="Empty for one, or counted from the visits after month 0 when a correlation is given" />
+          <Text meta={d.repeatedCorrelation} label="Correlation between follow-ups" hint="Compound symmetry, e.g. 0.6" />
+          <Text meta={d.correlationSource} label="Where the correlations come from" wide />
+          <Text meta={d.arms} label="Treatment arms" hint="Each compared with one control; empty for a two-arm trial" />
+          <Choice meta={d.multiplicity} label="Multiplicity adjustment" options={MULTIPLICITY_OPTIONS} />
+          <Text meta={d.controlAllocation} label="Control allocation" hint="Control participants per treatment participant; √k is a common choice" />
+        </>
+      ) : null}
+    </div>
   );
 }
 
@@ -435,6 +488,7 @@ export function ScenarioForm({
             <Rationale meta={d.targetRationale} />
             <Text meta={d.sdSource} label="Where the SD or control proportion comes from" wide />
           </div>
+          <PlannedAnalysis d={d} design={design} />
           <PilotUpload studyId={studyId} kind={proportions ? "proportion" : "sd"} />
         </Section>
 

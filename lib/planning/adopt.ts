@@ -37,11 +37,16 @@ function awayFrom(value: number, none: number): number {
   return value >= none ? Math.ceil(value * STEP - 1e-9) / STEP : Math.floor(value * STEP + 1e-9) / STEP;
 }
 
-export function adoptCapBuys(i: ScenarioInputs, capBuys: NonNullable<CapBuys>, effectName: "effectSize" | "p2" | "hazardRatio"): AdoptedDraft {
+export function adoptCapBuys(i: ScenarioInputs, capBuys: NonNullable<CapBuys>, effectName: "effectSize" | "p2" | "hazardRatio" | "margin"): AdoptedDraft {
   const d = i.design;
   let design: ScenarioInputs["design"];
   let label: string;
-  if (effectName === "p2") {
+  if (effectName === "margin") {
+    // Under a margin the cap buys the smallest margin it can support; rounded up (a wider margin needs fewer participants), so the draft fits the cap.
+    const margin = awayFrom(capBuys.effect, d.design === "time-to-event" ? 1 : 0);
+    design = { ...d, margin };
+    label = `margin ${margin}`;
+  } else if (effectName === "p2") {
     const p1 = i.pilot?.kind === "proportion" ? i.pilot.estimate : (d.p1 ?? 0);
     const p2 = Math.min(0.9999, Math.max(0.0001, awayFrom(capBuys.effect, p1)));
     design = { ...d, p2 };

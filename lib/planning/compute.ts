@@ -9,7 +9,7 @@ import { buildFunnel } from "@/lib/power/funnel";
 import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type PowerResult } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
-import type { ScenarioInputs } from "./schema";
+import { marginClaim, offersMargin, type ScenarioInputs } from "./schema";
 import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
 /** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
@@ -78,7 +78,22 @@ function powerInputWith(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n
   if (d.design === "time-to-event") Object.assign(raw, { controlMedian: d.controlMedian, accrualMonths: accrualMonths ?? d.accrualMonths, followUpMonths: d.followUpMonths });
   if (solveFor !== "power") raw.power = d.power;
   if (solveFor !== "n") raw[names.n] = n;
-  if (solveFor !== "effect") {
+  const margined = marginClaim(d);
+  if (offersMargin(d.design) && d.hypothesis) raw.hypothesis = margined ? d.hypothesis : "superiority";
+  // With a margin the effect fields hold the expected difference and stay; the margin is what "effect" solves for.
+  if (margined && solveFor !== "effect") raw.margin = d.margin;
+  if (d.design === "two-means") {
+    const r = d.followUps ?? (d.repeatedCorrelation !== undefined ? followUpsFromVisits(i) : undefined);
+    Object.assign(raw, {
+      baselineCorrelation: d.baselineCorrelation,
+      followUps: r,
+      repeatedCorrelation: r !== undefined && r > 1 ? d.repeatedCorrelation : undefined,
+      arms: d.arms,
+      multiplicity: d.arms !== undefined ? d.multiplicity : undefined,
+      controlAllocation: d.arms !== undefined ? d.controlAllocation : undefined,
+    });
+  }
+  if (solveFor !== "effect" || margined) {
     if (names.effect === "effectSize") {
       // The form says which of the two is the input; older stored scenarios prefer the difference with its SD.
       const useDifference = d.effectInput === "difference" || (d.effectInput !== "d" && d.meanDifference !== undefined && sd !== undefined);
@@ -95,9 +110,15 @@ function powerInputWith(i: ScenarioInputs, solveFor: "n" | "power" | "effect", n
   return parsed.data;
 }
 
-/** The effect the power engine reports, whatever the design calls it. */
+/** The effect the power engine reports, whatever the design calls it; with a margin, the margin (solved: the smallest supportable). */
 export function effectOf(r: PowerResult): number {
+  if (r.hypothesis === "non-inferiority" || r.hypothesis === "equivalence") return r.margin ?? Number.NaN;
   return r.effectSize ?? r.p2 ?? r.hazardRatio ?? Number.NaN;
+}
+
+/** Repeated measures: the visit schedule supplies the follow-ups, the visits after month 0 (at least one). */
+export function followUpsFromVisits(i: ScenarioInputs): number {
+  return Math.max(1, i.visits.filter((v) => v.month > 0).length);
 }
 
 /** The unit the sample size is counted in: participants per arm, or clusters per arm. */
@@ -180,7 +201,8 @@ export type ScenarioResults = {
   computedAt: string;
   edition: { id: number | null; label: string | null; effectiveDate: string | null };
   power: PowerResult;
-  effectName: "effectSize" | "p2" | "hazardRatio";
+  /** "margin" under non-inferiority or equivalence: targetEffect is the margin, mdes the smallest margin supportable. */
+  effectName: "effectSize" | "p2" | "hazardRatio" | "margin";
   targetEffect: number;
   mdes: number;
   powerAtTarget: number;
@@ -220,7 +242,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     computedAt: new Date().toISOString(),
     edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },
     power: sized,
-    effectName: names.effect as ScenarioResults["effectName"],
+    effectName: sized.hypothesis === "non-inferiority" || sized.hypothesis === "equivalence" ? "margin" : (names.effect as ScenarioResults["effectName"]),
     targetEffect: effectOf(sized),
     mdes: effectOf(mdesResult),
     powerAtTarget: sized.power,

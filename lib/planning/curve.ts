@@ -85,7 +85,9 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const at = (n: number) => pointAt(i, rates, study, n, parsed);
   const first = at(nMin);
   const names = powerInput(i, "n");
-  const effectName = names.design === "time-to-event" ? "hazardRatio" : names.design.endsWith("proportions") ? "p2" : "effectSize";
+  // With a margin, each point's figure is the smallest margin that budget can support.
+  const margined = "hypothesis" in names && (names.hypothesis === "non-inferiority" || names.hypothesis === "equivalence");
+  const effectName = margined ? "margin" : names.design === "time-to-event" ? "hazardRatio" : names.design.endsWith("proportions") ? "p2" : "effectSize";
   if (!first) return { points: [], effectName, minBudget: null, maxBudget };
   // The largest n within the largest budget: gallop, then bisect on the approximate cost (no MDES needed).
   const budgetAt = (n: number) => priceAt(i, rates, study, n, parsed)?.totals.total ?? null;

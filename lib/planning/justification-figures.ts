@@ -7,6 +7,7 @@
  */
 import { formatMoney } from "@/lib/format/money";
 import { designName } from "@/lib/power/design-names";
+import { HYPOTHESIS_NAMES } from "@/lib/power/designs/hypothesis";
 import type { ScenarioResults, StudyContext } from "./compute";
 import { givenPrior, type ScenarioInputs } from "./schema";
 import { scenarioAssurance } from "./assurance";
@@ -37,7 +38,12 @@ export function justificationFigures(i: ScenarioInputs, r: ScenarioResults, stud
   const add = (key: string, label: string, value: string) => out.push({ key, label, value });
   add("design", "Design", designName(d.design));
   add("outcome", "Primary outcome", d.outcome);
-  if (r.effectName === "effectSize") {
+  if (r.effectName === "margin") {
+    // The claim (added only when there is a margin, so that texts written before it existed still match).
+    add("hypothesis", "Hypothesis", HYPOTHESIS_NAMES[p.hypothesis ?? "superiority"]);
+    add("margin", "Margin", num(r.targetEffect));
+    add("expectedDifference", "Expected difference", num(p.expectedDifference ?? 0));
+  } else if (r.effectName === "effectSize") {
     if (d.meanDifference !== undefined && p.sdUsed !== undefined) {
       add("meanDifference", "Mean difference", num(d.meanDifference));
       add("sd", "SD", num(p.sdUsed));
@@ -47,8 +53,11 @@ export function justificationFigures(i: ScenarioInputs, r: ScenarioResults, stud
     add("p1", "Control proportion", num(p.p1 ?? 0));
     add("targetEffect", "Intervention proportion", num(r.targetEffect));
   } else add("targetEffect", "Hazard ratio", num(r.targetEffect));
+  if (p.baselineCorrelation !== undefined) add("baselineCorrelation", "Baseline correlation", num(p.baselineCorrelation));
+  if (p.followUps !== undefined && p.followUps > 1) add("followUps", "Follow-up measurements", `${p.followUps}, correlated ${num(p.repeatedCorrelation ?? 0)}`);
+  if (p.arms !== undefined) add("arms", "Treatment arms", `${p.arms}, ${p.multiplicity}`);
   if (i.pilot) add("pilot", "Pilot data", `${i.pilot.kind === "sd" ? "SD" : "proportion"} from n = ${i.pilot.n}, ${i.pilot.use === "upper" ? "upper confidence limit" : "estimate"}`);
-  add("alpha", "Alpha", `${d.alpha} (${d.sides === 2 ? "two-sided" : "one-sided"})`);
+  add("alpha", "Alpha", `${d.alpha} (${r.effectName !== "margin" && d.sides === 2 ? "two-sided" : "one-sided"})`);
   add("targetPower", "Target power", `${Math.round(d.power * 100)}%`);
   if (d.design !== "one-mean") add("allocation", "Allocation", d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`);
   add("evaluable", p.n2 === null ? "Evaluable participants" : "Evaluable per arm", p.n2 === null ? count(p.n1) : `${count(p.n1)} and ${count(p.n2)}`);

@@ -34,7 +34,11 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
       : r.effectName === "p2"
         ? `a change from ${f(p.p1 ?? 0)} to ${f(r.targetEffect)} in the proportion with the outcome`
         : `a hazard ratio of ${f(r.targetEffect)}`;
-  parts.push(`It is powered to detect ${target}${d.targetRationale ? `, chosen because ${own(d.targetRationale, "why this target effect").replace(/\.$/, "")}` : ""}.`);
+  const margined = p.hypothesis === "non-inferiority" || p.hypothesis === "equivalence";
+  if (margined) parts.push(claimSentence(i, r));
+  else parts.push(`It is powered to detect ${target}${d.targetRationale ? `, chosen because ${own(d.targetRationale, "why this target effect").replace(/\.$/, "")}` : ""}.`);
+  const analysis = analysisSentences(i, r);
+  if (analysis) parts.push(analysis);
   if (i.pilot) {
     const val = i.pilot.use === "upper" && i.pilot.upperLimit ? i.pilot.upperLimit : i.pilot.estimate;
     parts.push(
@@ -43,8 +47,13 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
         : `The control proportion of ${f(val)} was estimated from pilot data (n = ${i.pilot.n}).`,
     );
   } else if (d.sdSource) parts.push(`The planning values come from ${own(d.sdSource, "where the planning values come from").replace(/\.$/, "")}.`);
-  parts.push(`With ${d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha} and ${Math.round(d.power * 100)}% target power${d.design === "one-mean" ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`}, the method used (${p.method}) gives`);
-  let numbers = p.n2 === null ? `${p.n1} evaluable participants` : `${p.n1} and ${p.n2} evaluable participants per arm (${p.nTotal} in total)`;
+  parts.push(`With ${margined ? "one-sided" : d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha}${p.hypothesis === "equivalence" ? " for each of the two tests" : ""} and ${Math.round(d.power * 100)}% target power${d.design === "one-mean" ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`}, the method used (${p.method}) gives`);
+  let numbers =
+    p.armSizes !== undefined
+      ? `${p.n1} evaluable participants in each of the ${p.arms} treatment arms and ${p.n2} in the control arm (${p.nTotal} in total)`
+      : p.n2 === null
+        ? `${p.n1} evaluable participants`
+        : `${p.n1} and ${p.n2} evaluable participants per arm (${p.nTotal} in total)`;
   if (p.designEffect !== undefined) numbers += `, in ${p.clusters1} and ${p.clusters2} clusters of mean size ${f(p.clusterSize ?? 0, 1)} (ICC ${f(p.icc ?? 0)}, CV of cluster size ${f(p.cv ?? 0)}, design effect ${f(p.designEffect)})`;
   if (p.events !== undefined) numbers += `, requiring ${Math.round(p.events)} events with ${d.accrualMonths} months of accrual and ${d.followUpMonths} months of further follow-up (control median ${d.controlMedian} months)`;
   parts[parts.length - 1] += ` ${numbers}; achieved power is ${f(p.power)}.`;
@@ -53,10 +62,14 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
     `Allowing ${f(fn.attrition * 100, 1)}% attrition and ${f(fn.screenFailure * 100, 1)}% screen failure (each inflated by division and rounded up), ${fn.total.enrolled} participants will be enrolled from ${fn.total.screened} screened.`,
   );
   parts.push(`Recruitment at ${r.sites} site${r.sites === 1 ? "" : "s"} enrolling ${f(i.recruitment.ratePerSiteMonth, 2)} participants per site per month takes about ${r.ledger.timeline.monthsToEnrol} months.`);
-  parts.push(`At this size the minimum detectable ${r.effectName === "effectSize" ? "standardized effect" : r.effectName === "p2" ? "intervention proportion" : "hazard ratio"} is ${f(r.mdes)}, and the study costs ${formatMoney(r.ledger.totals.total)} in total.`);
+  parts.push(
+    r.effectName === "margin"
+      ? `At this size the smallest margin the study can support is ${f(r.mdes)}, and the study costs ${formatMoney(r.ledger.totals.total)} in total.`
+      : `At this size the minimum detectable ${r.effectName === "effectSize" ? "standardized effect" : r.effectName === "p2" ? "intervention proportion" : "hazard ratio"} is ${f(r.mdes)}, and the study costs ${formatMoney(r.ledger.totals.total)} in total.`,
+  );
   if (r.capBuys && study.sponsorCap) {
     parts.push(
-      `The sponsor's cap of ${formatMoney(study.sponsorCap, { cents: false })} would fund up to ${r.capBuys.n2 === null ? `${r.capBuys.n1} evaluable participants` : `${r.capBuys.n1} and ${r.capBuys.n2} evaluable participants per arm`}, able to detect ${f(r.capBuys.effect)}.`,
+      `The sponsor's cap of ${formatMoney(study.sponsorCap, { cents: false })} would fund up to ${r.capBuys.n2 === null ? `${r.capBuys.n1} evaluable participants` : `${r.capBuys.n1} and ${r.capBuys.n2} evaluable participants per arm`}, ${r.effectName === "margin" ? "supporting a margin as small as" : "able to detect"} ${f(r.capBuys.effect)}.`,
     );
   }
   const assured = assuranceSentence(i, r);
@@ -73,4 +86,59 @@ function assuranceSentence(i: ScenarioInputs, r: ScenarioResults): string | null
   if (!a) return null;
   const what = a.prior.unit === "log-hr" ? `a hazard ratio of ${f(prior.mean)} (SD ${f(prior.sd)} on the log scale)` : `an effect of ${f(prior.mean)} (SD ${f(prior.sd)})`;
   return `Allowing for uncertainty in the true effect, expressed as a normal prior centred on ${what}${prior.source ? ` from ${own(prior.source, "where the expected effect comes from").replace(/\.$/, "")}` : ""}, the probability that the study succeeds (assurance; O'Hagan, Stevens and Campbell 2005) is ${f(a.assurance)}.`;
+}
+
+/** The margin's units, as the analysis states the difference. */
+function marginWords(i: ScenarioInputs, r: ScenarioResults): { margin: string; expected: string } {
+  const d = i.design;
+  const p = r.power;
+  const m = f(p.margin ?? 0);
+  if (d.design === "time-to-event") return { margin: `a hazard ratio of ${m}`, expected: `an expected hazard ratio of ${f(p.hazardRatio ?? 1)}` };
+  if (d.design === "two-proportions") return { margin: `${m} in the difference of proportions (intervention − control)`, expected: `expected proportions of ${f(p.p1 ?? 0)} (control) and ${f(p.p2 ?? 0)} (intervention)` };
+  const units = p.sdUsed !== undefined ? "outcome units" : "standard deviations";
+  return { margin: `${m} ${units}`, expected: `an expected true difference of ${f(p.expectedDifference ?? 0)} ${units}` };
+}
+
+/**
+ * The claim as the analysis makes it (CONSORT's extension for non-inferiority and equivalence trials:
+ * the margin and how it was chosen).
+ */
+function claimSentence(i: ScenarioInputs, r: ScenarioResults): string {
+  const d = i.design;
+  const { margin, expected } = marginWords(i, r);
+  const why = d.marginRationale ? ` The margin was chosen because ${own(d.marginRationale, "how the margin was chosen").replace(/\.$/, "")}.` : " [How the margin was chosen: still to be stated.]";
+  const ci = Math.round((1 - d.alpha) * 1000) / 10;
+  const claim =
+    r.power.hypothesis === "non-inferiority"
+      ? d.design === "time-to-event"
+        ? `It is designed to show that the intervention is non-inferior to the control: the upper limit of the one-sided ${ci}% confidence interval for the hazard ratio (intervention ÷ control) must lie below the non-inferiority margin of ${margin}, assuming ${expected}.`
+        : `It is designed to show that the intervention is non-inferior to the control: the lower limit of the one-sided ${ci}% confidence interval for the difference (intervention − control) must lie above minus the non-inferiority margin of ${margin}, assuming ${expected}.`
+      : `It is designed to show that the intervention and the control are equivalent: by two one-sided tests, each at alpha = ${d.alpha}, the ${Math.round((1 - 2 * d.alpha) * 1000) / 10}% confidence interval for the ${d.design === "time-to-event" ? "hazard ratio must lie between the inverse of the margin and the margin, " : "difference must lie within plus and minus the equivalence margin of "}${margin}, assuming ${expected}.`;
+  return claim + why;
+}
+
+/** The adjustment and its correlations with their source, and several arms' multiplicity method. */
+function analysisSentences(i: ScenarioInputs, r: ScenarioResults): string {
+  const d = i.design;
+  const p = r.power;
+  const out: string[] = [];
+  const source = d.correlationSource ? ` (${own(d.correlationSource, "where the correlations come from").replace(/\.$/, "")})` : "";
+  if (p.followUps !== undefined && p.followUps > 1) {
+    out.push(`The outcome is the mean of ${p.followUps} follow-up measurements, assumed to correlate ${p.repeatedCorrelation} with one another${source} (compound symmetry; Frison & Pocock 1992).`);
+  }
+  if (p.baselineCorrelation !== undefined) {
+    out.push(
+      `The analysis adjusts for the baseline value by ANCOVA; with an assumed correlation of ${p.baselineCorrelation} between baseline and outcome${p.followUps && p.followUps > 1 ? "" : source}, the outcome variance is multiplied by ${f(p.varianceFactor ?? 1)}${p.followUps && p.followUps > 1 ? " (Frison & Pocock 1992)" : " = 1 − ρ² (Borm, Fransen & Lemmens 2007)"}, and the t test uses n1 + n2 − 3 degrees of freedom.`,
+    );
+  }
+  if (p.arms !== undefined) {
+    const how =
+      p.multiplicity === "dunnett"
+        ? `Dunnett's procedure controls the familywise error rate (critical value ${f(p.criticalValue ?? 0)} from the multivariate t)`
+        : p.multiplicity === "bonferroni"
+          ? `a Bonferroni adjustment tests each comparison at alpha / ${p.arms} (critical value ${f(p.criticalValue ?? 0)})`
+          : "no multiplicity adjustment is made, so the familywise error rate exceeds alpha";
+    out.push(`Each of ${p.arms} treatment arms is compared with one control arm (control allocation ${f(p.controlAllocation ?? 1)} per treatment participant); ${how}; power is per comparison.`);
+  }
+  return out.join(" ");
 }

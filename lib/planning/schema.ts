@@ -6,6 +6,7 @@ import { z } from "zod";
 import { COST_CATEGORIES } from "@/lib/costing/types";
 import { percentToShare } from "@/lib/format/percent-input";
 import { ALPHA_MIN, DESIGNS, type Design } from "@/lib/power/schema";
+import { HYPOTHESES, MULTIPLICITY } from "@/lib/power/designs/hypothesis";
 
 const n = (label: string) => z.coerce.number({ error: `${label}: enter a number.` }).refine(Number.isFinite, `${label}: enter a number.`);
 const opt = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === "" || v === null ? undefined : v), schema.optional());
@@ -34,8 +35,9 @@ export const designSchema = z.object({
   allocationRatio: opt(n("Allocation ratio (n2 / n1)").min(0.1, "Allocation ratio (n2 / n1): 0.1 to 10.").max(10, "Allocation ratio (n2 / n1): 0.1 to 10.")),
   // Absent in scenarios stored before the choice existed: then a difference with its SD wins over d.
   effectInput: opt(z.enum(EFFECT_INPUTS, { error: "Give the effect as: choose a mean difference and SD, or a standardized effect d." })),
-  effectSize: opt(n("Standardized effect d").gt(0, "Standardized effect d must be above 0.").max(10, "Standardized effect d must be at most 10.")),
-  meanDifference: opt(n("Target mean difference").refine((v) => v !== 0, "Target mean difference must not be 0.")),
+  // Above 0 (and the difference not 0) under superiority; with a margin, the expected true difference, which may be 0 or negative (designRequirements).
+  effectSize: opt(n("Standardized effect d").min(-10, "Standardized effect d must be at least −10.").max(10, "Standardized effect d must be at most 10.")),
+  meanDifference: opt(n("Target mean difference")),
   sd: opt(n("Outcome SD").gt(0, "Outcome SD must be above 0.")),
   p1: opt(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3.")),
   p2: opt(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45.")),
@@ -50,6 +52,17 @@ export const designSchema = z.object({
   accrualMonths: opt(n("Accrual months").gt(0, "Accrual months must be above 0.")),
   followUpMonths: opt(n("Further follow-up (months)").min(0, "Further follow-up (months): 0 or more.")),
   targetRationale: text("Where the target effect comes from", 1000).default(""),
+  // The planned analysis (issue 16): the claim and its margin, the adjustment, several arms.
+  hypothesis: opt(z.enum(HYPOTHESES, { error: "Hypothesis: choose superiority, non-inferiority or equivalence." })),
+  margin: opt(n("Margin").gt(0, "Margin: enter a number above 0, like 0.5.")),
+  marginRationale: text("How the margin was chosen", 1000).optional(),
+  baselineCorrelation: opt(n("Baseline correlation").min(0, "Baseline correlation: from 0 to below 1, like 0.5.").lt(1, "Baseline correlation: from 0 to below 1, like 0.5.")),
+  followUps: opt(n("Follow-up measurements").int("Follow-up measurements: a whole number from 1 to 50, like 3.").min(1, "Follow-up measurements: a whole number from 1 to 50, like 3.").max(50, "Follow-up measurements: a whole number from 1 to 50, like 3.")),
+  repeatedCorrelation: opt(n("Correlation between follow-ups").min(0, "Correlation between follow-ups: from 0 to below 1, like 0.6.").lt(1, "Correlation between follow-ups: from 0 to below 1, like 0.6.")),
+  correlationSource: text("Where the correlations come from", 500).optional(),
+  arms: opt(n("Treatment arms").int("Treatment arms: a whole number from 2 to 20, or empty for one.").min(2, "Treatment arms: a whole number from 2 to 20, or empty for one.").max(20, "Treatment arms: a whole number from 2 to 20, or empty for one.")),
+  multiplicity: opt(z.enum(MULTIPLICITY, { error: "Multiplicity adjustment: choose none, Bonferroni or Dunnett." })),
+  controlAllocation: opt(n("Control allocation").min(0.1, "Control allocation: 0.1 to 10 (1 for equal arms).").max(10, "Control allocation: 0.1 to 10 (1 for equal arms).")),
   sdSource: text("Where the SD or control proportion comes from", 500).default(""),
 });
 
@@ -166,6 +179,10 @@ export const pilotSchema = z.object({
 export const isClusterDesign = (design: Design) => design.startsWith("cluster-");
 export const isMeansDesign = (design: Design) => design === "two-means" || design === "one-mean" || design === "cluster-two-means";
 export const isProportionsDesign = (design: Design) => design.endsWith("proportions");
+/** Designs that may claim non-inferiority or equivalence. */
+export const offersMargin = (design: Design) => design === "two-means" || design === "one-mean" || design === "two-proportions" || design === "time-to-event";
+/** Whether the scenario's claim is tested against a margin. */
+export const marginClaim = (d: { design: Design; hypothesis?: string }) => offersMargin(d.design) && (d.hypothesis === "non-inferiority" || d.hypothesis === "equivalence");
 
 type Issue = { path: (string | number)[]; message: string };
 
@@ -183,6 +200,20 @@ export function designRequirements(v: { design?: Partial<z.infer<typeof designSc
   };
   const design = d.design;
   if (design !== "one-mean") need("allocationRatio", d.allocationRatio, "Allocation ratio (n2 / n1): enter it, like 1 for equal arms.");
+  const margined = marginClaim({ design, hypothesis: d.hypothesis });
+  if (margined) {
+    const units = design === "time-to-event" ? "a hazard ratio above 1, like 1.3" : design === "two-proportions" ? "a risk difference, like 0.10" : "in the effect's units, like 5 (or 0.5 in SD units)";
+    need("margin", d.margin, `Margin: enter the non-inferiority or equivalence margin, ${units}.`);
+    if (design === "time-to-event" && d.margin !== undefined && d.margin <= 1) out.push({ path: ["design", "margin"], message: "Margin: for time to event enter the hazard ratio no longer acceptable, above 1, like 1.3." });
+    if (design === "two-proportions" && d.margin !== undefined && d.margin >= 1) out.push({ path: ["design", "margin"], message: "Margin: a risk difference below 1, like 0.10." });
+  } else {
+    if (d.effectSize !== undefined && d.effectSize <= 0) out.push({ path: ["design", "effectSize"], message: "Standardized effect d must be above 0." });
+    if (d.meanDifference === 0) out.push({ path: ["design", "meanDifference"], message: "Target mean difference must not be 0." });
+  }
+  if (design === "two-means") {
+    if ((d.followUps ?? 1) > 1 && d.repeatedCorrelation === undefined) out.push({ path: ["design", "repeatedCorrelation"], message: "Correlation between follow-ups: enter it with 2 or more follow-up measurements, like 0.6." });
+    if (d.arms !== undefined && d.hypothesis === "equivalence") out.push({ path: ["design", "arms"], message: "Treatment arms: equivalence is offered for two groups only; leave Treatment arms empty or choose another hypothesis." });
+  }
   if (isMeansDesign(design)) {
     const pilotSd = v.pilot?.kind === "sd";
     if (d.effectInput === "d") need("effectSize", d.effectSize, "Standardized effect d: enter a number above 0, like 0.4.");
@@ -194,7 +225,7 @@ export function designRequirements(v: { design?: Partial<z.infer<typeof designSc
   if (isProportionsDesign(design)) {
     if (v.pilot?.kind !== "proportion") need("p1", d.p1, "Control proportion (p1): enter a value between 0 and 1, like 0.3.");
     need("p2", d.p2, "Target intervention proportion (p2): enter a value between 0 and 1, like 0.45.");
-    if (d.p1 !== undefined && d.p1 === d.p2) out.push({ path: ["design", "p2"], message: "Target intervention proportion (p2) must differ from the control proportion (p1)." });
+    if (d.p1 !== undefined && d.p1 === d.p2 && !margined) out.push({ path: ["design", "p2"], message: "Target intervention proportion (p2) must differ from the control proportion (p1)." });
   }
   if (isClusterDesign(design)) {
     need("clusterSize", d.clusterSize, "Mean cluster size: enter the participants per cluster, like 20.");

@@ -11,7 +11,7 @@ export function effectContext(measure: "d" | "h", value: number): EffectContext 
   const v = Math.abs(value);
   const { small, medium, large } = COHEN_BENCHMARKS;
   const band = v < small ? "below small" : v < medium ? "small" : v < large ? "medium" : v < 1.2 ? "large" : "very large";
-  return { measure, value: v, band, benchmarks: { ...COHEN_BENCHMARKS }, caution: BENCHMARK_CAUTION };
+  return { measure, value: v, band, benchmarks: { small, medium, large }, caution: BENCHMARK_CAUTION };
 }
 
 export function standardWarnings(opts: {

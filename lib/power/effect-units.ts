@@ -6,7 +6,7 @@
  */
 import { quantityNames, type Design } from "./schema";
 
-export type EffectName = "effectSize" | "p2" | "hazardRatio";
+export type EffectName = "effectSize" | "p2" | "hazardRatio" | "margin";
 
 export type EffectUnit = {
   name: EffectName;
@@ -22,6 +22,8 @@ const UNITS: Record<EffectName, EffectUnit> = {
   effectSize: { name: "effectSize", symbol: "d", noun: "standardized effect d", suffix: "" },
   p2: { name: "p2", symbol: "p2", noun: "intervention proportion p2", suffix: " (proportion)" },
   hazardRatio: { name: "hazardRatio", symbol: "HR", noun: "hazard ratio HR", suffix: "" },
+  // Non-inferiority and equivalence: the margin, in the units it was given (a difference, a risk difference or a hazard ratio).
+  margin: { name: "margin", symbol: "margin", noun: "smallest supportable margin", suffix: "" },
 };
 
 /** The unit of an effect field's name (as results and curves report it); an unknown name is read as d. */
@@ -42,7 +44,7 @@ export function formatEffect(name: string, value: number | null | undefined, dig
   const u = effectUnit(name);
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   const v = value.toFixed(digits);
-  return u.name === "hazardRatio" ? `HR ${v}` : `${u.symbol} = ${v}${u.suffix}`;
+  return u.name === "hazardRatio" ? `HR ${v}` : u.name === "margin" ? `margin ${v}` : `${u.symbol} = ${v}${u.suffix}`;
 }
 
 /** Whether all these effects share one unit, so that one axis or one column may hold them. */

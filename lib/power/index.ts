@@ -8,3 +8,6 @@ export { pilotSdUpperLimit } from "./pilot";
 export { designEffect } from "./designs/means";
 export { COHEN_BENCHMARKS, BENCHMARK_CAUTION, effectContext } from "./context";
 export { tTestPower, noncentralTCdf, studentQuantile, studentCdf } from "./distributions";
+export { HYPOTHESES, HYPOTHESIS_NAMES, MULTIPLICITY, type Hypothesis, type Multiplicity } from "./designs/hypothesis";
+export { varianceFactor } from "./designs/analysis";
+export { dunnettCritical } from "./multivariate-t";

@@ -6,6 +6,7 @@
  */
 import { z } from "zod";
 import "@/lib/validation/plain-messages";
+import { HYPOTHESES, MULTIPLICITY, type Hypothesis } from "./designs/hypothesis";
 
 export const DESIGNS = ["two-means", "one-mean", "two-proportions", "cluster-two-means", "cluster-two-proportions", "time-to-event"] as const;
 export type Design = (typeof DESIGNS)[number];
@@ -42,6 +43,14 @@ export const POWER_LABELS = {
   followUpMonths: "Further follow-up (months)",
   attrition: "Attrition",
   screenFailure: "Screen failure",
+  hypothesis: "Hypothesis",
+  margin: "Margin",
+  baselineCorrelation: "Baseline correlation",
+  followUps: "Follow-up measurements",
+  repeatedCorrelation: "Correlation between follow-ups",
+  arms: "Treatment arms",
+  multiplicity: "Multiplicity adjustment",
+  controlAllocation: "Control allocation",
 } as const;
 const L = POWER_LABELS;
 
@@ -95,8 +104,9 @@ const pilotSd = z.object({
 });
 
 const standardizedEffect = {
+  // Above 0 under superiority; with a margin, the expected true difference, which may be 0 or negative (checked below).
   effectSize: num(L.effectSize, "0.5")
-    .gt(0, "Effect size (d): enter a number above 0, like 0.5 (the size only; the direction follows the hypothesis).")
+    .min(-10, "Effect size (d): enter at least −10; a difference of more than 10 standard deviations is not a plausible plan.")
     .max(10, "Effect size (d): enter at most 10; a difference of more than 10 standard deviations is not a plausible plan.")
     .optional(),
   meanDifference: num(L.meanDifference, "3").optional(),
@@ -104,10 +114,42 @@ const standardizedEffect = {
   pilotSd: pilotSd.optional(),
 };
 
-const twoMeans = z.object({ design: z.literal("two-means"), ...common, ...twoGroup, ...standardizedEffect, n1: count(L.n1, 2).optional(), n2: count(L.n2, 1).optional() });
-const oneMean = z.object({ design: z.literal("one-mean"), ...common, ...standardizedEffect, n1: count(L.n1OneGroup, 2).optional() });
+/** The claim the analysis makes: superiority (the default) or, against a margin, non-inferiority or equivalence. */
+const claim = {
+  hypothesis: z.enum(HYPOTHESES, { error: "Hypothesis: choose superiority, non-inferiority or equivalence." }).default("superiority"),
+  margin: num(L.margin, "0.5").gt(0, "Margin: enter a number above 0, like 0.5.").optional(),
+};
+const correlation = (label: string, example: string) => between(label, example, 0, 1, true);
 
-const proportionsMethod = z.enum(["normal", "continuity-corrected", "arcsine"], { error: "Method: choose the normal approximation (normal), with continuity correction (continuity-corrected) or arcsine." });
+/** The planned analysis of a continuous outcome, and several arms against one control. */
+const plannedAnalysis = {
+  baselineCorrelation: correlation(L.baselineCorrelation, "0.5").optional(),
+  followUps: z
+    .number({ error: "Follow-up measurements: enter a whole number from 1 to 50, like 3." })
+    .int("Follow-up measurements: enter a whole number from 1 to 50, like 3.")
+    .min(1, "Follow-up measurements: enter a whole number from 1 to 50, like 3.")
+    .max(50, "Follow-up measurements: enter a whole number from 1 to 50, like 3.")
+    .optional(),
+  repeatedCorrelation: correlation(L.repeatedCorrelation, "0.6").optional(),
+  arms: z
+    .number({ error: "Treatment arms: enter a whole number from 2 to 20, each compared with the control." })
+    .int("Treatment arms: enter a whole number from 2 to 20, each compared with the control.")
+    .min(2, "Treatment arms: enter a whole number from 2 to 20, each compared with the control.")
+    .max(20, "Treatment arms: enter a whole number from 2 to 20, each compared with the control.")
+    .optional(),
+  multiplicity: z.enum(MULTIPLICITY, { error: "Multiplicity adjustment: choose none, bonferroni or dunnett." }).optional(),
+  controlAllocation: num(L.controlAllocation, "1.41")
+    .min(0.1, "Control allocation: enter the control arm's size per participant in each treatment arm, from 0.1 to 10 (1 for equal arms; √k is a common choice).")
+    .max(10, "Control allocation: enter the control arm's size per participant in each treatment arm, from 0.1 to 10 (1 for equal arms; √k is a common choice).")
+    .optional(),
+};
+
+const twoMeans = z.object({ design: z.literal("two-means"), ...common, ...twoGroup, ...standardizedEffect, ...claim, ...plannedAnalysis, n1: count(L.n1, 2).optional(), n2: count(L.n2, 1).optional() });
+const oneMean = z.object({ design: z.literal("one-mean"), ...common, ...standardizedEffect, ...claim, n1: count(L.n1OneGroup, 2).optional() });
+
+const proportionsMethod = z.enum(["normal", "continuity-corrected", "arcsine", "farrington-manning"], {
+  error: "Method: choose the normal approximation (normal), with continuity correction (continuity-corrected), arcsine, or, with a margin, farrington-manning.",
+});
 const direction = z.enum(["increase", "decrease"], { error: "Direction of the effect: choose whether the intervention proportion lies above (increase) or below (decrease) the control proportion." }).default("increase");
 
 const twoProportions = z.object({
@@ -116,8 +158,10 @@ const twoProportions = z.object({
   ...twoGroup,
   p1: proportion(L.p1, "0.30"),
   p2: proportion(L.p2, "0.45").optional(),
-  method: proportionsMethod.default("normal"),
+  // Default: normal under superiority, Farrington–Manning with a margin (see solve.ts).
+  method: proportionsMethod.optional(),
   direction,
+  ...claim,
   n1: count(L.n1, 2).optional(),
   n2: count(L.n2, 1).optional(),
 });
@@ -155,6 +199,7 @@ const timeToEvent = z.object({
   controlMedian: months(L.controlMedian, "12", 0, false, 1200),
   accrualMonths: months(L.accrualMonths, "24", 0, false, 600),
   followUpMonths: months(L.followUpMonths, "12", 0, true, 600),
+  ...claim,
   n1: count(L.n1, 2).optional(),
 });
 
@@ -163,7 +208,7 @@ const baseSchema = z.discriminatedUnion("design", [twoMeans, oneMean, twoProport
   error: (issue) => (issue.code === "invalid_union" ? `Design: choose one of ${DESIGN_LIST}.` : undefined),
 });
 
-type Base = z.infer<typeof baseSchema>;
+export type Base = z.infer<typeof baseSchema>;
 
 /** The name of each design's sample-size and effect fields, for messages and the solver. */
 export function quantityNames(design: Design): { n: string; effect: string } {
@@ -175,19 +220,23 @@ export function quantityNames(design: Design): { n: string; effect: string } {
 /** What the calculator can find, in the words of its question. */
 export type Answer = "n" | "power" | "effect";
 
+/** Whether a hypothesis is tested against a margin (then the margin, not the effect, is what can be found). */
+export const withMargin = (h: Hypothesis | undefined) => h === "non-inferiority" || h === "equivalence";
+
 /** The labels of a design's power, sample-size and effect fields, and the answer each one is. */
-export function quantityLabels(design: Design): Record<Answer, { field: string; answer: string }> {
+export function quantityLabels(design: Design, hypothesis?: Hypothesis): Record<Answer, { field: string; answer: string }> {
   const cluster = design.startsWith("cluster-");
   const nLabel = cluster ? L.clustersPerArm : design === "one-mean" ? L.n1OneGroup : L.n1;
   const effectLabel = design === "time-to-event" ? L.hazardRatio : design.endsWith("proportions") ? L.p2 : L.effectSize;
   return {
     n: { field: nLabel, answer: cluster ? "the clusters needed" : "the participants needed" },
     power: { field: L.power, answer: "the power reached" },
-    effect: { field: effectLabel, answer: "the smallest effect detectable" },
+    effect: withMargin(hypothesis) ? { field: L.margin, answer: "the smallest margin the study can support" } : { field: effectLabel, answer: "the smallest effect detectable" },
   };
 }
 
 function hasEffect(v: Base): boolean {
+  if ("hypothesis" in v && withMargin(v.hypothesis)) return v.margin !== undefined;
   if (v.design === "time-to-event") return v.hazardRatio !== undefined;
   if (v.design === "two-proportions" || v.design === "cluster-two-proportions") return v.p2 !== undefined;
   return v.effectSize !== undefined || v.meanDifference !== undefined;
@@ -196,11 +245,29 @@ function hasEffect(v: Base): boolean {
 /** To find one answer the other two quantities are needed. */
 const NEEDS: Record<Answer, [Answer, Answer]> = { n: ["power", "effect"], power: ["n", "effect"], effect: ["power", "n"] };
 
-export const powerInputSchema = baseSchema.superRefine((v, ctx) => {
+export const powerInputSchema = baseSchema.superRefine((v, ctx) => crossChecks(v, ctx));
+
+/** Where the checks that span several fields report; zod's refinement context is one. */
+export type IssueSink = { addIssue(issue: { code: "custom"; path: PropertyKey[]; message: string }): void };
+
+/** The rules that span fields, shared by the schema and the fast path in fast-parse.ts. */
+export function crossChecks(v: Base, ctx: IssueSink) {
+  const hypothesis = "hypothesis" in v ? v.hypothesis : undefined;
+  const margined = withMargin(hypothesis);
+  const nKey = v.design === "cluster-two-means" || v.design === "cluster-two-proportions" ? "clustersPerArm" : "n1";
+  const givenN = (v as Record<string, unknown>)[nKey] !== undefined;
+  const givenEffect = hasEffect(v);
+  // The usual case, exactly one quantity left to find, is settled before any label is built (solve() is a hot path).
+  const left = (v.power === undefined ? 1 : 0) + (givenN ? 0 : 1) + (givenEffect ? 0 : 1);
+  if (left !== 1) quantityIssues(v, margined, hypothesis, givenN, givenEffect, ctx);
+  restOfChecks(v, margined, ctx);
+}
+
+function quantityIssues(v: Base, margined: boolean, hypothesis: Hypothesis | undefined, givenN: boolean, givenEffect: boolean, ctx: IssueSink) {
   const names = quantityNames(v.design);
-  const labels = quantityLabels(v.design);
-  const key: Record<Answer, string> = { n: names.n, power: "power", effect: names.effect };
-  const given: Record<Answer, boolean> = { power: v.power !== undefined, n: (v as Record<string, unknown>)[names.n] !== undefined, effect: hasEffect(v) };
+  const labels = quantityLabels(v.design, hypothesis);
+  const key: Record<Answer, string> = { n: names.n, power: "power", effect: margined ? "margin" : names.effect };
+  const given: Record<Answer, boolean> = { power: v.power !== undefined, n: givenN, effect: givenEffect };
   const order: Answer[] = ["power", "n", "effect"];
   const missing = order.filter((a) => !given[a]);
   if (missing.length === 0) {
@@ -218,27 +285,79 @@ export const powerInputSchema = baseSchema.superRefine((v, ctx) => {
       .join(", or ");
     for (const a of missing) ctx.addIssue({ code: "custom", path: [key[a]], message: `${labels[a].field} is empty, and so is ${missing.filter((b) => b !== a).map((b) => labels[b].field).join(" and ")}: ${ways}.` });
   }
+}
+
+function restOfChecks(v: Base, margined: boolean, ctx: IssueSink) {
   if (v.power !== undefined && !(v.power > v.alpha && v.power < 1)) {
     ctx.addIssue({ code: "custom", path: ["power"], message: `Power: enter a number between alpha (${v.alpha}) and 1, like 0.80.` });
   }
   if ("meanDifference" in v && v.meanDifference !== undefined) {
     if (v.effectSize !== undefined) ctx.addIssue({ code: "custom", path: ["meanDifference"], message: "Give the effect either as Effect size (d) or as Mean difference with Standard deviation, not both." });
-    if (v.meanDifference === 0) ctx.addIssue({ code: "custom", path: ["meanDifference"], message: "Mean difference: enter a difference other than 0; with 0 there is no effect to detect." });
+    if (v.meanDifference === 0 && !margined) ctx.addIssue({ code: "custom", path: ["meanDifference"], message: "Mean difference: enter a difference other than 0; with 0 there is no effect to detect." });
     if (v.sd === undefined && v.pilotSd === undefined) ctx.addIssue({ code: "custom", path: ["sd"], message: "Standard deviation: enter it with the mean difference, like 6." });
   }
   if ("sd" in v && v.sd !== undefined && v.pilotSd !== undefined) {
     ctx.addIssue({ code: "custom", path: ["sd"], message: "Give either a Standard deviation or a pilot's, not both." });
   }
-  if ((v.design === "two-proportions" || v.design === "cluster-two-proportions") && v.p2 !== undefined && v.p2 === v.p1) {
+  if ((v.design === "two-proportions" || v.design === "cluster-two-proportions") && v.p2 !== undefined && v.p2 === v.p1 && !margined) {
     ctx.addIssue({ code: "custom", path: ["p2"], message: "Intervention proportion: enter a value that differs from the control proportion; equal proportions leave no effect to detect." });
   }
-  if (v.design === "time-to-event" && v.hazardRatio === 1) {
+  if (v.design === "time-to-event" && v.hazardRatio === 1 && !margined) {
     ctx.addIssue({ code: "custom", path: ["hazardRatio"], message: "Hazard ratio: enter a value other than 1; at 1 there is no effect to detect." });
   }
   if ((v.design === "two-means" || v.design === "two-proportions") && v.n2 !== undefined && v.n1 === undefined) {
     ctx.addIssue({ code: "custom", path: ["n2"], message: "Evaluable participants in the second arm: give it only with the first arm's." });
   }
-});
+  if ("hypothesis" in v) claimIssues(v, ctx);
+  if (v.design === "two-means") analysisIssues(v, ctx);
+}
+
+type Ctx = IssueSink;
+
+function addIssue(ctx: Ctx, path: string, message: string) {
+  ctx.addIssue({ code: "custom", path: [path], message });
+}
+type WithClaim = Extract<Base, { hypothesis: Hypothesis }>;
+
+/** A margin belongs to non-inferiority and equivalence only, in the units of the design's effect. */
+function claimIssues(v: WithClaim, ctx: Ctx) {
+  if (!withMargin(v.hypothesis)) {
+    if (v.margin !== undefined) addIssue(ctx, "margin", "Margin: a margin belongs to a non-inferiority or equivalence hypothesis; remove it, or choose one of those under Hypothesis.");
+    if ((v.design === "two-means" || v.design === "one-mean") && v.effectSize !== undefined && v.effectSize <= 0) {
+      addIssue(ctx, "effectSize", "Effect size (d): enter a number above 0, like 0.5 (the size only; the direction follows the hypothesis).");
+    }
+    if (v.design === "two-proportions" && v.method === "farrington-manning") addIssue(ctx, "method", "Method: Farrington–Manning tests against a margin; under superiority choose normal, continuity-corrected or arcsine.");
+    return;
+  }
+  if (v.design === "time-to-event") {
+    if (v.margin !== undefined && v.margin <= 1) addIssue(ctx, "margin", "Margin: for time to event enter the hazard ratio that would no longer be acceptable, above 1, like 1.3.");
+    if (v.method === "freedman") addIssue(ctx, "method", "Method: with a margin the events follow Schoenfeld's formula; choose schoenfeld.");
+  }
+  if (v.design === "two-proportions") {
+    if (v.margin !== undefined && v.margin >= 1) addIssue(ctx, "margin", "Margin: enter a risk difference above 0 and below 1, like 0.10.");
+    if (v.method === "continuity-corrected" || v.method === "arcsine") addIssue(ctx, "method", "Method: with a margin choose farrington-manning (restricted maximum likelihood) or normal (unpooled).");
+  }
+}
+
+/** ANCOVA, repeated measures and several arms: each option needs its companions, and the correlations must fit together. */
+function analysisIssues(v: Extract<Base, { design: "two-means" }>, ctx: Ctx) {
+  const r = v.followUps ?? 1;
+  if (r > 1 && v.repeatedCorrelation === undefined) addIssue(ctx, "repeatedCorrelation", "Correlation between follow-ups: enter it with more than one follow-up measurement, from 0 to below 1, like 0.6.");
+  if (r === 1 && v.repeatedCorrelation !== undefined) addIssue(ctx, "repeatedCorrelation", "Correlation between follow-ups: it applies only with 2 or more follow-up measurements; set Follow-up measurements or remove it.");
+  if (v.baselineCorrelation !== undefined && r > 1 && v.repeatedCorrelation !== undefined) {
+    const post = (1 + (r - 1) * v.repeatedCorrelation) / r;
+    if (v.baselineCorrelation ** 2 >= post) {
+      addIssue(ctx, "baselineCorrelation", `Baseline correlation: with ${r} follow-ups correlated ${v.repeatedCorrelation} the baseline's correlation with them must be below ${Math.sqrt(post).toFixed(3)}; these figures cannot hold together.`);
+    }
+  }
+  if (v.arms === undefined) {
+    if (v.multiplicity !== undefined) addIssue(ctx, "multiplicity", "Multiplicity adjustment: it applies only with 2 or more treatment arms; set Treatment arms or remove it.");
+    if (v.controlAllocation !== undefined) addIssue(ctx, "controlAllocation", "Control allocation: it applies only with 2 or more treatment arms; for two groups use Allocation ratio.");
+    return;
+  }
+  if (v.hypothesis === "equivalence") addIssue(ctx, "arms", "Treatment arms: equivalence is offered for two groups only; choose superiority or non-inferiority for several arms.");
+  if (v.n2 !== undefined) addIssue(ctx, "n2", "Evaluable participants in the second arm: with several arms give the control's size through Control allocation.");
+}
 
 export type PowerInput = z.input<typeof powerInputSchema>;
 export type ParsedPowerInput = z.infer<typeof powerInputSchema>;
@@ -286,4 +405,24 @@ export type PowerResult = {
   events?: number;
   eventProbability?: { control: number; treated: number; mean: number };
   participantsRequired?: number;
+  // The planned analysis (present when it differs from an unadjusted superiority comparison of two groups).
+  hypothesis?: Hypothesis;
+  /** The margin in the units it was given (SD units, outcome units, risk difference or hazard ratio); solved when the effect was left out. */
+  margin?: number;
+  /** The margin in SD units, for means. */
+  marginStandardized?: number;
+  /** The expected true difference under a margin (positive favours the new treatment). */
+  expectedDifference?: number;
+  baselineCorrelation?: number;
+  followUps?: number;
+  repeatedCorrelation?: number;
+  /** The share of the outcome variance the analysis leaves (1 − ρ² for ANCOVA). */
+  varianceFactor?: number;
+  arms?: number;
+  multiplicity?: "none" | "bonferroni" | "dunnett";
+  controlAllocation?: number;
+  /** The critical value of each comparison's test (Dunnett's, Bonferroni's or the t quantile). */
+  criticalValue?: number;
+  /** Sizes of all arms, treatment arms first, the control last (several arms only). */
+  armSizes?: number[];
 };

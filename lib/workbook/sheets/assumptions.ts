@@ -1,4 +1,5 @@
 /** Assumptions and rates: every rate with its source, the key ones as named cells that the formulas use. */
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type ExcelJS from "exceljs";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
@@ -47,6 +48,7 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   add("Alpha", d.alpha, undefined, undefined, entered);
   add("Sides", d.sides, undefined, undefined, entered);
   add("Target power", d.power, undefined, undefined, entered);
+  add("Analysis", analysisWords(s.results.power), undefined, undefined, d.marginRationale || d.correlationSource || entered);
   add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
   if (s.results.power.sdUsed !== undefined) add("Planning SD", s.results.power.sdUsed, undefined, undefined, s.inputs.pilot ? `Pilot data (${s.inputs.pilot.fileName})` : d.sdSource || entered);
   if (d.p1 !== undefined) add("Control proportion", d.p1, undefined, undefined, d.sdSource || entered);

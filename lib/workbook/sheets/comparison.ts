@@ -1,4 +1,5 @@
 /** The comparison: scenarios side by side, their assumptions and answers, and each one's totals from its own budget sheet. */
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type ExcelJS from "exceljs";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
@@ -13,6 +14,7 @@ export function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list
   ws.getRow(4).font = { bold: true };
   const rows: [string, (s: WorkbookScenario) => ExcelJS.CellValue][] = [
     ["Design", (s) => designName(s.inputs.design.design)],
+    ["Analysis", (s) => analysisWords(s.results.power)],
     // Scenarios of different designs measure effects in different units: each column says its own.
     ["Effect measured as", (s) => effectUnit(s.results.effectName).noun],
     ["Alpha", (s) => s.inputs.design.alpha],

@@ -1,4 +1,5 @@
 /** The summary: the study, the design's answer, totals by period from the budget sheet, the cap check and the caution (once, here). */
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type ExcelJS from "exceljs";
 import { ONE_OFF_MARK } from "@/lib/costing";
 import { designName } from "@/lib/power/design-names";
@@ -20,6 +21,7 @@ export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario
     ["Review state", s.state],
     ["Rate-book edition", safeText(`${s.rates.label} (effective ${s.rates.effectiveDate})`)],
     ["Design", designName(s.inputs.design.design)],
+    ["Analysis", analysisWords(p)],
     ["Method", p.method],
     ["Evaluable, arm 1", p.n1],
     ["Evaluable, arm 2", p.n2 ?? "—"],

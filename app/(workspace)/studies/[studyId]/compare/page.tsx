@@ -1,3 +1,4 @@
+import { analysisWords } from "@/lib/planning/analysis-words";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { scenarioContext, scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
@@ -23,6 +24,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
     section: "Assumptions",
     rows: [
       { label: "Design", values: (s) => designName(s.inputs.design.design) },
+      { label: "Analysis", values: (s) => analysisWords(s.results.power) },
       { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
       { label: "Target power", values: (s) => String(s.inputs.design.power) },
       { label: "Target effect", values: (s) => formatEffect(s.results.effectName, s.results.targetEffect), nowrap: true },
