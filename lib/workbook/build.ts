@@ -67,6 +67,8 @@ export async function buildWorkbook(study: WorkbookStudy, list: WorkbookScenario
   const wb = new ExcelJS.Workbook();
   wb.creator = "Delta Ledger";
   wb.created = new Date(`${generatedOn}T00:00:00Z`);
+  // Stored values are for viewers that do not calculate; a spreadsheet recalculates on opening.
+  wb.calcProperties.fullCalcOnLoad = true;
   const layouts: BudgetLayout[] = [];
   const many = list.length > 1;
   const letters = list.map((_, k) => String.fromCharCode(65 + k));

@@ -3,6 +3,8 @@
  * values must equal the app's ledger to the cent; a changed F&A rate must flow through the same formula.
  */
 import ExcelJS from "exceljs";
+// exceljs's own zip reader, to look at the stored XML.
+import JSZip from "jszip";
 import Decimal from "decimal.js";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
@@ -81,6 +83,51 @@ function checkAgainstLedger(ws: ExcelJS.Worksheet, results: ScenarioResults): nu
   return checked;
 }
 
+/**
+ * Every formula cell's stored value (what a viewer that does not calculate shows) equals LibreOffice's
+ * recalculated value: numbers to the cent (rates and person-months to 1e-9), text exactly.
+ */
+function expectStoredEqualsRecalculated(built: ExcelJS.Workbook, recalculated: ExcelJS.Workbook): number {
+  let checked = 0;
+  built.eachSheet((ws) => {
+    const other = recalculated.getWorksheet(ws.name)!;
+    expect(other, ws.name).toBeDefined();
+    ws.eachRow((row) =>
+      row.eachCell((cell) => {
+        const v = cell.value as ExcelJS.CellFormulaValue | null;
+        if (!v || typeof v !== "object" || !("formula" in v)) return;
+        // exceljs reads a stored 0 back as no result (storedValuesPresent checks the file itself).
+        if (v.result === undefined) v.result = 0;
+        const again = other.getCell(cell.address).value as ExcelJS.CellFormulaValue | number | string;
+        const recomputed = again && typeof again === "object" && "formula" in again ? again.result : again;
+        if (typeof v.result === "number") {
+          const got = Number(recomputed ?? 0);
+          if (Math.abs(v.result) >= 1 || Number.isInteger(v.result)) expect(cents(got), `${ws.name}!${cell.address}`).toBe(cents(v.result));
+          else expect(Math.abs(got - v.result), `${ws.name}!${cell.address}`).toBeLessThan(1e-9);
+        } else expect(recomputed, `${ws.name}!${cell.address}`).toBe(v.result);
+        checked++;
+      }),
+    );
+  });
+  return checked;
+}
+
+/** In the file itself, every formula (<f>) of every sheet is followed by its stored value (<v>). */
+async function storedValuesPresent(buffer: Buffer): Promise<number> {
+  const zip = await JSZip.loadAsync(buffer);
+  let formulas = 0;
+  for (const [path, file] of Object.entries(zip.files)) {
+    if (!/^xl\/worksheets\/sheet\d+\.xml$/.test(path)) continue;
+    const xml = await file.async("string");
+    for (const cell of xml.match(/<c [^>]*>.*?<\/c>/g) ?? []) {
+      if (!cell.includes("<f>")) continue;
+      formulas++;
+      expect(cell, `${path}: a formula without its stored value`).toMatch(/<\/f><v>[^<]*<\/v>/);
+    }
+  }
+  return formulas;
+}
+
 describe("permissions", () => {
   it("each role's access to each route", async () => {
     const draft = scenarios.find((s) => s.state === "draft")!;
@@ -106,7 +153,7 @@ describe("permissions", () => {
 describe("read back with exceljs", () => {
   it("has the sheets, live formulas, named cells, and inert user text", async () => {
     const wb = await load(Buffer.from(await (await one("pi", scenarios[1]!.id)).arrayBuffer()));
-    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Personnel", "Participants", "Sites", "Justification", "Assumptions"]);
+    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Sponsor format", "Personnel", "Participants", "Sites", "Justification", "Enrolment", "Assumptions"]);
     const budget = wb.getWorksheet("Budget by period")!;
     const total = budgetRows(budget).get("Total")!;
     expect((total.getCell(4).value as ExcelJS.CellFormulaValue).formula).toMatch(/D\d+\+D\d+/);
@@ -129,9 +176,13 @@ describe("read back with exceljs", () => {
 describe("recalculated with LibreOffice", () => {
   it("every line, subtotal and total of one scenario equals the ledger to the cent", async () => {
     const id = scenarios[0]!.id;
-    const recalculated = await load(recalculate(Buffer.from(await (await one("pi", id)).arrayBuffer())));
+    const buffer = Buffer.from(await (await one("pi", id)).arrayBuffer());
+    const recalculated = await load(recalculate(buffer));
     const checked = checkAgainstLedger(recalculated.getWorksheet("Budget by period")!, await resultsOf(id));
     expect(checked).toBeGreaterThan(40);
+    // And the values stored with the formulas (for viewers that do not calculate) are LibreOffice's, to the cent.
+    expect(expectStoredEqualsRecalculated(await load(buffer), recalculated)).toBeGreaterThan(200);
+    expect(await storedValuesPresent(buffer)).toBeGreaterThan(200);
     // No cell errors anywhere.
     recalculated.eachSheet((ws) =>
       ws.eachRow((row) =>
@@ -145,9 +196,11 @@ describe("recalculated with LibreOffice", () => {
 
   it("a comparison reconciles scenario by scenario", async () => {
     const ids = scenarios.slice(0, 3).map((s) => s.id);
-    const recalculated = await load(recalculate(Buffer.from(await (await many("grants", ids)).arrayBuffer())));
+    const buffer = Buffer.from(await (await many("grants", ids)).arrayBuffer());
+    const recalculated = await load(recalculate(buffer));
+    expectStoredEqualsRecalculated(await load(buffer), recalculated);
     expect(recalculated.worksheets[0]!.name).toBe("Comparison");
-    const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+    const budgets = recalculated.worksheets.filter((w) => w.name.endsWith(" Budget"));
     expect(budgets.length).toBe(3);
     for (let k = 0; k < 3; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
     const cmp = recalculated.getWorksheet("Comparison")!;
@@ -167,9 +220,10 @@ describe("recalculated with LibreOffice", () => {
       const res = await many("grants", ids);
       expect(res.status).toBe(200);
       const built = await load(Buffer.from(await res.arrayBuffer()));
-      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Dr O'Brien Budget by period", "B Kids' arm Budget by period"]));
+      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Dr O'Brien Budget", "B Kids' arm Budget", "B Kids' arm Sponsor format"]));
       const recalculated = await load(recalculate(Buffer.from(await built.xlsx.writeBuffer())));
-      const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+      expectStoredEqualsRecalculated(built, recalculated);
+      const budgets = recalculated.worksheets.filter((w) => w.name.endsWith(" Budget"));
       expect(budgets.length).toBe(2);
       for (let k = 0; k < 2; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
       let grand: ExcelJS.Row | undefined;
