@@ -22,30 +22,32 @@ import { summarySheet } from "./sheets/summary";
 export type { WorkbookScenario, WorkbookStudy } from "./cells";
 export type { BudgetLayout } from "./sheets/budget";
 
-/** The longest sheet name after a comparison's prefix ("Sponsor format"). */
-const LONGEST_SUFFIX = 14;
-
 /**
- * A comparison's sheet prefix: the scenario's letter and its name cut at a word within the 31-character
- * limit ("A Six sites, 90% " not "A Six sites, 9"); the letter keeps prefixes distinct whatever the names.
+ * A comparison's sheet name: the scenario's letter, the sheet's kind, then as much of the scenario's
+ * name as the 31-character limit leaves, cut at a word or marked with an ellipsis ("A Budget · Six
+ * sites, 90% power", "A Sponsor format · Pupil…"). The letter and kind keep names distinct whatever
+ * the scenarios are called; the comparison sheet gives each letter's full name.
  */
-export function comparisonPrefix(letter: string, scenarioName: string): string {
-  const room = 31 - letter.length - 2 - LONGEST_SUFFIX;
-  const clean = scenarioName.replace(/[[\]:*?/\\]/g, " ").replace(/\s+/g, " ").replace(/^'+/, "").trim();
-  if (clean.length <= room) return `${letter} ${clean} `.replace(/'+ $/, " ");
-  const cut = clean.slice(0, room);
-  const atWord = cut.lastIndexOf(" ") > room / 2 ? cut.slice(0, cut.lastIndexOf(" ")) : cut;
-  return `${letter} ${atWord.replace(/[\s,;.'-]+$/, "")} `;
+export function comparisonSheetName(letter: string, kind: string, scenarioName: string): string {
+  const head = `${letter} ${kind}`;
+  const room = 31 - head.length - 3;
+  const clean = scenarioName.replace(/[[\]:*?/\\]/g, " ").replace(/\s+/g, " ").replace(/^'+|'+$/g, "").trim();
+  if (!clean || room < 4) return sheetName(head);
+  if (clean.length <= room) return sheetName(`${head} · ${clean}`);
+  const cut = clean.slice(0, room - 1);
+  const boundary = Math.max(cut.lastIndexOf(" "), cut.lastIndexOf("-"));
+  const words = (boundary >= 3 ? cut.slice(0, boundary) : cut).replace(/[\s,;.'-]+$/, "");
+  return sheetName(`${head} · ${words}…`);
 }
 
 function addScenario(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario): BudgetLayout {
-  const summary = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Summary`));
+  const summary = ctx.wb.addWorksheet(ctx.sheet("Summary"));
   const ledger = s.results.ledger;
   const P = ledger.periods.length;
   const refs = new Map<string, LineRef>();
   // Reading order: summary, budget, sponsor format, personnel, participants, sites, justification, enrolment, assumptions.
-  const budgetWs = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}${ctx.prefix ? "Budget" : "Budget by period"}`));
-  const sponsorWs = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Sponsor format`));
+  const budgetWs = ctx.wb.addWorksheet(ctx.sheet("Budget by period"));
+  const sponsorWs = ctx.wb.addWorksheet(ctx.sheet("Sponsor format"));
   const personnel = personnelSheet(ctx, ledger.lines.filter((l) => l.group === "personnel"), ledger.periods);
   personnel.refs.forEach((v, k) => refs.set(k, v));
   const participants = quantitySheet(ctx, "Participants", ledger.lines.filter((l) => l.group === "participants" && l.basis === "quantity"), P, s.rates);
@@ -75,7 +77,9 @@ export async function buildWorkbook(study: WorkbookStudy, list: WorkbookScenario
   if (many) wb.addWorksheet("Comparison");
   list.forEach((s, k) => {
     const footer: Footer = { study: `${study.code}: ${study.title}`, scenario: s.name, edition: editionLabel(s) };
-    layouts.push(addScenario({ wb, prefix: many ? comparisonPrefix(letters[k]!, s.name) : "", suffix: many ? `_${letters[k]}` : "", generatedOn, footer }, study, s));
+    // In a comparison the budget sheet is "Budget", leaving room for the scenario's name.
+    const sheet = many ? (kind: string) => comparisonSheetName(letters[k]!, kind === "Budget by period" ? "Budget" : kind, s.name) : (kind: string) => sheetName(kind);
+    layouts.push(addScenario({ wb, sheet, suffix: many ? `_${letters[k]}` : "", generatedOn, footer }, study, s));
   });
   if (many) {
     const editions = [...new Set(list.map(editionLabel))].join(", ");

@@ -58,7 +58,8 @@ export function humanDate(iso: string): string {
 /** What every sheet's footer says: the study, the scenario (or comparison) and the rate-book edition. */
 export type Footer = { study: string; scenario: string; edition: string };
 
-export type Ctx = { wb: ExcelJS.Workbook; prefix: string; suffix: string; generatedOn: string; footer: Footer };
+/** `sheet` names a sheet of this scenario ("Budget by period", or "A Budget · Six sites" in a comparison). */
+export type Ctx = { wb: ExcelJS.Workbook; sheet: (kind: string) => string; suffix: string; generatedOn: string; footer: Footer };
 
 export function name(ctx: Ctx, base: string): string {
   return `${base}${ctx.suffix}`;

@@ -19,6 +19,8 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { params, request, signInAs } from "../support/http";
 import { recalculate } from "../support/libreoffice";
+import { sponsorBudget } from "@/lib/sponsor/budget";
+import { CAUTION } from "@/lib/workbook/cells";
 
 let dir = "";
 const c: Record<string, string> = {};
@@ -200,7 +202,7 @@ describe("recalculated with LibreOffice", () => {
     const recalculated = await load(recalculate(buffer));
     expectStoredEqualsRecalculated(await load(buffer), recalculated);
     expect(recalculated.worksheets[0]!.name).toBe("Comparison");
-    const budgets = recalculated.worksheets.filter((w) => w.name.endsWith(" Budget"));
+    const budgets = recalculated.worksheets.filter((w) => /^[A-D] Budget · /.test(w.name));
     expect(budgets.length).toBe(3);
     for (let k = 0; k < 3; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
     const cmp = recalculated.getWorksheet("Comparison")!;
@@ -220,10 +222,10 @@ describe("recalculated with LibreOffice", () => {
       const res = await many("grants", ids);
       expect(res.status).toBe(200);
       const built = await load(Buffer.from(await res.arrayBuffer()));
-      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Dr O'Brien Budget", "B Kids' arm Budget", "B Kids' arm Sponsor format"]));
+      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Budget · Dr O'Brien plan", "B Budget · Kids' arm", "B Sponsor format · Kids' arm"]));
       const recalculated = await load(recalculate(Buffer.from(await built.xlsx.writeBuffer())));
       expectStoredEqualsRecalculated(built, recalculated);
-      const budgets = recalculated.worksheets.filter((w) => w.name.endsWith(" Budget"));
+      const budgets = recalculated.worksheets.filter((w) => /^[A-D] Budget · /.test(w.name));
       expect(budgets.length).toBe(2);
       for (let k = 0; k < 2; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
       let grand: ExcelJS.Row | undefined;
@@ -282,3 +284,75 @@ describe("recalculated with LibreOffice", () => {
     expect(grand.greaterThan(results.ledger.totals.total)).toBe(true);
   }, 120_000);
 });
+
+describe("made for people", () => {
+  it("says categories, yes/no and rates in people's words, prints every sheet with repeated headers and a footer, and gives the caution once", async () => {
+    const wb = await load(Buffer.from(await (await one("pi", scenarios[0]!.id)).arrayBuffer()));
+    const budget = wb.getWorksheet("Budget by period")!;
+    const categories = new Set<string>();
+    const flags = new Set<string>();
+    budget.eachRow((row, n) => {
+      if (n > 4 && typeof row.getCell(2).value === "string" && row.getCell(4).value !== null) {
+        if (typeof row.getCell(1).value === "string") categories.add(row.getCell(1).value as string);
+        if (typeof row.getCell(3).value === "string") flags.add(row.getCell(3).value as string);
+      }
+    });
+    // No internal codes (site-fees, procedures, participant…), no 1/0 flags.
+    for (const c of categories) expect(c, c).not.toMatch(/^[a-z]+(-[a-z]+)*$/);
+    expect([...categories]).toEqual(expect.arrayContaining(["Salaries", "Fringe benefits", "Site fees", "Research procedures", "Participant payments"]));
+    expect([...flags].sort()).toEqual(["no", "yes"].filter((f) => flags.has(f)));
+    expect(flags.has("yes")).toBe(true);
+    // Rates as percentages with two decimals.
+    const assumptions = wb.getWorksheet("Assumptions")!;
+    let fa: ExcelJS.Cell | undefined;
+    assumptions.eachRow((row) => {
+      if (row.getCell(1).value === "F&A rate") fa = row.getCell(3);
+    });
+    expect(fa!.numFmt).toBe("0.00%");
+    let caution = 0;
+    wb.eachSheet((ws) => {
+      expect(ws.pageSetup.fitToWidth, ws.name).toBe(1);
+      expect(ws.pageSetup.printTitlesRow, ws.name).toMatch(/^1:\d$/);
+      const footer = ws.headerFooter.oddFooter ?? "";
+      expect(footer, ws.name).toContain("WALK-KNEE");
+      expect(footer, ws.name).toContain("Six sites, 90% power");
+      expect(footer, ws.name).toContain("edition 2027 rates");
+      expect(footer, ws.name).toContain("page &P of &N");
+      ws.eachRow((row) => row.eachCell((cell) => void (cell.value === CAUTION && cell.master.address === cell.address && caution++)));
+    });
+    expect(caution).toBe(1);
+    // The personnel sheet: one row per person and period, eleven columns, not twenty.
+    const personnel = wb.getWorksheet("Personnel")!;
+    expect(personnel.getRow(4).cellCount).toBe(11);
+  });
+
+  it("the sponsor-format sheet, recalculated, is in whole dollars, sums its rounded lines and reconciles to the cents ledger per period", async () => {
+    const id = scenarios[0]!.id;
+    const results = await resultsOf(id);
+    const sb = sponsorBudget(results.ledger);
+    const wb = await load(recalculate(Buffer.from(await (await one("pi", id)).arrayBuffer())));
+    const ws = wb.getWorksheet("Sponsor format")!;
+    const P = results.ledger.periods.length;
+    const byLabel = new Map<string, ExcelJS.Row>();
+    ws.eachRow((row) => {
+      for (const c of [1, 2]) if (typeof row.getCell(c).value === "string") byLabel.set(row.getCell(c).value as string, row);
+    });
+    const total = byLabel.get("I. Total costs (direct and F&A)")!;
+    const diff = byLabel.get("Rounding difference (whole dollars − cents)")!;
+    for (let p = 0; p < P; p++) {
+      const dollars = num(total.getCell(3 + p).value);
+      expect(Number.isInteger(dollars)).toBe(true);
+      expect(dollars).toBe(sb.total[p]);
+      // The difference is the dollars total less the ledger's cents total, and small: at most half a dollar per line.
+      expect(cents(num(diff.getCell(3 + p).value))).toBe(new Decimal(dollars).minus(results.ledger.byPeriod.total[p]!).toFixed(2));
+      expect(Math.abs(num(diff.getCell(3 + p).value))).toBeLessThanOrEqual(0.5 * (results.ledger.lines.length + 1));
+    }
+    expect(num(total.getCell(3 + P).value)).toBe(sb.cumulative.total);
+    // Direct costs are the sum of the section totals, each a sum of whole-dollar lines.
+    const direct = byLabel.get("G. Direct costs")!;
+    expect(num(direct.getCell(3 + P).value)).toBe(sb.sections.reduce((a, s) => a + s.cumulative, 0));
+    expect(byLabel.has("A. Senior and key personnel")).toBe(true);
+    expect(byLabel.has("F. Other direct costs")).toBe(true);
+  }, 180_000);
+});
+

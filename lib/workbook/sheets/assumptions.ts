@@ -2,11 +2,11 @@
 import type ExcelJS from "exceljs";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
-import { sheetName, safeText } from "../text";
+import { safeText } from "../text";
 import { DATE, dateCell, defineName, finish, fringeName, humanDate, MONEY, name, RATE, title, type Ctx, type WorkbookScenario } from "../cells";
 
 export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Worksheet {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Assumptions`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Assumptions"));
   title(ws, "Assumptions and rates", `Rate-book edition "${s.rates.label}", effective ${s.rates.effectiveDate ? humanDate(s.rates.effectiveDate) : "—"}; every value with its source.`);
   ws.columns = [{ width: 44 }, { width: 28 }, { width: 18 }, { width: 40 }];
   ws.getRow(4).values = ["Item", "Name in formulas", "Value", "Source"];

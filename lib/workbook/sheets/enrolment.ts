@@ -4,11 +4,11 @@
  * number. With no proportions given, the sheet says so and shows no table (nothing is guessed).
  */
 import { enrolmentTable, ETHNICITIES, RACES, SEXES } from "@/lib/sponsor/enrolment";
-import { col, sheetName } from "../text";
+import { col } from "../text";
 import { finish, fx, title, type Ctx, type WorkbookScenario } from "../cells";
 
 export function enrolmentSheet(ctx: Ctx, s: WorkbookScenario): void {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Enrolment`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Enrolment"));
   const enrolled = s.results.power.funnel.total.enrolled;
   title(ws, `Planned enrolment: ${enrolled} participants`, "Cells = enrolled × the investigator's proportions by race, ethnicity and sex, rounded by the largest-remainder method so that they add up to the enrolled number.");
   ws.columns = [{ width: 44 }, ...Array.from({ length: 5 }, () => ({ width: 16 }))];

@@ -7,7 +7,7 @@ import type ExcelJS from "exceljs";
 import { generateBudgetJustification } from "@/lib/planning/budget-justification";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
 import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
-import { safeText, sheetName } from "../text";
+import { safeText } from "../text";
 import { finish, title, type Ctx, type WorkbookScenario } from "../cells";
 
 const SOURCES = [
@@ -36,7 +36,7 @@ function status(cell: ExcelJS.Cell, check: JustificationCheck | undefined): void
 const rowsFor = (text: string, width: number) => text.split("\n").reduce((a, line) => a + Math.max(1, Math.ceil(line.length / (width * 1.1))), 0);
 
 export function justificationSheet(ctx: Ctx, s: WorkbookScenario): void {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Justification`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Justification"));
   title(ws, "Sample-size justification and budget justification", JUSTIFICATION_CAUTION);
   ws.columns = [{ width: 100 }, { width: 40 }];
   ws.getCell("A4").value = "Sample-size justification";

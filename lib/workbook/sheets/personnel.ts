@@ -3,14 +3,14 @@
  * base salary, cap, effort, calendar months, person-months, requested salary and fringe.
  */
 import type { LedgerLine } from "@/lib/costing";
-import { safeText, sheetName } from "../text";
+import { safeText } from "../text";
 import { EFFORT, finish, fringeName, fx, humanDate, MONEY, name, RATE, title, type Ctx, type LineRef } from "../cells";
 import type { Period } from "@/lib/costing/timeline";
 
 const HEADERS = ["Person (role)", "Staff category", "Budget period", "Base salary", "Salary cap", "Effort", "Calendar months", "Person-months", "Requested salary", "Fringe rate", "Fringe"];
 
 export function personnelSheet(ctx: Ctx, lines: LedgerLine[], periods: Period[]): { refs: Map<string, LineRef> } {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Personnel`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Personnel"));
   title(ws, "Personnel", "Requested salary = ROUND(MIN(base × (1 + escalation)^(period − 1), cap) × effort × months / 12, 2); fringe = ROUND(salary × fringe rate, 2); person-months = effort × calendar months.");
   ws.getRow(4).values = HEADERS;
   ws.getRow(4).font = { bold: true };

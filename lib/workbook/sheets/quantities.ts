@@ -1,11 +1,11 @@
 /** A sheet of quantity lines (participants or sites): unit × quantity × escalation, rounded per period. */
 import type ExcelJS from "exceljs";
 import type { LedgerLine, RateBook } from "@/lib/costing";
-import { col, safeText, sheetName } from "../text";
+import { col, safeText } from "../text";
 import { escalationCell, finish, fx, MONEY, RATE, REVIEW_FILL, title, type Ctx, type LineRef } from "../cells";
 
 export function quantitySheet(ctx: Ctx, label: string, lines: LedgerLine[], periods: number, rates: RateBook): { ws: ExcelJS.Worksheet; refs: Map<string, LineRef> } {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}${label}`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet(label));
   title(ws, label, "Quantity × unit cost × (1 + escalation)^(period − 1), rounded to cents in each period.");
   const qFirst = 4;
   const aFirst = qFirst + periods;
