@@ -8,7 +8,7 @@ import { generateJustification } from "@/lib/planning/justification";
 import { checkJustification, describeChange, justificationFigures, parseFigures, type JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { budgetJustificationFigures, generateBudgetJustification } from "@/lib/planning/budget-justification";
-import { enrolmentPlanSchema, type EnrolmentPlan } from "@/lib/sponsor/enrolment";
+import { storedEnrolmentPlanSchema, type EnrolmentPlan } from "@/lib/sponsor/enrolment";
 import { TimelineError, CostingError } from "@/lib/costing";
 import { PowerInputError, UnreachableError, type Design } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
@@ -224,7 +224,7 @@ export type ScenarioPatch = {
 function parseEnrolmentPlan(json: string | null): EnrolmentPlan | null {
   if (!json) return null;
   try {
-    const parsed = enrolmentPlanSchema.safeParse(JSON.parse(json));
+    const parsed = storedEnrolmentPlanSchema.safeParse(JSON.parse(json));
     return parsed.success ? parsed.data : null;
   } catch {
     return null;
@@ -297,7 +297,10 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
 
 export async function cloneScenario(actor: Actor, id: number): Promise<number> {
   const { row } = await access(actor, id, "scenario.edit");
-  return createScenario(actor, row.study_id, { name: `${row.name} (copy)`.slice(0, 80), inputs: JSON.parse(row.inputs_json) as ScenarioInputs }, id);
+  const copy = await createScenario(actor, row.study_id, { name: `${row.name} (copy)`.slice(0, 80), inputs: JSON.parse(row.inputs_json) as ScenarioInputs }, id);
+  // The investigator's enrolment proportions are part of the plan: the copy keeps them.
+  if (row.enrolment_plan_json) await getDb().updateTable("scenarios").set({ enrolment_plan_json: row.enrolment_plan_json }).where("id", "=", copy).execute();
+  return copy;
 }
 
 export async function deleteScenario(actor: Actor, id: number): Promise<void> {

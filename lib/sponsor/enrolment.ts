@@ -73,3 +73,11 @@ export const enrolmentPlanSchema = z.object({
   ethnicity: group("Ethnicity", ETHNICITIES),
   race: group("Race", RACES),
 });
+
+/** Proportions as stored (shares from 0 to 1, each group adding up to 1); anything else reads as none given. */
+const storedGroup = (n: number) =>
+  z
+    .array(z.number().min(0).max(1))
+    .length(n)
+    .refine((xs) => Math.abs(xs.reduce((a, b) => a + b, 0) - 1) <= 0.0005);
+export const storedEnrolmentPlanSchema = z.object({ sex: storedGroup(SEXES.length), ethnicity: storedGroup(ETHNICITIES.length), race: storedGroup(RACES.length) });
