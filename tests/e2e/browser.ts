@@ -1,4 +1,6 @@
+import { execFileSync } from "node:child_process";
 import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { chromium, type Browser, type BrowserContext, type Dialog, type Locator, type Page } from "playwright-core";
 
@@ -288,4 +290,23 @@ export function workbookValue(wb: import("exceljs").Workbook, ref: string): numb
   const m = /^'?(.*?)'?!(.*)$/.exec(ref);
   if (!m) throw new Error(`not a reference: ${ref}`);
   return cell(m[1]!, m[2]!);
+}
+
+/**
+ * Prints the page to PDF as headless Chromium does (print media, Letter) and returns the text poppler's
+ * pdftotext reads from it, in layout order; pages are separated by form feeds. `.ci/run` installs
+ * poppler-utils when pdftotext is missing.
+ */
+export async function printToText(page: Page, name: string): Promise<string> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-pdf-"));
+  try {
+    const file = path.join(dir, `${name}.pdf`);
+    await page.emulateMedia({ media: "print" });
+    await page.pdf({ path: file, format: "Letter", printBackground: true });
+    await page.emulateMedia({ media: "screen" });
+    if (fs.readFileSync(file).subarray(0, 5).toString() !== "%PDF-") throw new Error("Chromium did not write a PDF.");
+    return execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
 }

@@ -1,10 +1,6 @@
-import { execFileSync } from "node:child_process";
-import fs from "node:fs";
-import os from "node:os";
-import path from "node:path";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, printToText, screenshotWidths, signIn, textField, waitForText } from "./browser";
 
 /**
  * The outputs a grants office sends, walked as the investigator does: the sponsor's format on the
@@ -42,21 +38,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-/** Prints the page to PDF as headless Chromium does and returns pdftotext's layout text. */
-export async function printToText(page: Page, name: string): Promise<string> {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-pdf-"));
-  try {
-    const file = path.join(dir, `${name}.pdf`);
-    await page.emulateMedia({ media: "print" });
-    await page.pdf({ path: file, format: "Letter", printBackground: true });
-    await page.emulateMedia({ media: "screen" });
-    expect(fs.readFileSync(file).subarray(0, 5).toString()).toBe("%PDF-");
-    return execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}
 
 const rowOf = (text: string, start: RegExp) => text.split("\n").map((l) => l.trim()).find((l) => start.test(l)) ?? "";
 const amounts = (line: string) => line.match(/\$[\d,]+(?:\.\d{2})?/g) ?? [];
