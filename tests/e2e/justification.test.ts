@@ -103,9 +103,11 @@ describe("the investigator's justification", () => {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile((await download.path())!);
     const ws = wb.getWorksheet("Justification")!;
-    expect(String(ws.getCell("A4").value)).toMatch(/^Our team reviewed/);
-    expect(String(ws.getCell("B3").value)).toBe("Against the figures");
-    const warning = String(ws.getCell("B4").value);
+    // The sheet holds both texts of the application; the sample-size one first, its status beside it.
+    expect(String(ws.getCell("A4").value)).toBe("Sample-size justification");
+    expect(String(ws.getCell("A5").value)).toMatch(/^Our team reviewed/);
+    expect(String(ws.getCell("B4").value)).toBe("Against the figures");
+    const warning = String(ws.getCell("B5").value);
     expect(warning).toMatch(/^This text no longer matches the scenario's figures\./);
     expect(warning).toContain(SCREEN_FAILURE_CHANGE);
   });
