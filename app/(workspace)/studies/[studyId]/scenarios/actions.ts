@@ -143,6 +143,8 @@ export type EnrolmentFormState = { error: string | null; fields?: Record<string,
  * cleared. A refusal names the group and keeps what was typed.
  */
 export async function saveEnrolmentPlanAction(_prev: EnrolmentFormState, formData: FormData): Promise<NonNullable<EnrolmentFormState>> {
+  // A role that may never edit scenarios is refused before its form is read, as every action does.
+  if (!roleMay(await requireUser(), "scenario.edit")) return { error: forbidden().message };
   const version = versionOf(formData);
   const clear = formData.get("intent") === "clear";
   const fields: Record<string, string> = {};
