@@ -176,7 +176,7 @@ const DONE: Record<NonNullable<SaveResult["done"]>, string> = {
  */
 const KINDS = {
   "sample-size": { heading: "Sample-size justification", id: "justification", label: "Justification text", reviewer: "A statistician should review it.", save: saveJustificationAction },
-  budget: { heading: "Budget justification", id: "budget-justification", label: "Budget justification text", reviewer: "The grants office should review it.", save: saveBudgetJustificationAction },
+  budget: { heading: "Budget justification", id: "budget-justification", label: "Text of the budget justification", reviewer: "The grants office should review it.", save: saveBudgetJustificationAction },
 } as const;
 
 export function JustificationEditor({

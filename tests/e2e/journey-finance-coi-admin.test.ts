@@ -30,7 +30,7 @@ async function createScenario(pi: Page, studyUrl: string, name: string): Promise
 }
 
 describe("finance", () => {
-  it("finds the scenario in review, downloads its workbook whose grand total is the page's total, and sees no draft", async () => {
+  it("finds the scenario in review, downloads its workbook whose grand total is the page's total, saves the report as PDF with the same totals, and sees no draft", async () => {
     const pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await signIn(pi, baseUrl, "pi@demo.test");
     const study = { code: "JRN-FIN", title: "Open Air: an invented outdoor exercise trial", sponsor: "Invented Lung Health Fund", cap: "100000", start: "2028-01-01" };
