@@ -175,8 +175,8 @@ const DONE: Record<NonNullable<SaveResult["done"]>, string> = {
  * the budget justification differ only in their words, element ids and the action that saves them.
  */
 const KINDS = {
-  "sample-size": { heading: "Sample-size justification", id: "justification", label: "Justification text", reviewer: "A statistician should review it.", save: saveJustificationAction },
-  budget: { heading: "Budget justification", id: "budget-justification", label: "Text of the budget justification", reviewer: "The grants office should review it.", save: saveBudgetJustificationAction },
+  "sample-size": { heading: "Sample-size justification", id: "justification", label: "Justification text", saveLabel: "Save the text", regenerateLabel: "Regenerate from the scenario", reviewer: "A statistician should review it.", save: saveJustificationAction },
+  budget: { heading: "Budget justification", id: "budget-justification", label: "Text of the budget justification", saveLabel: "Save the budget justification", regenerateLabel: "Regenerate from the budget", reviewer: "The grants office should review it.", save: saveBudgetJustificationAction },
 } as const;
 
 export function JustificationEditor({
@@ -270,7 +270,7 @@ export function JustificationEditor({
           />
           <div className="flex flex-wrap gap-2">
             <button type="button" className="btn btn-quiet" disabled={pending} onClick={() => send("save")}>
-              {pending && !preview ? "Saving…" : "Save the text"}
+              {pending && !preview ? "Saving…" : k.saveLabel}
             </button>
             {edited && !preview ? (
               <button
@@ -283,7 +283,7 @@ export function JustificationEditor({
                   setKept(false);
                 }}
               >
-                Regenerate from the scenario
+                {k.regenerateLabel}
               </button>
             ) : null}
           </div>
