@@ -130,7 +130,8 @@ describe("the investigator's justification", () => {
     const box = page.getByLabel("Justification text");
     await page.waitForFunction(() => (document.querySelector("#justification") as HTMLTextAreaElement | null)?.value.includes("20% screen failure"));
     expect(await box.inputValue()).not.toMatch(/^Our team reviewed/);
-    await page.getByText("Generated from the scenario; it follows the figures until you edit and save it.").waitFor();
+    // (The budget justification below says the same of itself: read the sample-size card's own note.)
+    await page.locator("section[aria-labelledby='justification-heading']").getByText("Generated from the scenario; it follows the figures until you edit and save it.").waitFor();
     expect(await page.getByRole("button", { name: "Regenerate from the scenario" }).count()).toBe(0);
   });
 
