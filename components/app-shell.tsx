@@ -13,7 +13,7 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:p-2">
         Skip to content
       </a>
-      <header className="border-b border-rule bg-ledger-dark text-white">
+      <header className="border-b border-rule bg-ledger-dark text-white print:hidden">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
           <Link href="/" className="text-white hover:text-white" aria-label="Delta Ledger home">
             <Wordmark />
@@ -35,10 +35,10 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
           </div>
         </div>
       </header>
-      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6">
+      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 print:max-w-none print:p-0">
         {children}
       </main>
-      <footer className="border-t border-rule py-4 text-center text-xs text-ink-soft">
+      <footer className="border-t border-rule py-4 text-center text-xs text-ink-soft print:hidden">
         Delta Ledger supports, and does not replace, review by a statistician and by your grants office.
       </footer>
     </div>

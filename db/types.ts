@@ -151,6 +151,11 @@ export interface ScenariosTable {
   justification: string | null;
   /** The figures an edited justification was written against (JSON list of { key, label, value }); null for a generated text. */
   justification_figures_json: ColumnType<string | null, string | null | undefined, string | null>;
+  /** An edited budget justification; null for the generated text. */
+  budget_justification: ColumnType<string | null, string | null | undefined, string | null>;
+  budget_justification_figures_json: ColumnType<string | null, string | null | undefined, string | null>;
+  /** The investigator's planned enrolment proportions (JSON { sex, ethnicity, race }); null when none given. */
+  enrolment_plan_json: ColumnType<string | null, string | null | undefined, string | null>;
   review_note: string | null;
   /** Why the figures last changed without an edit of the scenario's own (a change of the study's rules); cleared by its next edit. */
   recompute_note: ColumnType<string | null, string | null | undefined, string | null>;

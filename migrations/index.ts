@@ -11,6 +11,7 @@ import * as outboxPendingSecret from "./2026-12-02-0009-outbox-pending-secret";
 import * as sponsorRules from "./2026-12-02-0011-sponsor-rules";
 import * as reviewEvents from "./2026-12-02-0012-review-events";
 import * as passwordLinksAndMailSettings from "./2026-12-02-0013-password-links-and-mail-settings";
+import * as budgetOutputs from "./2026-12-02-0014-budget-outputs";
 
 /**
  * Every migration, keyed by its dated file name (Kysely runs them in key order).
@@ -29,4 +30,5 @@ export const migrations: Record<string, Migration> = {
   "2026-12-02-0011-sponsor-rules": sponsorRules,
   "2026-12-02-0012-review-events": reviewEvents,
   "2026-12-02-0013-password-links-and-mail-settings": passwordLinksAndMailSettings,
+  "2026-12-02-0014-budget-outputs": budgetOutputs,
 };

@@ -3,7 +3,7 @@
 import { useActionState, useState, useTransition, type ReactNode } from "react";
 import { ConfirmButton } from "@/components/confirm-button";
 import { mismatchLines, type JustificationCheck } from "@/lib/planning/justification-figures";
-import { adoptAction, cloneAction, deleteAction, recomputeAction, reviewAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
+import { adoptAction, cloneAction, deleteAction, recomputeAction, reviewAction, saveBudgetJustificationAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 
 type Ids = { studyId: number; scenarioId: number; version: number };
 type State = { error: string | null } | undefined;
@@ -196,7 +196,35 @@ const DONE: Record<NonNullable<SaveResult["done"]>, string> = {
  * so the box keeps what it shows and nothing is reset behind React's back.
  */
 
-export function JustificationEditor({ ids, text, generated, edited, editable, check }: { ids: Ids; text: string; generated: string; edited: boolean; editable: boolean; check: JustificationCheck }) {
+/**
+ * The two texts of an application share one editor and one guard: the sample-size justification and
+ * the budget justification differ only in their words, element ids and the action that saves them.
+ */
+const KINDS = {
+  "sample-size": { heading: "Sample-size justification", id: "justification", label: "Justification text", saveLabel: "Save the text", regenerateLabel: "Regenerate from the scenario", reviewer: "A statistician should review it.", save: saveJustificationAction },
+  budget: { heading: "Budget justification", id: "budget-justification", label: "Text of the budget justification", saveLabel: "Save the budget justification", regenerateLabel: "Regenerate from the budget", reviewer: "The grants office should review it.", save: saveBudgetJustificationAction },
+} as const;
+
+export function JustificationEditor({
+  ids,
+  text,
+  generated,
+  edited,
+  editable,
+  check,
+  kind = "sample-size",
+}: {
+  ids: Ids;
+  text: string;
+  generated: string;
+  edited: boolean;
+  editable: boolean;
+  check: JustificationCheck;
+  kind?: keyof typeof KINDS;
+}) {
+  const k = KINDS[kind];
+  // The sample-size editor keeps its original ids (journeys and styles read them); the budget one is prefixed.
+  const tid = (name: string) => (kind === "budget" ? `budget-${name}` : name);
   const [pending, startTransition] = useTransition();
   const [result, setResult] = useState<SaveResult | null>(null);
   const [draft, setDraft] = useState(text);
@@ -220,25 +248,25 @@ export function JustificationEditor({ ids, text, generated, edited, editable, ch
     setResult(null);
     setKept(false);
     startTransition(async () => {
-      const r = await saveJustificationAction(undefined, form);
+      const r = await k.save(undefined, form);
       setResult(r);
       if (!r.error) setPreview(false);
     });
   }
 
   return (
-    <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="justification-heading">
-      <h2 id="justification-heading">Sample-size justification</h2>
+    <section className="card flex min-w-0 flex-col gap-3 print-keep" aria-labelledby={tid("justification-heading")}>
+      <h2 id={tid("justification-heading")}>{k.heading}</h2>
       <p className="text-sm text-ink-soft">
         {!edited
           ? "Generated from the scenario; it follows the figures until you edit and save it."
           : check.status === "matches"
             ? "Edited by the investigator; it quotes the scenario's current figures."
             : "Edited by the investigator."}{" "}
-        A statistician should review it.
+        {k.reviewer}
       </p>
       {lines ? (
-        <div className="alert flex flex-col gap-1" data-testid="justification-mismatch">
+        <div className="alert flex flex-col gap-1" data-testid={tid("justification-mismatch")}>
           <p className="font-semibold">The text no longer matches the scenario&apos;s figures.</p>
           {check.status === "changed" ? <p>It was written for figures that have since changed:</p> : null}
           <ul className="list-disc pl-5">
@@ -251,11 +279,11 @@ export function JustificationEditor({ ids, text, generated, edited, editable, ch
       ) : null}
       {editable ? (
         <div className="flex flex-col gap-2">
-          <label htmlFor="justification" className="sr-only">
-            Justification text
+          <label htmlFor={k.id} className="sr-only">
+            {k.label}
           </label>
           <textarea
-            id="justification"
+            id={k.id}
             name="justification"
             value={draft}
             onChange={(e) => {
@@ -268,7 +296,7 @@ export function JustificationEditor({ ids, text, generated, edited, editable, ch
           />
           <div className="flex flex-wrap gap-2">
             <button type="button" className="btn btn-quiet" disabled={pending} onClick={() => send("save")}>
-              {pending && !preview ? "Saving…" : "Save the text"}
+              {pending && !preview ? "Saving…" : k.saveLabel}
             </button>
             {edited && !preview ? (
               <button
@@ -281,16 +309,16 @@ export function JustificationEditor({ ids, text, generated, edited, editable, ch
                   setKept(false);
                 }}
               >
-                Regenerate from the scenario
+                {k.regenerateLabel}
               </button>
             ) : null}
           </div>
           {preview ? (
-            <div className="flex flex-col gap-2 rounded-md border border-rule bg-paper p-3" role="group" aria-labelledby="regenerate-heading" data-testid="regenerate-preview">
-              <h3 id="regenerate-heading" className="text-base">
+            <div className="flex flex-col gap-2 rounded-md border border-rule bg-paper p-3" role="group" aria-labelledby={tid("regenerate-heading")} data-testid={tid("regenerate-preview")}>
+              <h3 id={tid("regenerate-heading")} className="text-base">
                 The text the scenario generates now
               </h3>
-              <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid="regenerated-text">
+              <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid={tid("regenerated-text")}>
                 {generated}
               </p>
               <p className="text-sm text-ink-soft">Replacing it discards your edited text for good.</p>
@@ -322,7 +350,7 @@ export function JustificationEditor({ ids, text, generated, edited, editable, ch
           </div>
         </div>
       ) : (
-        <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid="justification">
+        <p className="whitespace-pre-wrap text-sm leading-relaxed" data-testid={tid("justification")}>
           {text}
         </p>
       )}

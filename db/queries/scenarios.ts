@@ -9,6 +9,8 @@ import { checkJustification, describeChange, justificationFigures, parseFigures,
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { adoptCapBuys, adoptCheapest } from "@/lib/planning/adopt";
 import { cheapestDesign } from "@/lib/planning/optimiser";
+import { budgetJustificationFigures, generateBudgetJustification } from "@/lib/planning/budget-justification";
+import { storedEnrolmentPlanSchema, type EnrolmentPlan } from "@/lib/sponsor/enrolment";
 import { TimelineError, CostingError } from "@/lib/costing";
 import { PowerInputError, UnreachableError, type Design } from "@/lib/power";
 import { writeAudit, type AuditEntry } from "./audit";
@@ -40,6 +42,13 @@ export type ScenarioDetail = ScenarioSummary & {
   justificationCheck: JustificationCheck;
   /** The text the scenario generates now, for "regenerate" to show before it replaces an edited one. */
   generatedJustification: string;
+  /** The budget justification (edited, or generated from the ledger), checked against its figures like the sample-size one. */
+  budgetJustification: string;
+  budgetJustificationEdited: boolean;
+  budgetJustificationCheck: JustificationCheck;
+  generatedBudgetJustification: string;
+  /** The investigator's planned enrolment proportions; null when none were given (nothing is guessed). */
+  enrolmentPlan: EnrolmentPlan | null;
   reviewNote: string | null;
   /** Why the figures last changed without an edit of the scenario's own (the study's rules changed). */
   recomputeNote: string | null;
@@ -148,6 +157,7 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
   const latest = await editionInForceLabel(actor, costingDate(row.start_date, isoDay()));
   const study = studyContext(row);
   const generated = generateJustification(inputs, results, study);
+  const generatedBudget = generateBudgetJustification(inputs, results);
   return {
     ...summaryOf(row),
     inputs,
@@ -156,6 +166,11 @@ export async function getScenario(actor: Actor, id: number, action: Parameters<t
     justificationEdited: row.justification !== null,
     justificationCheck: checkJustification(row.justification !== null, parseFigures(row.justification_figures_json), justificationFigures(inputs, results, study)),
     generatedJustification: generated,
+    budgetJustification: row.budget_justification ?? generatedBudget,
+    budgetJustificationEdited: row.budget_justification !== null,
+    budgetJustificationCheck: checkJustification(row.budget_justification !== null, parseFigures(row.budget_justification_figures_json), budgetJustificationFigures(inputs, results)),
+    generatedBudgetJustification: generatedBudget,
+    enrolmentPlan: parseEnrolmentPlan(row.enrolment_plan_json),
     reviewNote: row.review_note,
     recomputeNote: row.recompute_note,
     settingsChanged: results.studySettings !== undefined && results.studySettings !== settingsFingerprint(study),
@@ -204,7 +219,28 @@ export async function createScenario(actor: Actor, studyId: number, input: { nam
     });
 }
 
-export type ScenarioPatch = { version: number; name?: string; inputs?: ScenarioInputs; justification?: string | null; recompute?: boolean };
+export type ScenarioPatch = {
+  version: number;
+  name?: string;
+  inputs?: ScenarioInputs;
+  justification?: string | null;
+  /** An edited budget justification, or null to go back to the generated one. */
+  budgetJustification?: string | null;
+  /** Planned enrolment proportions, or null to remove them. */
+  enrolmentPlan?: EnrolmentPlan | null;
+  recompute?: boolean;
+};
+
+/** Stored proportions, or null when none or unreadable (then no table is made, rather than a guessed one). */
+function parseEnrolmentPlan(json: string | null): EnrolmentPlan | null {
+  if (!json) return null;
+  try {
+    const parsed = storedEnrolmentPlanSchema.safeParse(JSON.parse(json));
+    return parsed.success ? parsed.data : null;
+  } catch {
+    return null;
+  }
+}
 
 export async function updateScenario(actor: Actor, id: number, patch: ScenarioPatch): Promise<ScenarioDetail> {
   const { row } = await access(actor, id, "scenario.edit");
@@ -234,10 +270,17 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
       : patch.justification === null
         ? null
         : JSON.stringify(justificationFigures(inputs, results ?? (JSON.parse(row.results_json) as ScenarioResults), studyContext(row)));
+  const budgetFigures =
+    patch.budgetJustification === undefined || patch.budgetJustification === null
+      ? null
+      : JSON.stringify(budgetJustificationFigures(inputs, results ?? (JSON.parse(row.results_json) as ScenarioResults)));
   const audit: AuditEntry[] = [];
   if (patch.name !== undefined && patch.name !== row.name) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "name", oldValue: row.name, newValue: patch.name });
   if (patch.inputs) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "inputs", oldValue: null, newValue: null });
   if (editionId !== row.rate_edition_id) audit.push({ userId: actor.id, action: "recompute", entity: "scenario", entityId: id, field: "rate_edition_id", oldValue: String(row.rate_edition_id), newValue: String(editionId) });
+  if (patch.budgetJustification !== undefined)
+    audit.push({ userId: actor.id, action: patch.budgetJustification === null ? "regenerate" : "update", entity: "scenario", entityId: id, field: "budget_justification", oldValue: null, newValue: null });
+  if (patch.enrolmentPlan !== undefined) audit.push({ userId: actor.id, action: "update", entity: "scenario", entityId: id, field: "enrolment_plan", oldValue: row.enrolment_plan_json, newValue: patch.enrolmentPlan === null ? null : JSON.stringify(patch.enrolmentPlan) });
   if (patch.justification !== undefined) audit.push({ userId: actor.id, action: patch.justification === null ? "regenerate" : "update", entity: "scenario", entityId: id, field: "justification", oldValue: null, newValue: null });
   await getDb()
     .transaction()
@@ -247,6 +290,8 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
         .set({
           ...(patch.name !== undefined ? { name: patch.name } : {}),
           ...(patch.justification !== undefined ? { justification: patch.justification, justification_figures_json: figures } : {}),
+          ...(patch.budgetJustification !== undefined ? { budget_justification: patch.budgetJustification, budget_justification_figures_json: budgetFigures } : {}),
+          ...(patch.enrolmentPlan !== undefined ? { enrolment_plan_json: patch.enrolmentPlan === null ? null : JSON.stringify(patch.enrolmentPlan) } : {}),
           // Time to event: the derived accrual is stored with the inputs (lib/planning/accrual.ts).
           inputs_json: JSON.stringify(patch.inputs || patch.recompute ? withSettledAccrual(inputs) : inputs),
           // The investigator's own recompute or edit supersedes a note of a recompute by a change of the study's rules.
@@ -276,7 +321,10 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
 
 export async function cloneScenario(actor: Actor, id: number): Promise<number> {
   const { row } = await access(actor, id, "scenario.edit");
-  return createScenario(actor, row.study_id, { name: `${row.name} (copy)`.slice(0, 80), inputs: JSON.parse(row.inputs_json) as ScenarioInputs }, id);
+  const copy = await createScenario(actor, row.study_id, { name: `${row.name} (copy)`.slice(0, 80), inputs: JSON.parse(row.inputs_json) as ScenarioInputs }, id);
+  // The investigator's enrolment proportions are part of the plan: the copy keeps them.
+  if (row.enrolment_plan_json) await getDb().updateTable("scenarios").set({ enrolment_plan_json: row.enrolment_plan_json }).where("id", "=", copy).execute();
+  return copy;
 }
 
 export async function deleteScenario(actor: Actor, id: number): Promise<void> {
@@ -409,7 +457,18 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
   const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
   return {
     study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
-    scenarios: list.map(({ detail, rates }) => ({ name: detail.name, state: detail.state, inputs: detail.inputs, results: detail.results, justification: detail.justification, justificationCheck: detail.justificationCheck, rates })),
+    scenarios: list.map(({ detail, rates }) => ({
+      name: detail.name,
+      state: detail.state,
+      inputs: detail.inputs,
+      results: detail.results,
+      justification: detail.justification,
+      justificationCheck: detail.justificationCheck,
+      budgetJustification: detail.budgetJustification,
+      budgetJustificationCheck: detail.budgetJustificationCheck,
+      enrolmentPlan: detail.enrolmentPlan,
+      rates,
+    })),
   };
 }
 

@@ -1,4 +1,6 @@
+import { execFileSync } from "node:child_process";
 import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { chromium, type Browser, type BrowserContext, type Dialog, type Locator, type Page } from "playwright-core";
 import { afterAll, beforeAll } from "vitest";
@@ -239,7 +241,7 @@ export async function fillHandWorkedScenario(page: Page, name: string, overrides
 /**
  * The value a spreadsheet program would show in a cell of a workbook read with exceljs, whose formulas
  * carry no cached results: evaluates the few functions the budget workbook uses (SUM over a range,
- * ROUND, MIN, MAX, IF with a comparison is not needed) with cell, cross-sheet and defined-name
+ * ROUND, MIN, MAX, IF with an equality test on text) with cell, cross-sheet and defined-name
  * references. `ref` is a defined name or 'Sheet'!A1. Floating point: compare money to the cent.
  */
 export function workbookValue(wb: import("exceljs").Workbook, ref: string): number {
@@ -264,6 +266,8 @@ export function workbookValue(wb: import("exceljs").Workbook, ref: string): numb
     if (typeof v === "number") out = v;
     else if (v && typeof v === "object" && "formula" in (v as object)) out = formula(sheet, (v as { formula: string }).formula);
     else if (v === null || v === undefined || v === "") out = 0;
+    // Text ("yes", "no") stays text, for IF's comparisons; it enters the formula as a JSON string.
+    else if (typeof v === "string" && Number.isNaN(Number(v))) out = v as unknown as number;
     else out = Number(v);
     seen.set(key, out);
     return out;
@@ -274,23 +278,24 @@ export function workbookValue(wb: import("exceljs").Workbook, ref: string): numb
       const target = names.get(m);
       if (!target) return m;
       const [, sh, ad] = /^'?(.*?)'?!(.*)$/.exec(target)!;
-      return `(${cell(sh!, ad!)})`;
+      return `(${JSON.stringify(cell(sh!, ad!))})`;
     });
     js = js.replace(REF, (_m, sh: string | undefined, a: string, b: string | undefined) => {
       const s = sh ?? sheet;
-      if (!b) return `(${cell(s, a)})`;
+      if (!b) return `(${JSON.stringify(cell(s, a))})`;
       const [, c1, r1] = /^([A-Z]+)(\d+)$/.exec(a.replace(/\$/g, ""))!;
       const [, c2, r2] = /^([A-Z]+)(\d+)$/.exec(b.replace(/\$/g, ""))!;
       const vals: number[] = [];
       for (let c = colNum(c1!); c <= colNum(c2!); c++) for (let r = Number(r1); r <= Number(r2); r++) vals.push(cell(s, `${colName(c)}${r}`));
       return `[${vals.join(",")}]`;
     });
-    js = js.replace(/\^/g, "**");
+    js = js.replace(/\^/g, "**").replace(/<>/g, "!==").replace(/(?<![<>!=])=(?!=)/g, "===");
     const flat = (xs: unknown[]): number[] => xs.flatMap((x) => (Array.isArray(x) ? flat(x) : [Number(x)]));
     const fns = {
       SUM: (...xs: unknown[]) => flat(xs).reduce((a, b) => a + b, 0),
       MIN: (...xs: unknown[]) => Math.min(...flat(xs)),
       MAX: (...xs: unknown[]) => Math.max(...flat(xs)),
+      IF: (c: unknown, a: unknown, b: unknown) => (c ? a : b),
       ROUND: (x: number, d: number) => Math.sign(x) * Math.round(Math.abs(x) * 10 ** d + 1e-7) / 10 ** d,
     };
     return Number(new Function(...Object.keys(fns), `return (${js});`)(...Object.values(fns)));
@@ -302,4 +307,23 @@ export function workbookValue(wb: import("exceljs").Workbook, ref: string): numb
   const m = /^'?(.*?)'?!(.*)$/.exec(ref);
   if (!m) throw new Error(`not a reference: ${ref}`);
   return cell(m[1]!, m[2]!);
+}
+
+/**
+ * Prints the page to PDF as headless Chromium does (print media, Letter) and returns the text poppler's
+ * pdftotext reads from it, in layout order; pages are separated by form feeds. `.ci/run` installs
+ * poppler-utils when pdftotext is missing.
+ */
+export async function printToText(page: Page, name: string): Promise<string> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-pdf-"));
+  try {
+    const file = path.join(dir, `${name}.pdf`);
+    await page.emulateMedia({ media: "print" });
+    await page.pdf({ path: file, format: "Letter", printBackground: true });
+    await page.emulateMedia({ media: "screen" });
+    if (fs.readFileSync(file).subarray(0, 5).toString() !== "%PDF-") throw new Error("Chromium did not write a PDF.");
+    return execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
 }

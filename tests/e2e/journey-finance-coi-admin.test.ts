@@ -1,7 +1,7 @@
 import { describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { readMailbox } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, printToText, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
 
 /**
  * Finance, the co-investigator and the administrator, each through the pages. Where a journey needs
@@ -27,7 +27,7 @@ async function createScenario(pi: Page, studyUrl: string, name: string): Promise
 }
 
 describe("finance", () => {
-  it("finds the scenario in review, downloads its workbook whose grand total is the page's total, and sees no draft", async () => {
+  it("finds the scenario in review, downloads its workbook whose grand total is the page's total, saves the report as PDF with the same totals, and sees no draft", async () => {
     const pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await signIn(pi, baseUrl, "pi@demo.test");
     const study = { code: "JRN-FIN", title: "Open Air: an invented outdoor exercise trial", sponsor: "Invented Lung Health Fund", cap: "100000", start: "2028-01-01" };
@@ -56,11 +56,23 @@ describe("finance", () => {
     expect(download.suggestedFilename()).toMatch(/^JRN-FIN_finance-sees-this-one_\d{4}-\d{2}-\d{2}\.xlsx$/);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile((await download.path())!);
-    expect(wb.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["Summary", "Budget by period", "Justification"]));
+    expect(wb.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["Summary", "Budget by period", "Sponsor format", "Justification", "Enrolment"]));
     // The workbook's formulas, evaluated: its grand total is the total the page shows, to the cent.
     const grand = workbookValue(wb, "GRAND_TOTAL");
-    expect(`$${grand.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })}`).toBe(pageTotal);
+    const dollars = (x: number) => `$${x.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 })}`;
+    expect(dollars(grand)).toBe(pageTotal);
+    // And the value stored with the formula, which a viewer that does not calculate shows, is the same.
+    const [sheet, at] = (wb.definedNames as unknown as { getRanges: (n: string) => { ranges: string[] } }).getRanges("GRAND_TOTAL").ranges[0]!.replace(/'/g, "").split("!");
+    expect(dollars(Number((wb.getWorksheet(sheet!)!.getCell(at!.replace(/\$/g, "")).value as { result: number }).result))).toBe(pageTotal);
     await screenshotWidths(fin, "journey-finance-scenario");
+    // The printable report, saved as PDF: its ledger total and the sponsor format's whole dollars are the page's total.
+    await fin.getByTestId("open-report").click();
+    await fin.waitForURL(/\/report$/);
+    await fin.getByTestId("print-reach-chart").locator("svg path.recharts-curve").first().waitFor();
+    const text = await printToText(fin, "finance-report");
+    const row = (start: RegExp) => text.split("\n").map((l) => l.trim()).find((l) => start.test(l)) ?? "";
+    expect(row(/^Total\s+\$/).match(/\$[\d,.]+/g)).toEqual([pageTotal, pageTotal]);
+    expect(row(/^I\. Total costs/).match(/\$[\d,]+/g)).toEqual(["$74,807", "$74,807"]);
     await fin.close();
   }, 300_000);
 });

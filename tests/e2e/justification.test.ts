@@ -100,9 +100,11 @@ describe("the investigator's justification", () => {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile((await download.path())!);
     const ws = wb.getWorksheet("Justification")!;
-    expect(String(ws.getCell("A4").value)).toMatch(/^Our team reviewed/);
-    expect(String(ws.getCell("B3").value)).toBe("Against the figures");
-    const warning = String(ws.getCell("B4").value);
+    // The sheet holds both texts of the application; the sample-size one first, its status beside it.
+    expect(String(ws.getCell("A4").value)).toBe("Sample-size justification");
+    expect(String(ws.getCell("A5").value)).toMatch(/^Our team reviewed/);
+    expect(String(ws.getCell("B4").value)).toBe("Against the figures");
+    const warning = String(ws.getCell("B5").value);
     expect(warning).toMatch(/^This text no longer matches the scenario's figures\./);
     expect(warning).toContain(SCREEN_FAILURE_CHANGE);
   });
@@ -125,7 +127,8 @@ describe("the investigator's justification", () => {
     const box = page.getByLabel("Justification text");
     await page.waitForFunction(() => (document.querySelector("#justification") as HTMLTextAreaElement | null)?.value.includes("20% screen failure"));
     expect(await box.inputValue()).not.toMatch(/^Our team reviewed/);
-    await page.getByText("Generated from the scenario; it follows the figures until you edit and save it.").waitFor();
+    // (The budget justification below says the same of itself: read the sample-size card's own note.)
+    await page.locator("section[aria-labelledby='justification-heading']").getByText("Generated from the scenario; it follows the figures until you edit and save it.").waitFor();
     expect(await page.getByRole("button", { name: "Regenerate from the scenario" }).count()).toBe(0);
   });
 

@@ -3,6 +3,8 @@
  * values must equal the app's ledger to the cent; a changed F&A rate must flow through the same formula.
  */
 import ExcelJS from "exceljs";
+// exceljs's own zip reader, to look at the stored XML.
+import JSZip from "jszip";
 import Decimal from "decimal.js";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
@@ -17,6 +19,8 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import { dropDatabase, useFreshDatabase } from "../support/db";
 import { params, request, signInAs } from "../support/http";
 import { recalculate } from "../support/libreoffice";
+import { sponsorBudget } from "@/lib/sponsor/budget";
+import { CAUTION } from "@/lib/workbook/cells";
 
 let dir = "";
 const c: Record<string, string> = {};
@@ -81,6 +85,51 @@ function checkAgainstLedger(ws: ExcelJS.Worksheet, results: ScenarioResults): nu
   return checked;
 }
 
+/**
+ * Every formula cell's stored value (what a viewer that does not calculate shows) equals LibreOffice's
+ * recalculated value: numbers to the cent (rates and person-months to 1e-9), text exactly.
+ */
+function expectStoredEqualsRecalculated(built: ExcelJS.Workbook, recalculated: ExcelJS.Workbook): number {
+  let checked = 0;
+  built.eachSheet((ws) => {
+    const other = recalculated.getWorksheet(ws.name)!;
+    expect(other, ws.name).toBeDefined();
+    ws.eachRow((row) =>
+      row.eachCell((cell) => {
+        const v = cell.value as ExcelJS.CellFormulaValue | null;
+        if (!v || typeof v !== "object" || !("formula" in v)) return;
+        // exceljs reads a stored 0 back as no result (storedValuesPresent checks the file itself).
+        if (v.result === undefined) v.result = 0;
+        const again = other.getCell(cell.address).value as ExcelJS.CellFormulaValue | number | string;
+        const recomputed = again && typeof again === "object" && "formula" in again ? again.result : again;
+        if (typeof v.result === "number") {
+          const got = Number(recomputed ?? 0);
+          if (Math.abs(v.result) >= 1 || Number.isInteger(v.result)) expect(cents(got), `${ws.name}!${cell.address}`).toBe(cents(v.result));
+          else expect(Math.abs(got - v.result), `${ws.name}!${cell.address}`).toBeLessThan(1e-9);
+        } else expect(recomputed, `${ws.name}!${cell.address}`).toBe(v.result);
+        checked++;
+      }),
+    );
+  });
+  return checked;
+}
+
+/** In the file itself, every formula (<f>) of every sheet is followed by its stored value (<v>). */
+async function storedValuesPresent(buffer: Buffer): Promise<number> {
+  const zip = await JSZip.loadAsync(buffer);
+  let formulas = 0;
+  for (const [path, file] of Object.entries(zip.files)) {
+    if (!/^xl\/worksheets\/sheet\d+\.xml$/.test(path)) continue;
+    const xml = await file.async("string");
+    for (const cell of xml.match(/<c [^>]*>.*?<\/c>/g) ?? []) {
+      if (!cell.includes("<f>")) continue;
+      formulas++;
+      expect(cell, `${path}: a formula without its stored value`).toMatch(/<\/f><v>[^<]*<\/v>/);
+    }
+  }
+  return formulas;
+}
+
 describe("permissions", () => {
   it("each role's access to each route", async () => {
     const draft = scenarios.find((s) => s.state === "draft")!;
@@ -106,7 +155,7 @@ describe("permissions", () => {
 describe("read back with exceljs", () => {
   it("has the sheets, live formulas, named cells, and inert user text", async () => {
     const wb = await load(Buffer.from(await (await one("pi", scenarios[1]!.id)).arrayBuffer()));
-    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Personnel", "Participants", "Sites", "Justification", "Forecast", "Assumptions"]);
+    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Budget by period", "Sponsor format", "Personnel", "Participants", "Sites", "Justification", "Enrolment", "Forecast", "Assumptions"]);
     // The forecast sheet: the chance of enrolling on time, the milestone table with its band, what a slow enrolment costs.
     const forecast = wb.getWorksheet("Forecast")!;
     const labels = new Map<string, ExcelJS.CellValue>();
@@ -139,9 +188,13 @@ describe("read back with exceljs", () => {
 describe("recalculated with LibreOffice", () => {
   it("every line, subtotal and total of one scenario equals the ledger to the cent", async () => {
     const id = scenarios[0]!.id;
-    const recalculated = await load(recalculate(Buffer.from(await (await one("pi", id)).arrayBuffer())));
+    const buffer = Buffer.from(await (await one("pi", id)).arrayBuffer());
+    const recalculated = await load(recalculate(buffer));
     const checked = checkAgainstLedger(recalculated.getWorksheet("Budget by period")!, await resultsOf(id));
     expect(checked).toBeGreaterThan(40);
+    // And the values stored with the formulas (for viewers that do not calculate) are LibreOffice's, to the cent.
+    expect(expectStoredEqualsRecalculated(await load(buffer), recalculated)).toBeGreaterThan(200);
+    expect(await storedValuesPresent(buffer)).toBeGreaterThan(200);
     // No cell errors anywhere.
     recalculated.eachSheet((ws) =>
       ws.eachRow((row) =>
@@ -155,9 +208,11 @@ describe("recalculated with LibreOffice", () => {
 
   it("a comparison reconciles scenario by scenario", async () => {
     const ids = scenarios.slice(0, 3).map((s) => s.id);
-    const recalculated = await load(recalculate(Buffer.from(await (await many("grants", ids)).arrayBuffer())));
+    const buffer = Buffer.from(await (await many("grants", ids)).arrayBuffer());
+    const recalculated = await load(recalculate(buffer));
+    expectStoredEqualsRecalculated(await load(buffer), recalculated);
     expect(recalculated.worksheets[0]!.name).toBe("Comparison");
-    const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+    const budgets = recalculated.worksheets.filter((w) => /^[A-D] Budget · /.test(w.name));
     expect(budgets.length).toBe(3);
     for (let k = 0; k < 3; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
     const cmp = recalculated.getWorksheet("Comparison")!;
@@ -177,9 +232,10 @@ describe("recalculated with LibreOffice", () => {
       const res = await many("grants", ids);
       expect(res.status).toBe(200);
       const built = await load(Buffer.from(await res.arrayBuffer()));
-      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Dr O'Brien Budget by period", "B Kids' arm Budget by period"]));
+      expect(built.worksheets.map((w) => w.name)).toEqual(expect.arrayContaining(["A Budget · Dr O'Brien plan", "B Budget · Kids' arm", "B Sponsor format · Kids' arm"]));
       const recalculated = await load(recalculate(Buffer.from(await built.xlsx.writeBuffer())));
-      const budgets = recalculated.worksheets.filter((w) => w.name.endsWith("Budget by period"));
+      expectStoredEqualsRecalculated(built, recalculated);
+      const budgets = recalculated.worksheets.filter((w) => /^[A-D] Budget · /.test(w.name));
       expect(budgets.length).toBe(2);
       for (let k = 0; k < 2; k++) checkAgainstLedger(budgets[k]!, await resultsOf(ids[k]!));
       let grand: ExcelJS.Row | undefined;
@@ -238,3 +294,75 @@ describe("recalculated with LibreOffice", () => {
     expect(grand.greaterThan(results.ledger.totals.total)).toBe(true);
   }, 120_000);
 });
+
+describe("made for people", () => {
+  it("says categories, yes/no and rates in people's words, prints every sheet with repeated headers and a footer, and gives the caution once", async () => {
+    const wb = await load(Buffer.from(await (await one("pi", scenarios[0]!.id)).arrayBuffer()));
+    const budget = wb.getWorksheet("Budget by period")!;
+    const categories = new Set<string>();
+    const flags = new Set<string>();
+    budget.eachRow((row, n) => {
+      if (n > 4 && typeof row.getCell(2).value === "string" && row.getCell(4).value !== null) {
+        if (typeof row.getCell(1).value === "string") categories.add(row.getCell(1).value as string);
+        if (typeof row.getCell(3).value === "string") flags.add(row.getCell(3).value as string);
+      }
+    });
+    // No internal codes (site-fees, procedures, participant…), no 1/0 flags.
+    for (const c of categories) expect(c, c).not.toMatch(/^[a-z]+(-[a-z]+)*$/);
+    expect([...categories]).toEqual(expect.arrayContaining(["Salaries", "Fringe benefits", "Site fees", "Research procedures", "Participant payments"]));
+    expect([...flags].sort()).toEqual(["no", "yes"].filter((f) => flags.has(f)));
+    expect(flags.has("yes")).toBe(true);
+    // Rates as percentages with two decimals.
+    const assumptions = wb.getWorksheet("Assumptions")!;
+    let fa: ExcelJS.Cell | undefined;
+    assumptions.eachRow((row) => {
+      if (row.getCell(1).value === "F&A rate") fa = row.getCell(3);
+    });
+    expect(fa!.numFmt).toBe("0.00%");
+    let caution = 0;
+    wb.eachSheet((ws) => {
+      expect(ws.pageSetup.fitToWidth, ws.name).toBe(1);
+      expect(ws.pageSetup.printTitlesRow, ws.name).toMatch(/^1:\d$/);
+      const footer = ws.headerFooter.oddFooter ?? "";
+      expect(footer, ws.name).toContain("WALK-KNEE");
+      expect(footer, ws.name).toContain("Six sites, 90% power");
+      expect(footer, ws.name).toContain("edition 2027 rates");
+      expect(footer, ws.name).toContain("page &P of &N");
+      ws.eachRow((row) => row.eachCell((cell) => void (cell.value === CAUTION && cell.master.address === cell.address && caution++)));
+    });
+    expect(caution).toBe(1);
+    // The personnel sheet: one row per person and period, eleven columns, not twenty.
+    const personnel = wb.getWorksheet("Personnel")!;
+    expect(personnel.getRow(4).cellCount).toBe(11);
+  });
+
+  it("the sponsor-format sheet, recalculated, is in whole dollars, sums its rounded lines and reconciles to the cents ledger per period", async () => {
+    const id = scenarios[0]!.id;
+    const results = await resultsOf(id);
+    const sb = sponsorBudget(results.ledger);
+    const wb = await load(recalculate(Buffer.from(await (await one("pi", id)).arrayBuffer())));
+    const ws = wb.getWorksheet("Sponsor format")!;
+    const P = results.ledger.periods.length;
+    const byLabel = new Map<string, ExcelJS.Row>();
+    ws.eachRow((row) => {
+      for (const c of [1, 2]) if (typeof row.getCell(c).value === "string") byLabel.set(row.getCell(c).value as string, row);
+    });
+    const total = byLabel.get("I. Total costs (direct and F&A)")!;
+    const diff = byLabel.get("Rounding difference (whole dollars − cents)")!;
+    for (let p = 0; p < P; p++) {
+      const dollars = num(total.getCell(3 + p).value);
+      expect(Number.isInteger(dollars)).toBe(true);
+      expect(dollars).toBe(sb.total[p]);
+      // The difference is the dollars total less the ledger's cents total, and small: at most half a dollar per line.
+      expect(cents(num(diff.getCell(3 + p).value))).toBe(new Decimal(dollars).minus(results.ledger.byPeriod.total[p]!).toFixed(2));
+      expect(Math.abs(num(diff.getCell(3 + p).value))).toBeLessThanOrEqual(0.5 * (results.ledger.lines.length + 1));
+    }
+    expect(num(total.getCell(3 + P).value)).toBe(sb.cumulative.total);
+    // Direct costs are the sum of the section totals, each a sum of whole-dollar lines.
+    const direct = byLabel.get("G. Direct costs")!;
+    expect(num(direct.getCell(3 + P).value)).toBe(sb.sections.reduce((a, s) => a + s.cumulative, 0));
+    expect(byLabel.has("A. Senior and key personnel")).toBe(true);
+    expect(byLabel.has("F. Other direct costs")).toBe(true);
+  }, 180_000);
+});
+

@@ -3,18 +3,18 @@ import { analysisWords } from "@/lib/planning/analysis-words";
 import type ExcelJS from "exceljs";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
-import { sheetName, safeText } from "../text";
-import { defineName, finish, fringeName, MONEY, name, RATE, title, type Ctx, type WorkbookScenario } from "../cells";
+import { safeText } from "../text";
+import { DATE, dateCell, defineName, finish, fringeName, humanDate, MONEY, name, RATE, title, type Ctx, type WorkbookScenario } from "../cells";
 
 export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Worksheet {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Assumptions`));
-  title(ws, "Assumptions and rates", `Rate-book edition "${s.rates.label}" effective ${s.rates.effectiveDate}; every value with its source.`);
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Assumptions"));
+  title(ws, "Assumptions and rates", `Rate-book edition "${s.rates.label}", effective ${s.rates.effectiveDate ? humanDate(s.rates.effectiveDate) : "—"}; every value with its source.`);
   ws.columns = [{ width: 44 }, { width: 28 }, { width: 18 }, { width: 40 }];
   ws.getRow(4).values = ["Item", "Name in formulas", "Value", "Source"];
   ws.getRow(4).font = { bold: true };
   let r = 5;
-  const edition = `Rate book: ${s.rates.label} (${s.rates.effectiveDate})`;
-  const add = (label: string, value: number | string, fmt?: string, n?: string, source = edition) => {
+  const edition = `Rate book: ${s.rates.label} (effective ${s.rates.effectiveDate ? humanDate(s.rates.effectiveDate) : "—"})`;
+  const add = (label: string, value: number | string | Date, fmt?: string, n?: string, source = edition) => {
     ws.getCell(`A${r}`).value = safeText(label);
     ws.getCell(`C${r}`).value = value;
     if (fmt) ws.getCell(`C${r}`).numFmt = fmt;
@@ -25,6 +25,7 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
     ws.getCell(`D${r}`).value = safeText(source);
     r++;
   };
+  if (s.rates.effectiveDate) add("Edition effective from", dateCell(s.rates.effectiveDate), DATE);
   // The rate the ledger applied: the agreement's on- or off-campus rate, limited by the sponsor where it says so (lib/costing/fa-cap.ts).
   const terms = s.results.ledger.faTerms;
   add(
@@ -39,15 +40,15 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   add("Escalation, salaries (per year from period 2)", Number(s.rates.escalation.salaries), RATE, name(ctx, "ESC_SALARIES"));
   add("Escalation, other costs (per year from period 2)", Number(s.rates.escalation.costs), RATE, name(ctx, "ESC_COSTS"));
   add("Salary cap (annual)", s.rates.salaryCap === null ? 1e12 : Number(s.rates.salaryCap), MONEY, name(ctx, "SALARY_CAP"), s.rates.salaryCap === null ? "No cap in this edition" : edition);
-  for (const f of s.rates.fringe) add(`Fringe rate, ${f.category}`, Number(f.rate), RATE, fringeName(ctx, f.category));
+  for (const f of s.rates.fringe) add(`Fringe rate, ${f.category.replace(/-/g, " ")}`, Number(f.rate), RATE, fringeName(ctx, f.category));
   r++;
   const d = s.inputs.design;
   const entered = "Investigator's entry";
   add("Design", designName(d.design), undefined, undefined, entered);
   add("Primary outcome", d.outcome, undefined, undefined, entered);
   add("Alpha", d.alpha, undefined, undefined, entered);
-  add("Sides", d.sides, undefined, undefined, entered);
-  add("Target power", d.power, undefined, undefined, entered);
+  add("Test", d.sides === 2 ? "two-sided" : "one-sided", undefined, undefined, entered);
+  add("Target power", d.power, "0%", undefined, entered);
   add("Analysis", analysisWords(s.results.power), undefined, undefined, d.marginRationale || d.correlationSource || entered);
   add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
   if (s.results.power.sdUsed !== undefined) add("Planning SD", s.results.power.sdUsed, undefined, undefined, s.inputs.pilot ? `Pilot data (${s.inputs.pilot.fileName})` : d.sdSource || entered);
@@ -55,10 +56,10 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   const rc = s.inputs.recruitment;
   add("Attrition", rc.attrition, RATE, undefined, entered);
   add("Screen failure", rc.screenFailure, RATE, undefined, entered);
-  add("Enrolled per site per month", rc.ratePerSiteMonth, undefined, undefined, entered);
+  add("Enrolled per site per month", rc.ratePerSiteMonth, "0.0#", undefined, entered);
   add("Start-up months per site", rc.startupMonths, undefined, undefined, entered);
   add("Months between site activations", rc.staggerMonths, undefined, undefined, entered);
   add("Share of visits a dropout attends", rc.dropoutVisitShare, RATE, undefined, entered);
-  finish(ws, { x: 1, y: 4 }, "1:4");
+  finish(ws, ctx.footer, { x: 1, y: 4 }, "1:4", "portrait");
   return ws;
 }

@@ -1,7 +1,8 @@
 /** Budget by period: every line by group, subtotals, direct costs, the F&A base, F&A and the total, all live formulas. */
 import type ExcelJS from "exceljs";
 import { col, quoteSheet, safeText } from "../text";
-import { CAUTION, defineName, escalationCell, finish, fx, MONEY, name, REVIEW_FILL, title, type Ctx, type LineRef, type WorkbookScenario } from "../cells";
+import { categoryWords } from "@/lib/sponsor/categories";
+import { defineName, escalationCell, finish, fx, humanDate, MONEY, name, REVIEW_FILL, title, type Ctx, type LineRef, type WorkbookScenario } from "../cells";
 
 export type BudgetLayout = { sheet: string; periods: number; rows: Record<"direct" | "base" | "fa" | "total", number>; lineRows: Map<string, number>; subtotalRows: Record<string, number>; firstCol: number; grandTotal: string };
 
@@ -12,8 +13,9 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   const P = ledger.periods.length;
   title(ws, `Budget by period: ${s.name}`, "Lines rounded to cents per period; subtotals and totals are sums of the rounded lines; F&A = ROUND(base × F&A rate, 2).");
   const first = 4;
-  ws.getRow(4).values = ["Category", "Line", "In F&A base", ...ledger.periods.map((p) => `P${p.index + 1} (${p.startDate.slice(0, 7)})`), "Total"];
+  ws.getRow(4).values = ["Category", "Line", "In the F&A base", ...ledger.periods.map((p) => `Period ${p.index + 1}\n${humanDate(p.startDate)} – ${humanDate(p.endDate)}`), "Total"];
   ws.getRow(4).font = { bold: true };
+  ws.getRow(4).alignment = { wrapText: true, vertical: "bottom" };
   let r = 5;
   const lineRows = new Map<string, number>();
   const subtotalRows: Record<string, number> = {};
@@ -27,25 +29,26 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
     ws.getCell(`A${r}`).font = { bold: true };
     r++;
     for (const line of lines) {
-      ws.getCell(`A${r}`).value = line.category;
+      ws.getCell(`A${r}`).value = categoryWords(line.category);
       ws.getCell(`B${r}`).value = safeText(line.label);
       if (line.review) ws.getCell(`B${r}`).fill = REVIEW_FILL;
       const fullyIn = line.inBase.every((b, p) => b === line.amounts[p]);
       const isSubaward = line.category === "subaward";
-      ws.getCell(`C${r}`).value = isSubaward ? 0 : fullyIn && line.amounts.some((a) => Number(a) !== 0) ? 1 : line.inBase.every((b) => Number(b) === 0) ? 0 : 1;
+      // "yes" or "no" as a grants office reads it; a subaward's part in the base is on the row below it.
+      ws.getCell(`C${r}`).value = isSubaward ? "first part (below)" : fullyIn && line.amounts.some((a) => Number(a) !== 0) ? "yes" : line.inBase.every((b) => Number(b) === 0) ? "no" : "yes";
       const ref = refs.get(line.key);
       for (let p = 0; p < P; p++) {
         const cell = ws.getCell(r, first + p);
-        if (ref) cell.value = fx(`${quoteSheet(ref.sheet)}!${col(ref.firstCol + p)}${ref.row}`);
+        if (ref) cell.value = fx(`${quoteSheet(ref.sheet)}!${ref.cells[p]}`, Number(line.amounts[p]));
         else if (line.basis === "amount" && line.escalation !== "0") {
           const base = Number(line.amounts[0]);
           const esc = escalationCell(ctx, line.escalation, s.rates);
           const escRef = typeof esc === "number" ? String(esc) : (esc as ExcelJS.CellFormulaValue).formula;
-          cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`);
+          cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`, Number(line.amounts[p]));
         } else cell.value = Number(line.amounts[p]);
         cell.numFmt = MONEY;
       }
-      ws.getCell(r, first + P).value = fx(`SUM(${col(first)}${r}:${col(first + P - 1)}${r})`);
+      ws.getCell(r, first + P).value = fx(`SUM(${col(first)}${r}:${col(first + P - 1)}${r})`, Number(line.total));
       ws.getCell(r, first + P).numFmt = MONEY;
       lineRows.set(line.key, r);
       inBaseRows.push(r);
@@ -57,6 +60,7 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
           const amount = `${col(first + p)}${r - 1}`;
           ws.getCell(r, first + p).value = fx(
             s.rates.faBase === "tdc" ? amount : p === 0 ? `MIN(${amount},${name(ctx, "MTDC_THRESHOLD")})` : `MIN(${amount},MAX(0,${name(ctx, "MTDC_THRESHOLD")}-SUM($${col(first)}${r}:${col(first + p - 1)}${r})))`,
+            Number(line.inBase[p]),
           );
           ws.getCell(r, first + p).numFmt = MONEY;
         }
@@ -69,7 +73,8 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
     for (let p = 0; p <= P; p++) {
       const c = col(first + p);
       const rows = lines.map((l) => lineRows.get(l.key)!);
-      ws.getCell(r, first + p).value = fx(rows.map((x) => `${c}${x}`).join("+"));
+      const value = lines.reduce((a, l) => a + Math.round(Number(p < P ? l.amounts[p] : l.total) * 100), 0) / 100;
+      ws.getCell(r, first + p).value = fx(rows.map((x) => `${c}${x}`).join("+"), value);
       ws.getCell(r, first + p).numFmt = MONEY;
     }
     subtotalRows[group] = r;
@@ -82,23 +87,25 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
     ws.getCell(`B${rr}`).value = labels[k];
     ws.getRow(rr).font = { bold: true };
   }
-  const flagRange = (c: string) => inBaseRows.map((x) => `$C$${x}*${c}${x}`).join("+");
+  // A line counts in the base when its "In the F&A base" cell says yes: change it and the base follows.
+  const flagRange = (c: string) => inBaseRows.map((x) => `IF($C$${x}="yes",${c}${x},0)`).join("+");
   for (let p = 0; p < P; p++) {
     const c = col(first + p);
-    ws.getCell(rows.direct, first + p).value = fx(subtotalList.map((x) => `${c}${x}`).join("+"));
+    ws.getCell(rows.direct, first + p).value = fx(subtotalList.map((x) => `${c}${x}`).join("+"), Number(ledger.byPeriod.direct[p]));
     // A sponsor that pays no F&A on some categories: the base is the flagged lines, whatever the rate book's base.
-    ws.getCell(rows.base, first + p).value = fx(s.rates.faBase === "tdc" && !ledger.faTerms?.excluded.length ? `${c}${rows.direct}` : [flagRange(c), ...subawardBaseRows.map((x) => `${c}${x}`)].filter(Boolean).join("+") || "0");
-    ws.getCell(rows.fa, first + p).value = fx(`ROUND(${c}${rows.base}*${name(ctx, "FA_RATE")},2)`);
-    ws.getCell(rows.total, first + p).value = fx(`${c}${rows.direct}+${c}${rows.fa}`);
+    ws.getCell(rows.base, first + p).value = fx(
+      s.rates.faBase === "tdc" && !ledger.faTerms?.excluded.length ? `${c}${rows.direct}` : [flagRange(c), ...subawardBaseRows.map((x) => `${c}${x}`)].filter(Boolean).join("+") || "0",
+      Number(ledger.byPeriod.base[p]),
+    );
+    ws.getCell(rows.fa, first + p).value = fx(`ROUND(${c}${rows.base}*${name(ctx, "FA_RATE")},2)`, Number(ledger.byPeriod.fa[p]));
+    ws.getCell(rows.total, first + p).value = fx(`${c}${rows.direct}+${c}${rows.fa}`, Number(ledger.byPeriod.total[p]));
   }
-  for (const rr of Object.values(rows)) {
-    ws.getCell(rr, first + P).value = fx(`SUM(${col(first)}${rr}:${col(first + P - 1)}${rr})`);
+  for (const [key, rr] of Object.entries(rows) as [keyof typeof rows, number][]) {
+    ws.getCell(rr, first + P).value = fx(`SUM(${col(first)}${rr}:${col(first + P - 1)}${rr})`, Number(ledger.totals[key]));
     for (let p = 0; p <= P; p++) ws.getCell(rr, first + p).numFmt = MONEY;
   }
   defineName(ctx, ws, `${col(first + P)}${rows.total}`, name(ctx, "GRAND_TOTAL"));
-  ws.getCell(`B${rows.total + 2}`).value = CAUTION;
-  ws.getCell(`B${rows.total + 2}`).font = { italic: true, size: 9 };
-  ws.columns.forEach((c, i) => (c.width = i === 0 ? 14 : i === 1 ? 46 : i === 2 ? 10 : 15));
-  finish(ws, { x: 2, y: 4 }, "1:4");
+  ws.columns.forEach((c, i) => (c.width = i === 0 ? 20 : i === 1 ? 46 : i === 2 ? 12 : 16));
+  finish(ws, ctx.footer, { x: 2, y: 4 }, "1:4");
   return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
 }

@@ -6,7 +6,7 @@
 import { scenarioAssurance } from "@/lib/planning/assurance";
 import { forecastScenario } from "@/lib/planning/forecast";
 import { givenPrior } from "@/lib/planning/schema";
-import { safeText, sheetName } from "../text";
+import { safeText } from "../text";
 import { finish, MONEY, title, type Ctx, type WorkbookScenario } from "../cells";
 
 export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string | null): void {
@@ -16,7 +16,7 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   const f = forecastScenario(s.inputs, s.results, s.rates, study, { rateSpread: s.inputs.uncertainty?.rateSpread });
   const prior = givenPrior(s.inputs.uncertainty);
   const a = prior ? scenarioAssurance(s.results.power, prior) : null;
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Forecast`));
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Forecast"));
   title(ws, "How likely the plan is", "A model of recruitment, not a promise: how much the plan depends on sites enrolling at the planned rate.");
   ws.columns = [{ width: 44 }, { width: 16 }, { width: 16 }, { width: 16 }, { width: 16 }];
   let r = 4;
@@ -66,5 +66,5 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
       r++;
     }
   }
-  finish(ws, { x: 1, y: head }, `${head}:${head}`);
+  finish(ws, ctx.footer, { x: 1, y: head }, `${head}:${head}`, "portrait");
 }

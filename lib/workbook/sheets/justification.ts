@@ -1,7 +1,13 @@
-/** The sample-size justification, whether it still quotes the figures, and the published sources behind the methods. */
+/**
+ * The two texts of an application side by side: the sample-size justification and the budget
+ * justification, each with whether it still quotes the scenario's figures, and the published sources
+ * behind the methods.
+ */
+import type ExcelJS from "exceljs";
+import { generateBudgetJustification } from "@/lib/planning/budget-justification";
 import { JUSTIFICATION_CAUTION } from "@/lib/planning/justification";
-import { justificationWarning } from "@/lib/planning/justification-figures";
-import { safeText, sheetName } from "../text";
+import { justificationWarning, type JustificationCheck } from "@/lib/planning/justification-figures";
+import { safeText } from "../text";
 import { finish, title, type Ctx, type WorkbookScenario } from "../cells";
 
 const SOURCES = [
@@ -14,31 +20,50 @@ const SOURCES = [
   "MTDC: 2 CFR 200.1 (Uniform Guidance as revised in 2024).",
 ];
 
-export function justificationSheet(ctx: Ctx, s: WorkbookScenario): void {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Justification`));
-  title(ws, "Sample-size justification", JUSTIFICATION_CAUTION);
-  ws.columns = [{ width: 120 }, { width: 60 }];
-  ws.getCell("A4").value = safeText(s.justification);
-  ws.getCell("A4").alignment = { wrapText: true, vertical: "top" };
-  ws.getRow(4).height = 220;
-  // Beside the text, whether it still quotes the scenario's figures: an edited text that no longer
-  // does carries the warning, so the sheet never contradicts the summary silently.
-  const check = s.justificationCheck ?? { status: "generated", changes: [] };
-  const warning = justificationWarning(check);
-  ws.getCell("B3").value = "Against the figures";
-  ws.getCell("B3").font = { bold: true };
-  const status = ws.getCell("B4");
-  status.value = safeText(
-    warning ?? (check.status === "matches" ? "Edited text; it quotes the scenario's current figures." : "Generated from the scenario's current figures."),
-  );
-  status.alignment = { wrapText: true, vertical: "top" };
+/** Beside a text, whether it still quotes the scenario's figures, so the sheet never contradicts the page silently. */
+function status(cell: ExcelJS.Cell, check: JustificationCheck | undefined): void {
+  const c = check ?? { status: "generated", changes: [] };
+  const warning = justificationWarning(c);
+  cell.value = safeText(warning ?? (c.status === "matches" ? "Edited text; it quotes the scenario's current figures." : "Generated from the scenario's current figures."));
+  cell.alignment = { wrapText: true, vertical: "top" };
   if (warning) {
-    status.font = { bold: true, color: { argb: "FFA6461F" } };
-    status.fill = { type: "pattern", pattern: "solid", fgColor: { argb: "FFF8E7DE" } };
+    cell.font = { bold: true, color: { argb: "FFA6461F" } };
+    cell.fill = { type: "pattern", pattern: "solid", fgColor: { argb: "FFF8E7DE" } };
   }
-  ws.getCell("A6").value = `Method: ${s.results.power.method}`;
-  ws.getCell("A8").value = "Published sources behind the methods";
-  ws.getCell("A8").font = { bold: true };
-  SOURCES.forEach((src, k) => (ws.getCell(`A${9 + k}`).value = src));
-  finish(ws, { x: 0, y: 3 }, "1:3");
+}
+
+/** Rows a wrapped text needs at this column width (about 1.1 characters per width unit), for the row height. */
+const rowsFor = (text: string, width: number) => text.split("\n").reduce((a, line) => a + Math.max(1, Math.ceil(line.length / (width * 1.1))), 0);
+
+export function justificationSheet(ctx: Ctx, s: WorkbookScenario): void {
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Justification"));
+  title(ws, "Sample-size justification and budget justification", JUSTIFICATION_CAUTION);
+  ws.columns = [{ width: 100 }, { width: 40 }];
+  ws.getCell("A4").value = "Sample-size justification";
+  ws.getCell("B4").value = "Against the figures";
+  ws.getRow(4).font = { bold: true };
+  ws.getCell("A5").value = safeText(s.justification);
+  ws.getCell("A5").alignment = { wrapText: true, vertical: "top" };
+  ws.getRow(5).height = Math.min(409, 15 * rowsFor(s.justification, 100));
+  status(ws.getCell("B5"), s.justificationCheck);
+  const budgetText = s.budgetJustification ?? generateBudgetJustification(s.inputs, s.results);
+  ws.getCell("A7").value = "Budget justification";
+  ws.getCell("B7").value = "Against the figures";
+  ws.getRow(7).font = { bold: true };
+  // One row per category section, so each stays readable and prints without a row taller than a page.
+  let r = 8;
+  budgetText.split(/\n\s*\n/).forEach((section, k) => {
+    ws.getCell(`A${r}`).value = safeText(section);
+    ws.getCell(`A${r}`).alignment = { wrapText: true, vertical: "top" };
+    ws.getRow(r).height = Math.min(409, 15 * rowsFor(section, 100));
+    if (k === 0) status(ws.getCell(`B${r}`), s.budgetJustificationCheck);
+    r++;
+  });
+  r++;
+  ws.getCell(`A${r}`).value = `Method: ${s.results.power.method}`;
+  r += 2;
+  ws.getCell(`A${r}`).value = "Published sources behind the methods";
+  ws.getCell(`A${r}`).font = { bold: true };
+  SOURCES.forEach((src, k) => (ws.getCell(`A${r + 1 + k}`).value = src));
+  finish(ws, ctx.footer, { x: 0, y: 3 }, "1:3", "portrait");
 }

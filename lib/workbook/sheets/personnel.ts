@@ -1,45 +1,55 @@
-/** Personnel: each person's salary and fringe by period, from base salary, cap, effort and months. */
+/**
+ * Personnel, readable on paper: one row per person and budget period (not a column per period), with
+ * base salary, cap, effort, calendar months, person-months, requested salary and fringe.
+ */
 import type { LedgerLine } from "@/lib/costing";
-import { col, safeText, sheetName } from "../text";
-import { finish, fringeName, fx, MONEY, name, RATE, title, type Ctx, type LineRef } from "../cells";
+import { safeText } from "../text";
+import { EFFORT, finish, fringeName, fx, humanDate, MONEY, name, RATE, title, type Ctx, type LineRef } from "../cells";
+import type { Period } from "@/lib/costing/timeline";
 
-export function personnelSheet(ctx: Ctx, lines: LedgerLine[], periods: number): { refs: Map<string, LineRef> } {
-  const ws = ctx.wb.addWorksheet(sheetName(`${ctx.prefix}Personnel`));
-  title(ws, "Personnel", "Requested salary = ROUND(MIN(base × (1 + escalation)^(period − 1), cap) × effort × months / 12, 2); fringe = ROUND(salary × fringe rate, 2).");
-  const salaries = lines.filter((l) => l.basis === "salary");
-  const blocks = ["Effort", "Months", "Person-months", "Salary", "Fringe"];
-  const first = 6;
-  ws.getRow(4).values = ["Role", "Staff category", "Base salary", "Salary cap", "Fringe rate", ...blocks.flatMap((b) => Array.from({ length: periods }, (_, p) => `${b} P${p + 1}`))];
+const HEADERS = ["Person (role)", "Staff category", "Budget period", "Base salary", "Salary cap", "Effort", "Calendar months", "Person-months", "Requested salary", "Fringe rate", "Fringe"];
+
+export function personnelSheet(ctx: Ctx, lines: LedgerLine[], periods: Period[]): { refs: Map<string, LineRef> } {
+  const ws = ctx.wb.addWorksheet(ctx.sheet("Personnel"));
+  title(ws, "Personnel", "Requested salary = ROUND(MIN(base × (1 + escalation)^(period − 1), cap) × effort × months / 12, 2); fringe = ROUND(salary × fringe rate, 2); person-months = effort × calendar months.");
+  ws.getRow(4).values = HEADERS;
   ws.getRow(4).font = { bold: true };
+  ws.getRow(4).alignment = { wrapText: true, vertical: "bottom" };
   const refs = new Map<string, LineRef>();
-  salaries.forEach((line, k) => {
-    const r = 5 + k;
+  let r = 5;
+  for (const line of lines.filter((l) => l.basis === "salary")) {
     const pe = line.personnel!;
-    ws.getCell(`A${r}`).value = safeText(pe.role);
-    ws.getCell(`B${r}`).value = safeText(pe.fringeCategory);
-    ws.getCell(`C${r}`).value = Number(pe.baseSalary);
-    ws.getCell(`C${r}`).numFmt = MONEY;
-    ws.getCell(`D${r}`).value = pe.capped ? fx(name(ctx, "SALARY_CAP")) : 1e12;
-    ws.getCell(`D${r}`).numFmt = MONEY;
-    ws.getCell(`E${r}`).value = fx(fringeName(ctx, pe.fringeCategory));
-    ws.getCell(`E${r}`).numFmt = RATE;
-    const at = (block: number, p: number) => first + block * periods + p;
-    for (let p = 0; p < periods; p++) {
-      ws.getCell(r, at(0, p)).value = pe.effort[p] ?? 0;
-      ws.getCell(r, at(0, p)).numFmt = "0%";
-      ws.getCell(r, at(1, p)).value = pe.months[p] ?? 0;
-      ws.getCell(r, at(2, p)).value = fx(`${col(at(0, p))}${r}*${col(at(1, p))}${r}`);
-      ws.getCell(r, at(2, p)).numFmt = "0.00";
-      ws.getCell(r, at(3, p)).value = fx(`ROUND(MIN($C${r}*(1+${name(ctx, "ESC_SALARIES")})^${p},$D${r})*${col(at(0, p))}${r}*${col(at(1, p))}${r}/12,2)`);
-      ws.getCell(r, at(3, p)).numFmt = MONEY;
-      ws.getCell(r, at(4, p)).value = fx(`ROUND(${col(at(3, p))}${r}*$E${r},2)`);
-      ws.getCell(r, at(4, p)).numFmt = MONEY;
-    }
-    refs.set(line.key, { sheet: ws.name, row: r, firstCol: at(3, 0) });
-    const fringeKey = lines.find((l) => l.fringeOf === line.key)?.key;
-    if (fringeKey) refs.set(fringeKey, { sheet: ws.name, row: r, firstCol: at(4, 0) });
-  });
-  ws.columns.forEach((c, i) => (c.width = i === 0 ? 30 : 13));
-  finish(ws, { x: 1, y: 4 }, "1:4");
+    const fringe = lines.find((l) => l.fringeOf === line.key);
+    const salaryCells: string[] = [];
+    const fringeCells: string[] = [];
+    periods.forEach((period, p) => {
+      const cap = pe.capped && pe.salaryCap !== null;
+      ws.getCell(`A${r}`).value = safeText(pe.role);
+      ws.getCell(`B${r}`).value = safeText(pe.fringeCategory.replace(/-/g, " "));
+      ws.getCell(`C${r}`).value = `${p + 1} (${humanDate(period.startDate)} – ${humanDate(period.endDate)})`;
+      ws.getCell(`D${r}`).value = Number(pe.baseSalary);
+      ws.getCell(`E${r}`).value = cap ? fx(name(ctx, "SALARY_CAP"), Number(pe.salaryCap)) : "not capped";
+      ws.getCell(`F${r}`).value = pe.effort[p] ?? 0;
+      ws.getCell(`G${r}`).value = pe.months[p] ?? 0;
+      ws.getCell(`H${r}`).value = fx(`F${r}*G${r}`, (pe.effort[p] ?? 0) * (pe.months[p] ?? 0));
+      const escalated = `$D${r}*(1+${name(ctx, "ESC_SALARIES")})^${p}`;
+      ws.getCell(`I${r}`).value = fx(`ROUND(${cap ? `MIN(${escalated},E${r})` : escalated}*F${r}*G${r}/12,2)`, Number(line.amounts[p]));
+      ws.getCell(`J${r}`).value = fx(fringeName(ctx, pe.fringeCategory), Number(pe.fringeRate));
+      ws.getCell(`K${r}`).value = fx(`ROUND(I${r}*J${r},2)`, fringe ? Number(fringe.amounts[p]) : 0);
+      for (const c of ["D", "E", "I", "K"]) ws.getCell(`${c}${r}`).numFmt = MONEY;
+      ws.getCell(`F${r}`).numFmt = EFFORT;
+      ws.getCell(`H${r}`).numFmt = "0.00";
+      ws.getCell(`J${r}`).numFmt = RATE;
+      salaryCells.push(`I${r}`);
+      fringeCells.push(`K${r}`);
+      r++;
+    });
+    // A thin rule between people, so the blocks read apart on paper.
+    ws.getRow(r - 1).border = { bottom: { style: "thin", color: { argb: "FFB8C0CC" } } };
+    refs.set(line.key, { sheet: ws.name, cells: salaryCells });
+    if (fringe) refs.set(fringe.key, { sheet: ws.name, cells: fringeCells });
+  }
+  ws.columns = [{ width: 28 }, { width: 16 }, { width: 30 }, { width: 13 }, { width: 13 }, { width: 8 }, { width: 9 }, { width: 9 }, { width: 14 }, { width: 9 }, { width: 13 }];
+  finish(ws, ctx.footer, { x: 1, y: 4 }, "1:4");
   return { refs };
 }

@@ -8,6 +8,7 @@ import { adoptPlannerAnswer, cloneScenario, createScenario, deleteScenario, revi
 import { forbidden, HttpError } from "@/lib/auth/errors";
 import { roleMay, type Action } from "@/lib/auth/permissions";
 import { scenarioFormSchema } from "@/lib/planning/schema";
+import { enrolmentPlanSchema, ETHNICITIES, RACES, SEXES } from "@/lib/sponsor/enrolment";
 import { requireUser } from "@/lib/server/current-user";
 
 const saveSchema = scenarioFormSchema.extend({ studyId: z.coerce.number().int().positive(), scenarioId: z.coerce.number().int().positive().optional(), version: z.coerce.number().int().positive().optional() });
@@ -129,4 +130,47 @@ export async function saveJustificationAction(_prev: unknown, formData: FormData
   });
   if (result.error) return result;
   return { error: null, done: regenerate ? "regenerated" : text ? "saved" : "emptied" };
+}
+
+/** The budget justification: saved with the figures it quotes, or (regenerate, or an emptied box) back to the generated text. */
+export async function saveBudgetJustificationAction(_prev: unknown, formData: FormData): Promise<{ error: string | null; done?: "saved" | "regenerated" | "emptied" }> {
+  const version = versionOf(formData);
+  const text = String(formData.get("justification") ?? "").trim();
+  const regenerate = formData.get("intent") === "regenerate";
+  if (!regenerate && text.length > 20000) return { error: "Budget justification text: at most 20,000 characters (this has " + text.length.toLocaleString("en-US") + "); nothing was saved." };
+  const result = await run(formData, "scenario.edit", async (user, v) => {
+    if (version === undefined) throw noVersion();
+    await updateScenario(user, v.scenarioId, { version, budgetJustification: regenerate || !text ? null : text });
+  });
+  if (result.error) return result;
+  return { error: null, done: regenerate ? "regenerated" : text ? "saved" : "emptied" };
+}
+
+export type EnrolmentFormState = { error: string | null; fields?: Record<string, string>; done?: "saved" | "cleared" } | undefined;
+
+/**
+ * The planned enrolment proportions, typed as percentages per category (sex, ethnicity, race), or
+ * cleared. A refusal names the group and keeps what was typed.
+ */
+export async function saveEnrolmentPlanAction(_prev: EnrolmentFormState, formData: FormData): Promise<NonNullable<EnrolmentFormState>> {
+  // A role that may never edit scenarios is refused before its form is read, as every action does.
+  if (!roleMay(await requireUser(), "scenario.edit")) return { error: forbidden().message };
+  const version = versionOf(formData);
+  const clear = formData.get("intent") === "clear";
+  const fields: Record<string, string> = {};
+  const read = (group: string, names: readonly string[]) =>
+    names.map((_, k) => {
+      const v = String(formData.get(`${group}-${k}`) ?? "").trim();
+      fields[`${group}-${k}`] = v;
+      return v === "" ? "0" : v;
+    });
+  const raw = { sex: read("sex", SEXES), ethnicity: read("ethnicity", ETHNICITIES), race: read("race", RACES) };
+  const parsed = enrolmentPlanSchema.safeParse(raw);
+  if (!clear && !parsed.success) return { error: parsed.error.issues.map((i) => i.message).join(" "), fields };
+  const result = await run(formData, "scenario.edit", async (user, v) => {
+    if (version === undefined) throw noVersion();
+    await updateScenario(user, v.scenarioId, { version, enrolmentPlan: clear ? null : parsed.data! });
+  });
+  if (result.error) return { error: result.error, fields };
+  return { error: null, done: clear ? "cleared" : "saved" };
 }

@@ -9,6 +9,11 @@ import { ReachChart } from "@/components/scenario/reach-chart";
 import { ResultsPanel } from "@/components/scenario/results-panel";
 import { JustificationEditor, ScenarioActions } from "@/components/scenario/scenario-actions";
 import { ScenarioForm } from "@/components/scenario/scenario-form";
+import { EnrolmentForm } from "@/components/scenario/enrolment-form";
+import { EnrolmentTableView } from "@/components/scenario/enrolment-table";
+import { SponsorBudgetTable } from "@/components/scenario/sponsor-budget";
+import { sponsorBudget } from "@/lib/sponsor/budget";
+import { enrolmentTable } from "@/lib/sponsor/enrolment";
 import { getEdition } from "@/db/queries/rate-book";
 import { reviewHistory } from "@/db/queries/review";
 import { getScenario, scenarioHistory } from "@/db/queries/scenarios";
@@ -68,6 +73,9 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           </p>
         </div>
         <div className="flex flex-wrap items-start gap-2">
+          <a className="btn btn-quiet" href={`/studies/${s.studyId}/scenarios/${s.id}/report`} data-testid="open-report">
+            Printable report
+          </a>
           {can(user, "workbook.download", ctx) ? (
             <a className="btn btn-quiet" href={`/api/v1/scenarios/${s.id}/workbook`} download data-testid="download-workbook">
               Download the budget workbook
@@ -173,6 +181,28 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         saved={{ rateSpread: s.inputs.uncertainty?.rateSpread, prior: givenPrior(s.inputs.uncertainty) }}
       />
       <JustificationEditor ids={ids} text={s.justification} generated={s.generatedJustification} edited={s.justificationEdited} editable={editable} check={s.justificationCheck} />
+      <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="sponsor-heading">
+        <h2 id="sponsor-heading">Budget in the sponsor&apos;s format</h2>
+        <p className="text-sm text-ink-soft">The saved ledger in federal budget categories, in whole dollars; the workbook has the same sheet with live formulas.</p>
+        <SponsorBudgetTable budget={sponsorBudget(s.results.ledger)} />
+      </section>
+      <JustificationEditor
+        kind="budget"
+        ids={ids}
+        text={s.budgetJustification}
+        generated={s.generatedBudgetJustification}
+        edited={s.budgetJustificationEdited}
+        editable={editable}
+        check={s.budgetJustificationCheck}
+      />
+      <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="enrolment-heading">
+        <h2 id="enrolment-heading">Planned enrolment</h2>
+        <p className="text-sm text-ink-soft">
+          The {s.results.power.funnel.total.enrolled} participants to enrol, by race, ethnicity and sex, from the proportions the investigator expects (the federal standard&apos;s categories); cells are rounded so that they add up to the enrolled number.
+        </p>
+        {s.enrolmentPlan ? <EnrolmentTableView table={enrolmentTable(s.results.power.funnel.total.enrolled, s.enrolmentPlan)} /> : <p className="text-sm" data-testid="enrolment-none">No proportions given yet, so there is no table.</p>}
+        {editable ? <EnrolmentForm key={s.version} ids={ids} plan={s.enrolmentPlan} /> : null}
+      </section>
       <ReviewHistory entries={history} state={s.state} />
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
       <details className="card" data-testid="scenario-history">

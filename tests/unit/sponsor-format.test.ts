@@ -1,0 +1,138 @@
+/**
+ * The sponsor's budget format (whole dollars), the category table, the planned enrolment table and the
+ * budget justification, checked against hand-worked figures and published worked examples.
+ */
+import { describe, expect, it } from "vitest";
+import { computeLedger } from "@/lib/costing";
+import { COST_CATEGORIES } from "@/lib/costing/types";
+import { computeScenario } from "@/lib/planning/compute";
+import { budgetJustificationFigures, generateBudgetJustification } from "@/lib/planning/budget-justification";
+import { CATEGORY_TABLE, categoryWords, sectionOf } from "@/lib/sponsor/categories";
+import { sponsorBudget, wholeDollars } from "@/lib/sponsor/budget";
+import { enrolmentPlanSchema, enrolmentTable, largestRemainder } from "@/lib/sponsor/enrolment";
+import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
+import { HALF_CENT_RATES, HALF_CENT_STUDY } from "../fixtures/half-cents";
+
+describe("the category table", () => {
+  it("has a row for every ledger category, so none falls to 'Other' unseen", () => {
+    expect(COST_CATEGORIES.filter((c) => !(c in CATEGORY_TABLE))).toEqual([]);
+  });
+  it("says categories in a grants office's words, not codes", () => {
+    expect(categoryWords("site-fees")).toBe("Site fees");
+    expect(categoryWords("procedures")).toBe("Research procedures");
+    // A category added to the ledger later still reads as words.
+    expect(categoryWords("lab-services")).toBe("Lab services");
+  });
+  it("puts research-subject payments in other direct costs, not participant support (2 CFR 200.1: participant support is for trainees and conference participants)", () => {
+    const l = computeLedger(HALF_CENT_STUDY, HALF_CENT_RATES);
+    const screening = l.lines.find((x) => x.key === "screening")!;
+    expect(sectionOf(screening)).toBe("other-direct");
+    expect(sectionOf({ ...screening, category: "participant" })).toBe("other-direct");
+    expect(sectionOf({ ...screening, category: "participant-support" })).toBe("participant-support");
+  });
+});
+
+describe("whole dollars, each line rounded once (hand-worked on the half-cent study of tests/unit/rounding.test.ts)", () => {
+  const l = computeLedger(HALF_CENT_STUDY, HALF_CENT_RATES);
+  const sb = sponsorBudget(l);
+  it("rounds half-up to whole dollars", () => {
+    expect([wholeDollars("2.50"), wholeDollars("3.49"), wholeDollars("0.53"), wholeDollars("1234.50")]).toEqual([3, 3, 1, 1235]);
+  });
+  it("period 1: $2.51 → $3, $0.00 → $0, $2.10 → $2, $0.53 → $1, $3.50 → $4; direct $10 (cents $8.64); F&A $4.32 → $4; total $14 against $12.96", () => {
+    expect(sb.direct[0]).toBe(10);
+    expect(sb.fa[0]).toBe(4);
+    expect(sb.total[0]).toBe(14);
+    expect(sb.reconciliation[0]).toEqual({ ledgerTotal: "12.96", sponsorTotal: 14, difference: "1.04" });
+  });
+  it("period 2: $1.55 → $2, $0.22 → $0, $0.18 → $0, $0.05 → $0, $3.61 → $4; direct $6; F&A $2.81 → $3; total $9 against $8.42", () => {
+    expect(sb.direct[1]).toBe(6);
+    expect(sb.fa[1]).toBe(3);
+    expect(sb.total[1]).toBe(9);
+    expect(sb.reconciliation[1]!.difference).toBe("0.58");
+  });
+  it("cumulative totals are sums of the rounded periods ($23 against $21.38), never rounded again", () => {
+    expect(sb.cumulative).toMatchObject({ direct: 16, fa: 7, total: 23 });
+    expect(sb.reconciliationCumulative).toEqual({ ledgerTotal: "21.38", sponsorTotal: 23, difference: "1.62" });
+    for (const s of sb.sections) expect(s.cumulative).toBe(s.rows.reduce((a, r) => a + r.cumulative, 0));
+  });
+  it("personnel in person-months: effort × calendar months (25% of 12 months = 3.00; of 1 month = 0.25), salary and fringe each rounded once", () => {
+    const analyst = sb.sections.flatMap((s) => s.rows).find((r) => r.label === "Analyst")!.person!;
+    expect(analyst.personMonths).toEqual([3, 0.25]);
+    const coordinator = sb.sections.flatMap((s) => s.rows).find((r) => r.label === "Coordinator")!.person!;
+    expect(coordinator.salary).toEqual([2, 0]);
+    expect(coordinator.fringe).toEqual([1, 0]);
+    expect(coordinator.personMonths).toEqual([12, 1]);
+  });
+});
+
+describe("the demo scenario in the sponsor's format", () => {
+  const rates = demoRateBook(1);
+  const r = computeScenario(DEMO_SCENARIOS[0]!.inputs, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
+  const sb = sponsorBudget(r.ledger);
+  it("lists the investigator and the faculty statistician as senior/key, the coordinator as other personnel (common practice)", () => {
+    const names = (k: string) => sb.sections.find((s) => s.section === k)!.rows.map((x) => x.label);
+    expect(names("senior-key")).toEqual(["Principal investigator", "Trial statistician"]);
+    expect(names("other-personnel")).toEqual(["Research coordinator"]);
+    expect(names("travel")).toEqual(["Investigator travel"]);
+  });
+  it("the PI's salary is requested at the cap only above it: $195,000 is under the 2027 cap of $225,700 (invented demo rate)", () => {
+    const pi = sb.sections[0]!.rows[0]!.person!;
+    expect(pi.baseSalary).toBe(195000);
+    expect(pi.salaryCap).toBe(225700);
+    // 20% of 12 months = 2.4 person-months; $195,000 × 20% = $39,000 in period 1.
+    expect(pi.personMonths[0]).toBe(2.4);
+    expect(pi.salary[0]).toBe(39000);
+  });
+  it("every period reconciles: the difference is dollars less cents and at most half a dollar per line", () => {
+    sb.reconciliation.forEach((rec, p) => {
+      expect(rec.sponsorTotal).toBe(sb.total[p]);
+      expect(Math.abs(Number(rec.difference))).toBeLessThanOrEqual(0.5 * (r.ledger.lines.length + 1));
+    });
+  });
+});
+
+describe("planned enrolment: largest remainder", () => {
+  it("reproduces the textbook Hare-quota example: 10 seats for votes 47,000/16,000/15,800/12,000/6,100/3,100 give 5, 2, 1, 1, 1, 0 (largest remainder method, as commonly worked; from memory)", () => {
+    const votes = [47000, 16000, 15800, 12000, 6100, 3100];
+    const total = votes.reduce((a, b) => a + b, 0);
+    expect(largestRemainder(votes.map((v) => (v * 10) / total), 10)).toEqual([5, 2, 1, 1, 1, 0]);
+  });
+  it("cells add up exactly to the enrolled number, whatever the proportions", () => {
+    const plan = enrolmentPlanSchema.parse({ sex: ["52", "48"], ethnicity: ["83%", "17%"], race: ["1", "6", "0.5", "13", "74.5", "5"] });
+    for (const n of [1, 7, 97, 344, 1001]) {
+      const t = enrolmentTable(n, plan);
+      expect(t.total).toBe(n);
+      expect(t.raceTotals.reduce((a, b) => a + b, 0)).toBe(n);
+      expect(t.ethnicitySexTotals.flat().reduce((a, b) => a + b, 0)).toBe(n);
+    }
+  });
+  it("refuses proportions that do not add up to 100%, naming the group", () => {
+    const r = enrolmentPlanSchema.safeParse({ sex: ["50", "40"], ethnicity: ["80", "20"], race: ["0", "0", "0", "0", "100", "0"] });
+    expect(r.success).toBe(false);
+    expect(r.error!.issues[0]!.message).toBe("Sex: the percentages add up to 90%; make them add up to 100%.");
+  });
+});
+
+describe("the budget justification", () => {
+  const rates = demoRateBook(1);
+  const inputs = DEMO_SCENARIOS[0]!.inputs;
+  const r = computeScenario(inputs, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
+  const text = generateBudgetJustification(inputs, r);
+  it("has one section per category, in whole dollars that match the sponsor format", () => {
+    const sb = sponsorBudget(r.ledger);
+    expect(text).toContain("A. Senior and key personnel\nPrincipal investigator (faculty), 20% effort");
+    expect(text).toContain("B. Other personnel\nResearch coordinator");
+    expect(text).toContain("D. Travel");
+    expect(text).toContain("F. Other direct costs");
+    expect(text).toContain(`${r.ledger.counts.screened} people screened to enrol ${r.ledger.counts.enrolled}`);
+    expect(text).toContain("F&A at the institution's rate of 56.5% on modified total direct costs");
+    expect(text).toContain(`total $${sb.cumulative.total.toLocaleString("en-US")}`);
+    expect(text).not.toMatch(/site-fees|participant-support|\bundefined\b|NaN/);
+  });
+  it("its figures change when the scenario's do, so an edited text can be checked", () => {
+    const other = computeScenario({ ...inputs, recruitment: { ...inputs.recruitment, screenFailure: 0.2 } }, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
+    const a = budgetJustificationFigures(inputs, r);
+    const b = budgetJustificationFigures(inputs, other);
+    expect(a.find((f) => f.key === "screened")!.value).not.toBe(b.find((f) => f.key === "screened")!.value);
+  });
+});

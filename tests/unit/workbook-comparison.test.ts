@@ -1,0 +1,54 @@
+/** The comparison workbook: a flag where scenarios were costed with different editions, and distinct, readable sheet names within 31 characters. */
+import ExcelJS from "exceljs";
+import { describe, expect, it } from "vitest";
+import { computeScenario } from "@/lib/planning/compute";
+import { buildWorkbook, comparisonSheetName, type WorkbookScenario } from "@/lib/workbook/build";
+import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
+
+const study = { code: "CMP", title: "Invented comparison", sponsor: "Invented sponsor", sponsorCap: null };
+const scenario = (name: string, rates: ReturnType<typeof demoRateBook>): WorkbookScenario => ({
+  name,
+  state: "draft",
+  inputs: DEMO_SCENARIOS[0]!.inputs,
+  results: computeScenario(DEMO_SCENARIOS[0]!.inputs, rates, { startDate: "2027-01-01", sponsorCap: null }),
+  justification: "",
+  rates,
+});
+
+async function load(buffer: Buffer) {
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.load(buffer as unknown as ArrayBuffer);
+  return wb;
+}
+
+describe("comparison workbook", () => {
+  it("keeps sheet names distinct and within 31 characters, cut at a word", () => {
+    expect(comparisonSheetName("A", "Budget", "Pupil-randomised, four schools")).toBe("A Budget · Pupil-randomised…");
+    expect(comparisonSheetName("A", "Sponsor format", "Pupil-randomised, four schools")).toBe("A Sponsor format · Pupil…");
+    expect(comparisonSheetName("C", "Summary", "Six sites, 90% power")).toBe("C Summary · Six sites, 90%…");
+    expect(comparisonSheetName("C", "Budget", "Six sites, 90% power")).toBe("C Budget · Six sites, 90% power");
+    expect(comparisonSheetName("D", "Justification", "Antidisestablishmentarianism")).toBe("D Justification · Antidisestab…");
+  });
+
+  it("flags scenarios costed with different rate-book editions, and which used which", async () => {
+    const older = { ...demoRateBook(1), label: "2026 rates", effectiveDate: "2025-07-01", faRate: "0.55" };
+    const newer = demoRateBook(2);
+    const { buffer } = await buildWorkbook(study, [scenario("Pupil-randomised, four schools", older), scenario("Pupil-randomised, four schools, longer", newer)], "2026-12-02");
+    const wb = await load(buffer);
+    const names = wb.worksheets.map((w) => w.name);
+    expect(new Set(names).size).toBe(names.length);
+    for (const n of names) expect(n.length).toBeLessThanOrEqual(31);
+    expect(names).toEqual(expect.arrayContaining(["A Budget · Pupil-randomised…", "B Budget · Pupil-randomised…"]));
+    const flag = String(wb.getWorksheet("Comparison")!.getCell("A3").value);
+    expect(flag).toContain("Costed with different rate-book editions");
+    expect(flag).toContain(`A "Pupil-randomised, four schools" with 2026 rates (effective 1 Jul 2025)`);
+    expect(flag).toContain(`B "Pupil-randomised, four schools, longer" with 2027 rates (effective 1 Jul 2026)`);
+  });
+
+  it("says nothing of editions when all share one", async () => {
+    const rates = demoRateBook(2);
+    const { buffer } = await buildWorkbook(study, [scenario("One", rates), scenario("Two", rates)], "2026-12-02");
+    const wb = await load(buffer);
+    expect(wb.getWorksheet("Comparison")!.getCell("A3").value).toBeNull();
+  });
+});
