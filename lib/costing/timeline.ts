@@ -15,7 +15,10 @@ export const MAX_STUDY_MONTHS = 1200;
 export type Period = { index: number; startMonth: number; endMonth: number; months: number; startDate: string; endDate: string };
 
 export type TimelineResult = {
+  /** Activation month of each site that enrols (sites planned to open after enrolment has finished are left out). */
   activationMonths: number[];
+  /** Sites asked for; more than activationMonths.length when some would open after enrolment has finished. */
+  sitesPlanned: number;
   enrolledByMonth: number[];
   firstEnrolmentMonth: number;
   lastEnrolmentMonth: number;
@@ -110,6 +113,9 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
     given = target;
     month++;
   }
+  // A site that would open after the last participant is enrolled never enrols: plan only the sites that do
+  // (its start-up, fees and close-out would otherwise buy nothing). With nobody to enrol, the first site stays.
+  const enrolling = activationMonths.filter((a, i) => i === 0 || a < enrolledByMonth.length);
   const firstEnrolmentMonth = enrolledTotal > 0 ? enrolledByMonth.findIndex((n) => n > 0) : activationMonths[0]!;
   const lastEnrolmentMonth = Math.max(firstEnrolmentMonth, enrolledByMonth.length - 1);
   const lastVisitMonth = lastEnrolmentMonth + lastVisitOffset;
@@ -117,7 +123,8 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   const studyMonths = closeoutStartMonth + t.closeoutMonths;
   if (studyMonths > MAX_STUDY_MONTHS) throw new TimelineError(`The study would run more than ${MAX_STUDY_MONTHS} months.`);
   return {
-    activationMonths,
+    activationMonths: enrolling,
+    sitesPlanned: t.sites,
     enrolledByMonth,
     firstEnrolmentMonth,
     lastEnrolmentMonth,
