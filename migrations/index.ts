@@ -8,6 +8,7 @@ import * as installation from "./2026-12-02-0006-installation";
 import * as justificationFigures from "./2026-12-02-0007-justification-figures";
 import * as studyCodePerOwner from "./2026-12-02-0008-study-code-per-owner";
 import * as outboxPendingSecret from "./2026-12-02-0009-outbox-pending-secret";
+import * as procedureClass from "./2026-12-02-0010-procedure-class";
 
 /**
  * Every migration, keyed by its dated file name (Kysely runs them in key order).
@@ -23,4 +24,5 @@ export const migrations: Record<string, Migration> = {
   "2026-12-02-0007-justification-figures": justificationFigures,
   "2026-12-02-0008-study-code-per-owner": studyCodePerOwner,
   "2026-12-02-0009-outbox-pending-secret": outboxPendingSecret,
+  "2026-12-02-0010-procedure-class": procedureClass,
 };

@@ -23,9 +23,17 @@ const SIDES = [
   ["2", "Two-sided"],
   ["1", "One-sided"],
 ] as const;
+/** Each span says the months it covers (lib/costing/effort-span.ts); the ledger's personnel line shows them as study months. */
 const EFFORT_RUNS = [
-  ["study", "the whole study"],
-  ["enrolment", "recruitment and visits"],
+  ["study", "the whole study: every month from the start to the end"],
+  ["sites", "site life: first site's start-up to last site's close-out"],
+  ["enrolment", "recruitment and visits only: first activation to last visit"],
+  ["months", "given months: the from and to months below"],
+] as const;
+const SITE_ARRANGEMENT_OPTIONS = [
+  ["internal", "internal: the institution's own clinic"],
+  ["subaward", "subaward: a subrecipient with its own indirects"],
+  ["contract", "contract: a vendor paid per participant and visit"],
 ] as const;
 const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
 
@@ -54,8 +62,9 @@ function toFormValues(i: ScenarioInputs) {
     design: { ...strings(i.design), effectInput: effectInputOf(i.design) },
     recruitment: strings(i.recruitment),
     visits: i.visits.map(visitFormValues),
-    personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
+    personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", "), months: p.months ? { from: String(p.months.from), to: String(p.months.to) } : undefined })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
+    sites: (i.sites ?? []).map((t) => ({ arrangement: t.arrangement, indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate), foreign: t.foreign ? "on" : "" })),
   };
 }
 
@@ -263,6 +272,7 @@ export function ScenarioForm({
   const visits = i.visits.getFieldList();
   const personnel = i.personnel.getFieldList();
   const other = i.other.getFieldList();
+  const siteRows = i.sites.getFieldList();
   const means = isMeansDesign(design);
   const proportions = isProportionsDesign(design);
   const cluster = isClusterDesign(design);
@@ -471,6 +481,8 @@ export function ScenarioForm({
                 <Text meta={f.baseSalary} label="Base salary" />
                 <Text meta={f.effortPercent} label="Effort % by budget period" hint="20, or 20, 15, 10 (the last repeats)" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
+                <Text meta={f.months.getFieldset().from} label="Effort from month" hint="given months only; 1 = the study's first month" />
+                <Text meta={f.months.getFieldset().to} label="Effort to month" hint="given months only" />
                 <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
@@ -482,6 +494,31 @@ export function ScenarioForm({
             className="btn btn-quiet self-start"
           >
             Add a person
+          </button>
+        </Section>
+
+        <Section title="Sites: how each is paid" id="sec-site-arrangements">
+          <p className="text-sm text-ink-soft">
+            One row per site, in the order the sites open; sites without a row take the study&apos;s default (internal). A subaward is one consortium line with its own indirect rate (15% when
+            none is given); only its first $50,000 over the award counts in MTDC.
+          </p>
+          {siteRows.map((t, idx) => {
+            const f = t.getFieldset();
+            return (
+              <div key={t.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+                <Choice meta={f.arrangement} label={`Site ${idx + 1} arrangement`} options={SITE_ARRANGEMENT_OPTIONS} />
+                <Text meta={f.indirectRate} label={`Site ${idx + 1} subaward indirect rate`} hint="subawards only, like 15%" />
+                <label className="flex items-center gap-1.5 pb-2 text-sm">
+                  <input {...getInputProps(snapshotField(f.foreign), { type: "checkbox" })} key={f.foreign.key} /> foreign (indirects at most 8%)
+                </label>
+                <button {...form.remove.getButtonProps({ name: i.sites.name, index: idx })} className="btn btn-danger justify-self-start py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button {...form.insert.getButtonProps({ name: i.sites.name, defaultValue: { arrangement: "subaward", indirectRate: "", foreign: "" } })} className="btn btn-quiet self-start">
+            Add a site&apos;s arrangement
           </button>
         </Section>
 

@@ -11,7 +11,8 @@ import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import type { ScenarioInputs } from "./schema";
 
-export type StudyContext = { startDate: string; sponsorCap: string | null };
+/** siteArrangement: the study's default arrangement (internal when absent); a scenario's own per-site terms win. */
+export type StudyContext = { startDate: string; sponsorCap: string | null; siteArrangement?: CostInputs["siteArrangement"] };
 
 export class ScenarioError extends Error {
   readonly code = "scenario";
@@ -120,9 +121,12 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
       oneOff: (v.oneOffProcedures ?? []).map((o) => ({ name: o.name, unitCost: o.cost })),
     })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
-    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
+    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows, ...(p.months ? { months: p.months } : {}) })),
     other: i.other.map((o) => ({ label: o.label, category: o.category, perPeriod: o.perPeriod, escalate: o.escalate })),
     caps: { total: study.sponsorCap },
+    ...(study.siteArrangement ? { siteArrangement: study.siteArrangement } : {}),
+    ...(i.sites?.length ? { sites: i.sites.map((t) => ({ arrangement: t.arrangement, ...(t.indirectRate !== undefined ? { indirectRate: String(t.indirectRate) } : {}), foreign: t.foreign })) } : {}),
+    ...(i.procedureClasses?.length ? { procedureClasses: i.procedureClasses } : {}),
   };
 }
 
@@ -202,6 +206,11 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
   if (accrual && !accrual.settled) {
     warnings.push(
       `The power calculation assumes ${accrual.accrualMonths} months of accrual, but the timeline enrols this sample in ${accrual.enrolMonths} months: in whole months no accrual matches its own enrolment exactly. The longer enrolment only adds follow-up, so the power is at least the target.`,
+    );
+  }
+  if (ledger.counts.sitesPlanned > ledger.counts.sites) {
+    warnings.push(
+      `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or slow the sites' activation.`,
     );
   }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);

@@ -1,5 +1,6 @@
 /** The PATCH body for a draft edition: settings, fringe rows and procedures, each with the version it was read at. */
 import { z } from "zod";
+import { PROCEDURE_CLASSES } from "@/lib/costing/types";
 import "@/lib/validation/plain-messages";
 import {
   fringeCategoryField,
@@ -16,6 +17,9 @@ import {
 const version = z.number({ error: "version is required: send the version you read." }).int().positive();
 
 const settingsShape = Object.fromEntries(SETTING_FIELDS.map((f) => [f.key, settingSchema(f).optional()])) as Record<SettingKey, z.ZodOptional<z.ZodType<string | null>>>;
+
+/** Research cost, patient care, or routine care billed to insurance (lib/costing/procedure-class.ts). */
+const procedureClassField = z.enum(PROCEDURE_CLASSES, { error: "Class: choose research cost, patient care, or routine care billed to insurance." });
 
 export const editionPatchSchema = z
   .object({
@@ -38,9 +42,9 @@ export const editionPatchSchema = z
         z.union([
           z.object({ id: z.number().int(), version, remove: z.literal(true) }).strict(),
           z
-            .object({ id: z.number().int(), version, name: procedureNameField.optional(), unitCost: moneyField("Unit cost").optional(), category: procedureCategoryField.optional() })
+            .object({ id: z.number().int(), version, name: procedureNameField.optional(), unitCost: moneyField("Unit cost").optional(), category: procedureCategoryField.optional(), class: procedureClassField.optional() })
             .strict(),
-          z.object({ code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField }).strict(),
+          z.object({ code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField, class: procedureClassField.optional() }).strict(),
         ]),
       )
       .max(2000)

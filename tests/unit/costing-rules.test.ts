@@ -93,7 +93,8 @@ describe("site arrangements (2 CFR 200.331; 2 CFR 200.1 MTDC; NOT-OD-05-004; NIH
     const rates = demoRateBook(1);
     const study = { startDate: "2027-07-01", sponsorCap: null };
     const r = computeScenario(s.inputs, rates, study);
-    const inputs = costInputs(s.inputs, study, r.power.funnel.arms, r.sites);
+    // The demo rate book's procedure classes set aside, so that every participant line is a research cost as the listing shows.
+    const inputs = { ...costInputs(s.inputs, study, r.power.funnel.arms, r.sites), procedureClasses: ["LAB-PANEL", "XRAY-KNEE"].map((code) => ({ code, class: "research" as const, reason: "compared as research costs" })) };
     const internal = computeLedger({ ...inputs, siteArrangement: "internal" }, rates);
     const subaward = computeLedger({ ...inputs, siteArrangement: "subaward" }, rates);
     const inBase = (l: typeof internal) => Object.fromEntries(l.lines.map((x) => [x.key, sumOf(x.inBase)]));
@@ -116,16 +117,16 @@ describe("site arrangements (2 CFR 200.331; 2 CFR 200.1 MTDC; NOT-OD-05-004; NIH
       "fringe:0": "68659.72",
       "salary:1": "86500.28",
       "fringe:1": "24652.58",
-      "salary:2": "344437.25",
-      "fringe:2": "124686.29",
+      "salary:2": "383072.66",
+      "fringe:2": "138672.30",
       "other:0": "24714.37",
       "other:1": "34500.00",
       "other:2": "74143.10",
     });
     // Participant and site lines: 34,103.46 + 3,522.52 + 45,954.00 + 9,892.05 + 36,444.35 + 10,884.53 + 53,209.89
-    // + 27,919.08 + 29,025.39 + 36,000.00 + 61,832.11 + 120,570.88 + 8,694.56 = 478,052.82 of the base 1,501,257.70.
-    expect(internal.totals.base).toBe("1501257.70");
-    // As subawards: the same personnel and other lines (1,023,204.88) and each subaward's first $50,000.
+    // + 27,919.08 + 29,025.39 + 36,000.00 + 61,832.11 + 120,570.88 + 8,694.56 = 478,052.82 of the base 1,553,879.12.
+    expect(internal.totals.base).toBe("1553879.12");
+    // As subawards: the same personnel and other lines (1,075,826.30) and each subaward's first $50,000.
     expect(inBase(subaward)).toEqual({
       "site-budget:1": "50000.00",
       "site-budget:2": "50000.00",
@@ -134,13 +135,13 @@ describe("site arrangements (2 CFR 200.331; 2 CFR 200.1 MTDC; NOT-OD-05-004; NIH
       "fringe:0": "68659.72",
       "salary:1": "86500.28",
       "fringe:1": "24652.58",
-      "salary:2": "344437.25",
-      "fringe:2": "124686.29",
+      "salary:2": "383072.66",
+      "fringe:2": "138672.30",
       "other:0": "24714.37",
       "other:1": "34500.00",
       "other:2": "74143.10",
     });
-    expect(subaward.totals.base).toBe("1173204.88"); // 1,023,204.88 + 3 × 50,000
+    expect(subaward.totals.base).toBe("1225826.30"); // 1,075,826.30 + 3 × 50,000
     // The base falls by 478,052.82 − 150,000 = 328,052.82; at 56.5%, 185,349.84 less F&A (185,349.83 rounded per period).
     expect(new D(internal.totals.fa).minus(subaward.totals.fa).toFixed(2)).toBe("185349.83");
     // The subawards' own indirects (15% de minimis) are direct costs of the prime, tracked apart.
@@ -191,6 +192,11 @@ describe("effort spans (common practice: a coordinator works from the first star
     expect(describeSpan(spanMonths("enrolment", tl, 2))).toBe("study months 3–28");
     expect(describeSpan(spanMonths("months", tl, 2, { from: 4, to: 15 }))).toBe("study months 4–15");
   });
+  it("demo: the coordinator over the sites' life rather than recruitment and visits adds about $80,000 with fringe and F&A (scenario two)", () => {
+    // Recruitment and visits: 344,437.25 salary + 124,686.29 fringe; start-up to close-out: 383,072.66 + 138,672.30.
+    // 52,621.42 more direct costs, × 1.565 with F&A at 56.5% = 82,352.52.
+    expect(new D("383072.66").plus("138672.30").minus("344437.25").minus("124686.29").times("1.565").toFixed(2)).toBe("82352.52");
+  });
   it("prices the months of each period inside the span: $60,000 at 100%, no escalation", () => {
     const person = (follows: "sites" | "enrolment" | "months") => ({ role: "Coordinator", fringeCategory: "staff", baseSalary: "60000", effort: [1], capped: false, follows, months: { from: 4, to: 15 } });
     const at = (follows: "sites" | "enrolment" | "months") => computeLedger({ ...SMALL_STUDY, personnel: [person(follows)] }, { ...ROUND_RATES, escalation: { salaries: "0", costs: "0" } });
@@ -226,7 +232,8 @@ describe("periods, visits and dropouts", () => {
     // Six sites active from months 4–9 to the last visit (month 39): 36, 35, 34, 33, 32, 31 months; 4 a year:
     // ⌈12⌉ + ⌈11.67⌉ + ⌈11.33⌉ + ⌈11⌉ + ⌈10.67⌉ + ⌈10.33⌉ = 12 + 12 + 12 + 11 + 11 + 11 = 69 (rounding up per period gave 13 + 24 + 24 + 12 = 73).
     const s = DEMO_SCENARIOS[0]!;
-    const r = computeScenario(s.inputs, demoRateBook(1), { startDate: "2027-07-01", sponsorCap: null });
+    // All six sites the institution's own (the demo makes three of them subawards, each with its own monitoring).
+    const r = computeScenario({ ...s.inputs, sites: undefined }, demoRateBook(1), { startDate: "2027-07-01", sponsorCap: null });
     expect(line(r.ledger, "site-monitoring").quantities!.reduce((a, b) => a + b, 0)).toBe(69);
   });
   it("dropouts attend the expected visits: a 0.5 share of three visits is 1.5 visits, not 2 (common practice)", () => {

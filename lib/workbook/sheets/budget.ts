@@ -41,7 +41,11 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
           const base = Number(line.amounts[0]);
           const esc = escalationCell(ctx, line.escalation, s.rates);
           const escRef = typeof esc === "number" ? String(esc) : (esc as ExcelJS.CellFormulaValue).formula;
-          cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`);
+          const months = line.periodMonths?.[p] ?? 12;
+          const yearly = inputAmount(s, line.key);
+          // A year's amount prorated in a short period: ROUND(amount × (1 + escalation)^p × months / 12, 2).
+          if (line.periodMonths && yearly !== null && (months !== 12 || line.periodMonths[0] !== 12)) cell.value = fx(`ROUND(${yearly}*(1+${escRef})^${p}*${months}/12,2)`);
+          else cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`);
         } else cell.value = Number(line.amounts[p]);
         cell.numFmt = MONEY;
       }
@@ -100,4 +104,11 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 14 : i === 1 ? 46 : i === 2 ? 10 : 15));
   finish(ws, { x: 2, y: 4 }, "1:4");
   return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
+}
+
+/** The year's amount an "other:i" line was given, as typed in the scenario (null for any other line). */
+function inputAmount(s: WorkbookScenario, key: string): string | null {
+  const m = /^other:(\d+)$/.exec(key);
+  const item = m ? s.inputs.other[Number(m[1])] : undefined;
+  return item ? String(Number(item.perPeriod)) : null;
 }
