@@ -100,7 +100,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
   return {
     tl,
     specs: lines.specs,
-    routine: routine.specs,
+    routine: mergeRoutine(routine.specs),
     sites,
     counts: {
       evaluable,
@@ -207,4 +207,22 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
     },
     caps: capChecks(inputs.caps, direct, grand),
   };
+}
+
+/** Routine care from every group of sites (the institution's, each subaward's) as one line per procedure and unit cost. */
+function mergeRoutine(specs: LineSpec[]): LineSpec[] {
+  const byLabel = new Map<string, LineSpec>();
+  for (const spec of specs) {
+    if (spec.pricing.kind !== "quantity") continue;
+    const id = `${spec.label}@${spec.pricing.unit}`;
+    const hit = byLabel.get(id);
+    if (!hit) {
+      const quantities = [...spec.pricing.quantities];
+      byLabel.set(id, { ...spec, key: spec.key.replace(/^site-\d+:/, ""), quantities, pricing: { ...spec.pricing, quantities } });
+      continue;
+    }
+    const q = hit.quantities!;
+    spec.pricing.quantities.forEach((n, p) => (q[p] = q[p]! + n));
+  }
+  return [...byLabel.values()];
 }

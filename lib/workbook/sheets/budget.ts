@@ -101,6 +101,45 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   defineName(ctx, ws, `${col(first + P)}${rows.total}`, name(ctx, "GRAND_TOTAL"));
   ws.getCell(`B${rows.total + 2}`).value = CAUTION;
   ws.getCell(`B${rows.total + 2}`).font = { italic: true, size: 9 };
+  let extra = rows.total + 4;
+  // The subawards' own indirects, inside direct costs: sponsors apply some limits to direct costs less these (NOT-OD-05-004).
+  const consortium = ledger.lines.filter((l) => l.consortiumFa);
+  if (consortium.length) {
+    ws.getCell(`B${extra}`).value = "Of direct costs: consortium F&A (the subawards' own indirects)";
+    ws.getRow(extra).font = { bold: true };
+    for (let p = 0; p < P; p++) {
+      ws.getCell(extra, first + p).value = fx(`${consortium.map((l) => Number(l.consortiumFa![p])).join("+")}`);
+      ws.getCell(extra, first + p).numFmt = MONEY;
+    }
+    ws.getCell(extra, first + P).value = fx(`SUM(${col(first)}${extra}:${col(first + P - 1)}${extra})`);
+    ws.getCell(extra, first + P).numFmt = MONEY;
+    extra += 2;
+  }
+  // Routine care billed to insurance: priced for the coverage decision, outside the budget and every total above.
+  const routine = ledger.routineCare?.lines ?? [];
+  if (routine.length) {
+    ws.getCell(`A${extra}`).value = "Billed as routine care (outside the budget)";
+    ws.getCell(`A${extra}`).font = { bold: true };
+    extra++;
+    const start = extra;
+    for (const line of routine) {
+      ws.getCell(`A${extra}`).value = "routine-care";
+      ws.getCell(`B${extra}`).value = safeText(line.label);
+      for (let p = 0; p < P; p++) {
+        ws.getCell(extra, first + p).value = Number(line.amounts[p]);
+        ws.getCell(extra, first + p).numFmt = MONEY;
+      }
+      ws.getCell(extra, first + P).value = fx(`SUM(${col(first)}${extra}:${col(first + P - 1)}${extra})`);
+      ws.getCell(extra, first + P).numFmt = MONEY;
+      extra++;
+    }
+    ws.getCell(`B${extra}`).value = "Total billed as routine care";
+    ws.getRow(extra).font = { bold: true };
+    for (let p = 0; p <= P; p++) {
+      ws.getCell(extra, first + p).value = fx(`SUM(${col(first + p)}${start}:${col(first + p)}${extra - 1})`);
+      ws.getCell(extra, first + p).numFmt = MONEY;
+    }
+  }
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 14 : i === 1 ? 46 : i === 2 ? 10 : 15));
   finish(ws, { x: 2, y: 4 }, "1:4");
   return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
