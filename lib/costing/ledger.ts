@@ -19,9 +19,11 @@ import { siteLines } from "./families/sites";
 import { personnelLines } from "./families/personnel";
 import { otherCostLines } from "./families/other-costs";
 import { siteBudgetLine } from "./families/subawards";
+import { clusterLines } from "./families/clusters";
 import { siteTerms } from "./site-arrangements";
 import { enrolledBySite, splitByMonth } from "./site-enrolment";
 import { allocate } from "./timeline";
+import { sitesForClusters } from "./clusters";
 import type { CostInputs, RateBook } from "./types";
 
 export { CostingError } from "./errors";
@@ -41,7 +43,7 @@ export type Ledger = {
   mtdcSubawardThreshold: string;
   timeline: Pick<TimelineResult, "activationMonths" | "monthsToEnrol" | "firstEnrolmentMonth" | "lastEnrolmentMonth" | "lastVisitMonth" | "studyMonths">;
   /** sites: the sites that enrol; sitesPlanned: those asked for (more when some would open after enrolment has finished). */
-  counts: { evaluable: number; enrolled: number; screened: number; screenFailures: number; dropouts: number; sites: number; sitesPlanned: number; visitsAttended: number };
+  counts: { evaluable: number; enrolled: number; screened: number; screenFailures: number; dropouts: number; sites: number; sitesPlanned: number; clusters: number; visitsAttended: number };
   unit: { perEnrolled: string; perEvaluable: string; perSite: string; fixedShare: string; perParticipantShare: string };
   caps: CapChecks;
 };
@@ -58,6 +60,7 @@ export type CostStructure = {
 
 /** Everything but the prices: the timeline, and each line's quantities, salaries and amounts by period. */
 export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStructure {
+  if (inputs.timeline.clusters) inputs = { ...inputs, timeline: { ...inputs.timeline, sites: sitesForClusters(inputs.timeline.clusters) } };
   const enrolled = inputs.arms.reduce((a, b) => a + b.enrolled, 0);
   const evaluable = inputs.arms.reduce((a, b) => a + b.evaluable, 0);
   const screened = inputs.arms.reduce((a, b) => a + b.screened, 0);
@@ -94,6 +97,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     }
     apart.forEach((t, k) => add(siteBudgetLine(context, t, tl.activationMonths[t.index]!, { enrolled: cohorts[k + 1]!, failures: failuresBy[k + 1]!, completers: completersBy[k + 1]! }, esc)));
   }
+  clusterLines(context);
   personnelLines(context);
   otherCostLines(context);
 
@@ -110,6 +114,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
       dropouts: enrolled - evaluable,
       sites,
       sitesPlanned: tl.sitesPlanned,
+      clusters: inputs.timeline.clusters?.count ?? 0,
       // Expected visits: fractional where dropouts attend part of a visit in expectation; shown to 2 decimals.
       visitsAttended: Number(attendance.reduce((a, b) => a + b, 0).toFixed(2)),
     },

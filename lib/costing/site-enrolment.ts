@@ -6,7 +6,9 @@
 import { allocate, type TimelineResult } from "./timeline";
 
 /** Enrolled per site per month (site × month); rows sum to each site's enrolment, columns to the month's. */
-export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth">): number[][] {
+export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment">): number[][] {
+  // Cluster designs: each site enrols what its clusters recruit.
+  if (tl.clusterEnrolment) return tl.clusterEnrolment.bySite;
   const S = tl.activationMonths.length;
   const out = tl.activationMonths.map(() => tl.enrolledByMonth.map(() => 0));
   let turn = 0;

@@ -97,6 +97,11 @@ export type Timeline = {
   ratePerSiteMonth: number;
   /** Months of close-out after the last visit. */
   closeoutMonths: number;
+  /**
+   * Cluster designs: the randomised clusters and how many a site holds (clusters.ts); `sites` is then
+   * ⌈count / perSite⌉ and the enrolment rate is per cluster per month.
+   */
+  clusters?: { count: number; perSite: number };
 };
 
 export type PersonnelLine = {
@@ -143,6 +148,8 @@ export type CostInputs = {
   screeningCost?: string;
   screenFailurePayment?: string;
   site?: Partial<RateBook["site"]>;
+  /** Per-cluster costs, apart from the per-site ones: a cluster's set-up, and a fee per cluster per year. */
+  cluster?: { setupCost?: string; annualFee?: string };
   personnel: PersonnelLine[];
   other: OtherCost[];
   /** Overrides of the rate book's escalation: salaries (and fringe), other costs, or one category. */

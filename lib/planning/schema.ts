@@ -62,6 +62,10 @@ export const recruitmentSchema = z.object({
   attrition: share("Attrition"),
   screenFailure: share("Screen failure"),
   dropoutVisitShare: share("Visits a dropout attends").default(0.5),
+  // Cluster designs: clusters are the randomised units inside sites; per-cluster costs apart from per-site ones.
+  clustersPerSite: opt(n("Clusters per site").int("Clusters per site: a whole number like 4.").min(1, "Clusters per site: at least 1.").max(1000, "Clusters per site: at most 1,000.")),
+  clusterSetupCost: opt(money("Set-up per cluster")),
+  clusterAnnualFee: opt(money("Fee per cluster per year")),
 });
 
 /** Labels of the visit rows on the scenario page; messages use the same words. */

@@ -10,7 +10,8 @@ import { computeLedger, computeTimeline, type CostInputs, type RateBook } from "
 import { D } from "@/lib/costing/money";
 import { dropoutAttendance } from "@/lib/costing/families/participants";
 import { describeSpan, spanMonths } from "@/lib/costing/effort-span";
-import { computeScenario, costInputs } from "@/lib/planning/compute";
+import { clusterDifference, computeScenario, costInputs } from "@/lib/planning/compute";
+import { clusterEnrolment } from "@/lib/costing/clusters";
 import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
 import { ROUND_RATES, SMALL_STUDY } from "../fixtures/rate-books";
 
@@ -262,5 +263,52 @@ describe("sites that never enrol", () => {
       expect(x.quantities?.length ?? l.periods.length).toBe(l.periods.length);
       for (const a of x.amounts) expect(a).toMatch(/^-?\d+\.\d\d$/);
     }
+  });
+});
+
+describe("clusters are the randomised units inside sites (common practice)", () => {
+  it("each cluster fills to its planned size from its site's activation (worked by hand)", () => {
+    // 4 clusters, 2 a site, sites open at months 0 and 1, 2 a month per cluster, 10 enrolled:
+    // sizes 2, 3, 2, 3 (cumulative whole numbers of 2.5 each). Cluster 1: month 0 → 2. Cluster 2: 2, then 1.
+    // Cluster 3 (site 2): month 1 → 2. Cluster 4: 2 in month 1, 1 in month 2.
+    const e = clusterEnrolment([0, 1], { count: 4, perSite: 2 }, 10, 2);
+    expect(e.sizes).toEqual([2, 3, 2, 3]);
+    expect(e.bySite).toEqual([
+      [4, 1, 0],
+      [0, 4, 1],
+    ]);
+    expect(e.enrolledByMonth).toEqual([4, 5, 1]);
+  });
+  it("demo cluster scenario with a one-month stagger: every one of 26 clusters recruits 14 or 15 (368 enrolled), none 0", () => {
+    const s = DEMO_SCENARIOS[2]!;
+    const inputs = { ...s.inputs, recruitment: { ...s.inputs.recruitment, staggerMonths: 1 } };
+    const r = computeScenario(inputs, demoRateBook(1), { startDate: "2027-07-01", sponsorCap: null });
+    expect(r.power.clusters1! + r.power.clusters2!).toBe(26);
+    const tl = computeTimeline(
+      { sites: 26, startupMonths: 4, staggerMonths: 1, ratePerSiteMonth: 2, closeoutMonths: 3, clusters: { count: 26, perSite: 1 } },
+      r.ledger.counts.enrolled,
+      6,
+      "2027-07-01",
+    );
+    const perCluster = tl.clusterEnrolment!.bySite.map((row) => row.reduce((a, b) => a + b, 0));
+    // 368 / 26 = 14.15: 22 clusters of 14 and 4 of 15 (14 × 22 + 15 × 4 = 308 + 60 = 368).
+    expect(perCluster.filter((n) => n === 14).length).toBe(22);
+    expect(perCluster.filter((n) => n === 15).length).toBe(4);
+    expect(Math.min(...perCluster)).toBeGreaterThan(0);
+  });
+  it("per-cluster costs are apart from per-site costs: 26 clusters in 13 sites, 13 start-ups and 26 cluster set-ups", () => {
+    const s = DEMO_SCENARIOS[2]!;
+    const inputs = { ...s.inputs, recruitment: { ...s.inputs.recruitment, clustersPerSite: 2, clusterSetupCost: "800" } };
+    const r = computeScenario(inputs, demoRateBook(1), { startDate: "2027-07-01", sponsorCap: null });
+    expect(r.sites).toBe(13);
+    expect(line(r.ledger, "site-startup").quantities!.reduce((a, b) => a + b, 0)).toBe(13);
+    expect(line(r.ledger, "cluster-setup").quantities).toEqual([26, 0]);
+    expect(line(r.ledger, "cluster-setup").total).toBe("20800.00"); // 26 × $800, all in period 1
+  });
+  it("warns where the costed clusters differ from the powered mean size", () => {
+    const power = { clusters1: 10, clusters2: 10, clusterSize: 12.5 } as Parameters<typeof clusterDifference>[0];
+    const ledger = { counts: { evaluable: 250, clusters: 20 } } as Parameters<typeof clusterDifference>[1];
+    expect(clusterDifference(power, ledger)).toBe("The budget costs 20 clusters of 12 to 13 evaluable participants (250 in all); the power calculation assumes a mean of 12.5 per cluster.");
+    expect(clusterDifference({ ...power, clusterSize: 12 }, { counts: { evaluable: 240, clusters: 20 } } as Parameters<typeof clusterDifference>[1])).toBeNull();
   });
 });
