@@ -30,6 +30,11 @@ const EFFORT_RUNS = [
   ["enrolment", "recruitment and visits only: first activation to last visit"],
   ["months", "given months: the from and to months below"],
 ] as const;
+const CLASS_OPTIONS = [
+  ["research", "research cost"],
+  ["patient-care", "patient care"],
+  ["routine-care", "routine care billed to insurance"],
+] as const;
 const SITE_ARRANGEMENT_OPTIONS = [
   ["internal", "internal: the institution's own clinic"],
   ["subaward", "subaward: a subrecipient with its own indirects"],
@@ -64,6 +69,7 @@ function toFormValues(i: ScenarioInputs) {
     visits: i.visits.map(visitFormValues),
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", "), months: p.months ? { from: String(p.months.from), to: String(p.months.to) } : undefined })),
     other: i.other.map((o) => ({ ...o, escalate: o.escalate ? "on" : "" })),
+    procedureClasses: i.procedureClasses ?? [],
     sites: (i.sites ?? []).map((t) => ({ arrangement: t.arrangement, indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate), foreign: t.foreign ? "on" : "" })),
   };
 }
@@ -273,6 +279,7 @@ export function ScenarioForm({
   const personnel = i.personnel.getFieldList();
   const other = i.other.getFieldList();
   const siteRows = i.sites.getFieldList();
+  const classRows = i.procedureClasses.getFieldList();
   const means = isMeansDesign(design);
   const proportions = isProportionsDesign(design);
   const cluster = isClusterDesign(design);
@@ -419,7 +426,19 @@ export function ScenarioForm({
             <Text meta={r.screenFailure} label="Screen failure" hint="Share of those screened not enrolled: 0.35 or 35%" />
             <Text meta={r.dropoutVisitShare} label="Visits a dropout attends" hint="Share of the schedule: 0.5 or 50%" />
           </div>
-          {cluster ? <p className="text-sm text-ink-soft">In a cluster design each cluster is a site; the number of sites follows from the clusters needed.</p> : null}
+          {cluster ? (
+            <>
+              <div className="grid gap-4 sm:grid-cols-3">
+                <Text meta={r.clustersPerSite} label="Clusters per site" hint="Like 4 classrooms a school; 1 when each cluster is its own site" />
+                <Text meta={r.clusterSetupCost} label="Set-up per cluster" hint="Optional, dollars" />
+                <Text meta={r.clusterAnnualFee} label="Fee per cluster per year" hint="Optional, dollars" />
+              </div>
+              <p className="text-sm text-ink-soft">
+                Clusters are the randomised units inside sites: the sites needed hold the clusters the power calculation asks for, each cluster recruits to its planned size at the rate
+                above (per cluster per month), and per-cluster costs are apart from per-site costs.
+              </p>
+            </>
+          ) : null}
           {design === "time-to-event" ? <p className="text-sm text-ink-soft">The months this plan takes to enrol are the accrual the power calculation uses.</p> : null}
         </Section>
         <Section title="Visit schedule" id="sec-visits">
@@ -468,6 +487,32 @@ export function ScenarioForm({
           })}
           <button {...form.insert.getButtonProps({ name: i.visits.name, defaultValue: { name: "", month: "", procedures: "", oneOffProcedures: [] } })} className="btn btn-quiet self-start">
             Add a visit
+          </button>
+        </Section>
+
+        <Section title="Procedure classes" id="sec-procedure-classes">
+          <p className="text-sm text-ink-soft">
+            The grants office classes each rate-book procedure as a research cost, patient care (out of the MTDC base) or routine care billed to insurance (outside the budget). Class a
+            procedure differently for this study only with a reason: the grants office reads it.
+          </p>
+          {classRows.map((row, idx) => {
+            const f = row.getFieldset();
+            return (
+              <div key={row.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+                <Choice meta={f.code} label={`Procedure ${idx + 1}`} options={procedureCatalogue.map((p) => [p.code, `${p.code}: ${p.name}`] as const)} />
+                <Choice meta={f.class} label={`Class for this study ${idx + 1}`} options={CLASS_OPTIONS} />
+                <Text meta={f.reason} label={`Reason for the class ${idx + 1}`} wide />
+                <button {...form.remove.getButtonProps({ name: i.procedureClasses.name, index: idx })} className="btn btn-danger justify-self-start py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button
+            {...form.insert.getButtonProps({ name: i.procedureClasses.name, defaultValue: { code: procedureCatalogue[0]?.code ?? "", class: "research", reason: "" } })}
+            className="btn btn-quiet self-start"
+          >
+            Class a procedure differently
           </button>
         </Section>
 

@@ -21,3 +21,10 @@ export function categoryOfClass(cls: ProcedureClass): CostCategory | null {
 
 /** The words the ledger, the page and the workbook use for routine care. */
 export const ROUTINE_CARE_MARK = "billed as routine care";
+
+/** How the page and the workbook name each class. */
+export const PROCEDURE_CLASS_LABELS: Record<ProcedureClass, string> = {
+  research: "research cost",
+  "patient-care": "patient care",
+  "routine-care": "routine care billed to insurance",
+};

@@ -1,9 +1,9 @@
 /** The PATCH body for a draft edition: settings, fringe rows and procedures, each with the version it was read at. */
 import { z } from "zod";
-import { PROCEDURE_CLASSES } from "@/lib/costing/types";
 import "@/lib/validation/plain-messages";
 import {
   fringeCategoryField,
+  procedureClassField,
   moneyField,
   procedureCategoryField,
   procedureCodeField,
@@ -17,9 +17,6 @@ import {
 const version = z.number({ error: "version is required: send the version you read." }).int().positive();
 
 const settingsShape = Object.fromEntries(SETTING_FIELDS.map((f) => [f.key, settingSchema(f).optional()])) as Record<SettingKey, z.ZodOptional<z.ZodType<string | null>>>;
-
-/** Research cost, patient care, or routine care billed to insurance (lib/costing/procedure-class.ts). */
-const procedureClassField = z.enum(PROCEDURE_CLASSES, { error: "Class: choose research cost, patient care, or routine care billed to insurance." });
 
 export const editionPatchSchema = z
   .object({
