@@ -215,7 +215,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
   if (clusterNote) warnings.push(clusterNote);
   if (ledger.counts.sitesPlanned > ledger.counts.sites) {
     warnings.push(
-      `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or slow the sites' activation.`,
+      `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or shorten the months between activations.`,
     );
   }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
@@ -227,7 +227,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     targetEffect: effectOf(sized),
     mdes: effectOf(mdesResult),
     powerAtTarget: sized.power,
-    sites: at.cost.timeline.sites,
+    sites: ledger.counts.sites,
     ledger,
     capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
     warnings,
@@ -272,7 +272,7 @@ export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyCont
     n: lo,
     n1: best.at.power.n1,
     n2: best.at.power.n2,
-    sites: best.at.cost.timeline.sites,
+    sites: best.ledger.counts.sites,
     total: best.ledger.totals.total,
     effect,
     powerAtTarget: best.at.power.power,

@@ -312,3 +312,19 @@ describe("clusters are the randomised units inside sites (common practice)", () 
     expect(clusterDifference({ ...power, clusterSize: 12 }, { counts: { evaluable: 240, clusters: 20 } } as Parameters<typeof clusterDifference>[1])).toBeNull();
   });
 });
+
+describe("sites that never enrol, in a scenario", () => {
+  it("the demo plan with 30 sites opening a year apart costs only the sites that enrol, and says how many it needs", () => {
+    const s = DEMO_SCENARIOS[1]!;
+    const inputs = { ...s.inputs, recruitment: { ...s.inputs.recruitment, sites: 30, staggerMonths: 12 } };
+    const r = computeScenario(inputs, demoRateBook(1), { startDate: "2027-07-01", sponsorCap: null });
+    const n = r.ledger.counts.sites;
+    expect(n).toBeLessThan(30);
+    expect(r.sites).toBe(n);
+    expect(r.ledger.counts.sitesPlanned).toBe(30);
+    expect(line(r.ledger, "site-startup").quantities!.reduce((a, b) => a + b, 0)).toBe(n);
+    expect(line(r.ledger, "site-closeout").quantities!.reduce((a, b) => a + b, 0)).toBe(n);
+    expect(r.warnings).toContain(`Only ${n} of the 30 sites open before enrolment ends; the plan costs those ${n}. Set Sites to ${n}, or shorten the months between activations.`);
+    for (const x of r.ledger.lines) for (const q of x.quantities ?? []) expect(Number.isFinite(q)).toBe(true);
+  });
+});
