@@ -12,6 +12,7 @@ import { dropoutAttendance } from "@/lib/costing/families/participants";
 import { describeSpan, spanMonths } from "@/lib/costing/effort-span";
 import { clusterDifference, computeScenario, costInputs } from "@/lib/planning/compute";
 import { clusterEnrolment } from "@/lib/costing/clusters";
+import { generateJustification } from "@/lib/planning/justification";
 import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
 import { ROUND_RATES, SMALL_STUDY } from "../fixtures/rate-books";
 
@@ -326,5 +327,21 @@ describe("sites that never enrol, in a scenario", () => {
     expect(line(r.ledger, "site-closeout").quantities!.reduce((a, b) => a + b, 0)).toBe(n);
     expect(r.warnings).toContain(`Only ${n} of the 30 sites open before enrolment ends; the plan costs those ${n}. Set Sites to ${n}, or shorten the months between activations.`);
     for (const x of r.ledger.lines) for (const q of x.quantities ?? []) expect(Number.isFinite(q)).toBe(true);
+  });
+});
+
+describe("the justification says the sites' arrangements and the clusters where they change the text", () => {
+  const study = { startDate: "2027-07-01", sponsorCap: null };
+  it("demo scenario one: three of its six sites are subawards", () => {
+    const s = DEMO_SCENARIOS[0]!;
+    const text = generateJustification(s.inputs, computeScenario(s.inputs, demoRateBook(1), study), study);
+    expect(text).toContain("3 of the sites take part as subawards, each costed with its own indirect costs.");
+  });
+  it("a cluster design says how the clusters sit in sites", () => {
+    const s = DEMO_SCENARIOS[2]!;
+    const inputs = { ...s.inputs, recruitment: { ...s.inputs.recruitment, clustersPerSite: 2 } };
+    const text = generateJustification(inputs, computeScenario(inputs, demoRateBook(1), study), study);
+    expect(text).toContain("The 26 clusters are held 2 to a site, and each recruits to its planned size.");
+    expect(text).toContain("Recruitment at 13 sites");
   });
 });
