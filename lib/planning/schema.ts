@@ -134,14 +134,27 @@ export const personnelSchema = z.object({
   follows: z
     .enum(EFFORT_SPANS, { error: "Effort runs: choose the whole study, first start-up to last close-out, recruitment and visits, or given months." })
     .default("study"),
-  // Given months only: study months from..to (1 = the study's first month), inclusive.
+  // Given months only: study months from..to (1 = the study's first month), inclusive. Two empty boxes are no months.
   months: z
     .object({
-      from: n("Effort from month").int("Effort from month: a whole number like 1.").min(1, "Effort from month: 1 or more."),
-      to: n("Effort to month").int("Effort to month: a whole number like 24.").min(1, "Effort to month: 1 or more.").max(1200, "Effort to month: at most 1,200."),
+      from: opt(n("Effort from month").int("Effort from month: a whole number like 1.").min(1, "Effort from month: 1 or more.")),
+      to: opt(n("Effort to month").int("Effort to month: a whole number like 24.").min(1, "Effort to month: 1 or more.").max(1200, "Effort to month: at most 1,200.")),
     })
-    .refine((m) => m.to >= m.from, { message: "Effort to month: on or after the from month.", path: ["to"] })
+    .optional()
+    .transform((m, ctx) => {
+      if (!m || (m.from === undefined && m.to === undefined)) return undefined;
+      if (m.from === undefined) ctx.addIssue({ code: "custom", path: ["from"], message: "Effort from month: enter it, like 1." });
+      if (m.to === undefined) ctx.addIssue({ code: "custom", path: ["to"], message: "Effort to month: enter it, like 24." });
+      if (m.from === undefined || m.to === undefined) return z.NEVER;
+      if (m.to < m.from) {
+        ctx.addIssue({ code: "custom", path: ["to"], message: "Effort to month: on or after the from month." });
+        return z.NEVER;
+      }
+      return { from: m.from, to: m.to };
+    })
     .optional(),
+}).superRefine((p, ctx) => {
+  if (p.follows === "months" && !p.months) ctx.addIssue({ code: "custom", path: ["months", "from"], message: "Effort from month: enter the months the effort covers, like 1 and 24." });
 });
 
 /** One site's terms, in activation order: how it is paid, and a subaward's own indirect rate. */

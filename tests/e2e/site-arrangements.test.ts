@@ -122,4 +122,30 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     await grants.getByTestId("consortium-fa").waitFor();
     await grants.close();
   });
+
+  it("the grants officer sets a procedure's class on a draft rate-book edition by choosing it", { timeout: 60_000 }, async () => {
+    const grants = await pageAs(browser, baseUrl, "grants@demo.test", { width: 1440 });
+    await grants.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Rate book" }).click();
+    await grants.waitForURL(/\/rate-book$/);
+    await grants.getByLabel("Start from").selectOption({ label: "2027 rates (in force today)" });
+    await grants.getByLabel("Label", { exact: true }).fill("2031 rates");
+    await grants.getByLabel("Effective from").fill("2031-01-01");
+    await grants.getByRole("button", { name: "Start the draft" }).click();
+    await grants.waitForURL(/\/rate-book\/\d+$/);
+    // The draft keeps the classes of the edition it starts from (scripts/demo-data.ts).
+    expect(await grants.getByTestId("class-XRAY-KNEE").textContent()).toBe("patient care");
+    expect(await grants.getByTestId("class-LAB-PANEL").textContent()).toBe("routine care billed to insurance");
+    expect(await grants.getByTestId("class-GAIT").textContent()).toBe("research cost");
+    const row = grants.getByRole("row").filter({ has: grants.getByTestId("class-GAIT") });
+    await row.getByLabel("Class of GAIT").selectOption("patient-care");
+    await row.getByRole("button", { name: "Save" }).click();
+    await waitForText(grants.getByTestId("class-GAIT"), "patient care");
+    const editionId = Number(/rate-book\/(\d+)/.exec(grants.url())![1]);
+    const db = new Database(databasePath, { readonly: true });
+    const stored = db.prepare("SELECT class FROM rate_book_procedures WHERE edition_id = ? AND code = 'GAIT'").get(editionId) as { class: string };
+    db.close();
+    expect(stored.class).toBe("patient-care");
+    await screenshot(grants, "rate-book-procedure-class-1440");
+    await grants.close();
+  });
 });
