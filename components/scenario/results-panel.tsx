@@ -59,16 +59,18 @@ function RoutineCare({ ledger }: { ledger: ScenarioResults["ledger"] }) {
 }
 
 /** Procedures this scenario classes differently from the rate book, with the investigator's reasons, for the grants office. */
-function ClassOverrides({ lines }: { lines: LedgerLine[] }) {
-  const changed = lines.filter((x) => x.classOverride);
+function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
+  // Results stored before the ledger listed them: the lines that carry one.
+  const changed =
+    ledger.classOverrides ?? [...ledger.lines, ...(ledger.routineCare?.lines ?? [])].filter((x) => x.classOverride).map((x) => ({ label: x.label, ...x.classOverride! }));
   if (!changed.length) return null;
   return (
     <div className="notice" data-testid="class-overrides">
       <p className="font-medium">For the grants office&apos;s review: procedures classed differently from the rate book</p>
       <ul className="mt-1 flex flex-col gap-0.5">
         {changed.map((x) => (
-          <li key={x.key}>
-            {x.label}: {x.classOverride!.from} → {x.classOverride!.to}. Reason: “{x.classOverride!.reason}”
+          <li key={x.label}>
+            {x.label}: {x.from} → {x.to}. Reason: “{x.reason}”
           </li>
         ))}
       </ul>
@@ -202,7 +204,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </p>
       ) : null}
       <OneOffNote lines={l.lines} />
-      <ClassOverrides lines={[...l.lines, ...(l.routineCare?.lines ?? [])]} />
+      <ClassOverrides ledger={l} />
       <RoutineCare ledger={l} />
       <details>
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>

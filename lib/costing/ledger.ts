@@ -36,6 +36,8 @@ export type Ledger = {
   /** consortiumFa: the subawards' own indirects inside direct costs (zeros when none), which some sponsor limits subtract (NOT-OD-05-004). */
   byPeriod: { direct: string[]; base: string[]; fa: string[]; total: string[]; consortiumFa: string[] };
   totals: { direct: string; base: string; fa: string; total: string; consortiumFa: string };
+  /** Procedures the scenario classes differently from the rate book, with its reasons (wherever their lines sit, subaward budgets too). */
+  classOverrides: { label: string; from: string; to: string; reason: string }[];
   /** Routine care billed to the participants' insurance: priced for the coverage decision, outside the budget and its totals. */
   routineCare: { lines: LedgerLine[]; total: string };
   faRate: string;
@@ -54,6 +56,7 @@ export type CostStructure = {
   tl: TimelineResult;
   specs: LineSpec[];
   routine: LineSpec[];
+  classOverrides: Ledger["classOverrides"];
   counts: Ledger["counts"];
   sites: number;
 };
@@ -105,6 +108,7 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     tl,
     specs: lines.specs,
     routine: mergeRoutine(routine.specs),
+    classOverrides: overridesOf([...lines.specs, ...routine.specs]),
     sites,
     counts: {
       evaluable,
@@ -190,6 +194,7 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
     lines,
     byPeriod: { direct: direct.map(toCents), base: base.map(toCents), fa: fa.map(toCents), total: total.map(toCents), consortiumFa: consortiumFa.map(toCents) },
     totals: { direct: toCents(directTotal), base: toCents(sum(base)), fa: toCents(sum(fa)), total: toCents(grand), consortiumFa: toCents(sum(consortiumFa)) },
+    classOverrides: structure.classOverrides,
     routineCare: { lines: routineLines, total: toCents(sum(routineLines.map((l) => new D(l.total)))) },
     faRate: rates.faRate,
     faBase: rates.faBase,
@@ -230,4 +235,17 @@ function mergeRoutine(specs: LineSpec[]): LineSpec[] {
     spec.pricing.quantities.forEach((n, p) => (q[p] = q[p]! + n));
   }
   return [...byLabel.values()];
+}
+
+/** Each overridden procedure once, from the prime's lines and every site budget's own lines. */
+function overridesOf(specs: LineSpec[]): Ledger["classOverrides"] {
+  const out = new Map<string, Ledger["classOverrides"][number]>();
+  const visit = (list: LineSpec[]) => {
+    for (const spec of list) {
+      if (spec.classOverride && !out.has(spec.label)) out.set(spec.label, { label: spec.label, ...spec.classOverride });
+      if (spec.pricing.kind === "site-budget") visit(spec.pricing.parts);
+    }
+  };
+  visit(specs);
+  return [...out.values()];
 }

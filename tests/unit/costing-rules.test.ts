@@ -182,6 +182,11 @@ describe("procedure classes (2 CFR 200.1 MTDC excludes patient care; routine car
     const x = line(o, "procedure:XRAY@120");
     expect(x.category).toBe("procedures");
     expect(x.classOverride).toEqual({ from: "patient-care", to: "research", reason: "Research-only views, not standard of care" });
+    expect(o.classOverrides).toEqual([{ label: "Knee radiograph", from: "patient-care", to: "research", reason: "Research-only views, not standard of care" }]);
+    // With every site a subaward the line sits in the subaward budgets; the ledger still lists the override once.
+    const sub = computeLedger({ ...SMALL_STUDY, siteArrangement: "subaward", procedureClasses: [{ code: "XRAY", class: "research", reason: "Research-only views, not standard of care" }] }, rates);
+    expect(sub.lines.some((x) => x.classOverride)).toBe(false);
+    expect(sub.classOverrides).toEqual(o.classOverrides);
   });
 });
 
