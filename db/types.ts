@@ -126,6 +126,8 @@ export interface RateBookProceduresTable {
   name: string;
   unit_cost: string;
   category: string;
+  /** research | patient-care | routine-care (lib/costing/types.ts, PROCEDURE_CLASSES). */
+  class: ColumnType<string, string | undefined, string>;
   version: ColumnType<number, number | undefined, number>;
 }
 

@@ -8,6 +8,7 @@ import * as installation from "./2026-12-02-0006-installation";
 import * as justificationFigures from "./2026-12-02-0007-justification-figures";
 import * as studyCodePerOwner from "./2026-12-02-0008-study-code-per-owner";
 import * as outboxPendingSecret from "./2026-12-02-0009-outbox-pending-secret";
+import * as procedureClass from "./2026-12-02-0010-procedure-class";
 import * as sponsorRules from "./2026-12-02-0011-sponsor-rules";
 import * as reviewEvents from "./2026-12-02-0012-review-events";
 import * as passwordLinksAndMailSettings from "./2026-12-02-0013-password-links-and-mail-settings";
@@ -27,6 +28,7 @@ export const migrations: Record<string, Migration> = {
   "2026-12-02-0007-justification-figures": justificationFigures,
   "2026-12-02-0008-study-code-per-owner": studyCodePerOwner,
   "2026-12-02-0009-outbox-pending-secret": outboxPendingSecret,
+  "2026-12-02-0010-procedure-class": procedureClass,
   "2026-12-02-0011-sponsor-rules": sponsorRules,
   "2026-12-02-0012-review-events": reviewEvents,
   "2026-12-02-0013-password-links-and-mail-settings": passwordLinksAndMailSettings,

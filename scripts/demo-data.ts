@@ -1,4 +1,4 @@
-import type { RateBook } from "../lib/costing";
+import type { ProcedureClass, RateBook } from "../lib/costing";
 import type { ScenarioInputs } from "../lib/planning/schema";
 
 /** Demo data: all invented. */
@@ -30,14 +30,16 @@ export const DEMO_RATES = {
     ["student", "0.085"],
   ],
   procedures: [
-    ["NURSE-VISIT", "Research nurse visit", "95.00", "clinical"],
-    ["LAB-PANEL", "Metabolic panel", "38.00", "laboratory"],
-    ["XRAY-KNEE", "Knee radiograph, two views", "140.00", "imaging"],
-    ["PROM-SET", "Patient-reported outcome set", "15.00", "assessment"],
-    ["GAIT", "Gait and walking-speed assessment", "110.00", "assessment"],
-    ["ACTIVITY-7D", "Activity monitor, 7 days", "60.00", "device"],
-    ["COACH", "Walking coach session", "75.00", "intervention"],
-  ],
+    // The fifth column is the grants office's class: the radiograph is a hospital charge (patient care, out of
+    // MTDC); the metabolic panel is routine care billed to the participant's insurance (outside the budget).
+    ["NURSE-VISIT", "Research nurse visit", "95.00", "clinical", "research"],
+    ["LAB-PANEL", "Metabolic panel", "38.00", "laboratory", "routine-care"],
+    ["XRAY-KNEE", "Knee radiograph, two views", "140.00", "imaging", "patient-care"],
+    ["PROM-SET", "Patient-reported outcome set", "15.00", "assessment", "research"],
+    ["GAIT", "Gait and walking-speed assessment", "110.00", "assessment", "research"],
+    ["ACTIVITY-7D", "Activity monitor, 7 days", "60.00", "device", "research"],
+    ["COACH", "Walking coach session", "75.00", "intervention", "research"],
+  ] as [string, string, string, string, ProcedureClass][],
 };
 
 
@@ -64,7 +66,8 @@ const base: ScenarioInputs = {
   personnel: [
     { role: "Principal investigator", fringeCategory: "faculty", baseSalary: "195000", effortPercent: [20], follows: "study" },
     { role: "Trial statistician", fringeCategory: "faculty", baseSalary: "140000", effortPercent: [10], follows: "study" },
-    { role: "Research coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent: [100], follows: "enrolment" },
+    // The coordinator works from the first site's start-up to the last site's close-out.
+    { role: "Research coordinator", fringeCategory: "research-staff", baseSalary: "62000", effortPercent: [100], follows: "sites" },
   ],
   other: [
     { label: "Study supplies", category: "supplies", perPeriod: "4000", escalate: true },
@@ -74,7 +77,22 @@ const base: ScenarioInputs = {
 };
 
 export const DEMO_SCENARIOS: { name: string; state: "draft" | "in-review"; inputs: ScenarioInputs }[] = [
-  { name: "Six sites, 90% power", state: "draft", inputs: base },
+  {
+    name: "Six sites, 90% power",
+    state: "draft",
+    // Three of the institution's own clinics and three partner hospitals as subawards (one abroad, its indirects limited to 8%).
+    inputs: {
+      ...base,
+      sites: [
+        { arrangement: "internal", foreign: false },
+        { arrangement: "internal", foreign: false },
+        { arrangement: "internal", foreign: false },
+        { arrangement: "subaward", indirectRate: 0.52, foreign: false },
+        { arrangement: "subaward", indirectRate: 0.48, foreign: false },
+        { arrangement: "subaward", indirectRate: 0.3, foreign: true },
+      ],
+    },
+  },
   { name: "Three sites, longer enrolment", state: "draft", inputs: { ...base, recruitment: { ...base.recruitment, sites: 3 } } },
   {
     name: "Clinic clusters",
@@ -108,6 +126,6 @@ export function demoRateBook(editionId: number): RateBook {
     fringe: r.fringe.map(([category, rate]) => ({ category: category!, rate: rate! })),
     site: { startupFee: r.site_startup_fee, annualFee: r.site_annual_fee, monitoringVisitsPerYear: Number(r.monitoring_visits_per_year), monitoringVisitCost: r.monitoring_visit_cost, closeoutFee: r.site_closeout_fee },
     participant: { incentivePerVisit: r.incentive_per_visit, screeningCost: r.screening_cost, screenFailurePayment: r.screen_failure_payment },
-    procedures: r.procedures.map(([code, name, unitCost, category]) => ({ code: code!, name: name!, unitCost: unitCost!, category: category! })),
+    procedures: r.procedures.map(([code, name, unitCost, category, cls]) => ({ code, name, unitCost, category, class: cls })),
   };
 }

@@ -74,7 +74,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ seeded: boolean 
     await trx.insertInto("rate_book_fringe").values(fringe.map(([category, rate]) => ({ edition_id: editionId, category: category!, rate: rate! }))).execute();
     await trx
       .insertInto("rate_book_procedures")
-      .values(procedures.map(([code, name, unit_cost, category]) => ({ edition_id: editionId, code: code!, name: name!, unit_cost: unit_cost!, category: category! })))
+      .values(procedures.map(([code, name, unit_cost, category, cls]) => ({ edition_id: editionId, code, name, unit_cost, category, class: cls })))
       .execute();
     // The demo scenarios, costed with the published edition; the lean one is already with the grants office.
     for (const s of DEMO_SCENARIOS) {

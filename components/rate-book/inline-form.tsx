@@ -6,7 +6,8 @@ import { useActionState } from "react";
 import { keptSubmit } from "../form/kept-submit";
 
 /** `hint` is the placeholder; `help` is a visible line under the input that says what to type; `showLabel` shows the label above it. */
-type Field = { name: string; label: string; defaultValue?: string | null; width?: string; hint?: string; help?: string; showLabel?: boolean };
+/** `options`: a choice from a fixed list (value, label) instead of free text. */
+type Field = { name: string; label: string; defaultValue?: string | null; width?: string; hint?: string; help?: string; showLabel?: boolean; options?: readonly (readonly [string, string])[] };
 
 /**
  * One row's edit form: hidden ids and versions, a few inputs, one button. The server validates with zod
@@ -46,15 +47,32 @@ export function InlineForm({
               <label htmlFor={id} className={f.showLabel ? "text-sm font-medium" : "sr-only"}>
                 {f.label}
               </label>
-              <input
-                id={id}
-                name={f.name}
-                defaultValue={f.defaultValue ?? ""}
-                className={`input num py-1 ${f.width ?? "w-32"}`}
-                aria-invalid={errors?.length ? true : undefined}
-                aria-describedby={[f.help ? `${id}-help` : null, errors?.length ? `${id}-error` : null].filter(Boolean).join(" ") || undefined}
-                placeholder={f.hint}
-              />
+              {f.options ? (
+                <select
+                  id={id}
+                  name={f.name}
+                  defaultValue={f.defaultValue ?? f.options[0]?.[0]}
+                  className={`input py-1 ${f.width ?? "w-32"}`}
+                  aria-invalid={errors?.length ? true : undefined}
+                  aria-describedby={errors?.length ? `${id}-error` : undefined}
+                >
+                  {f.options.map(([v, l]) => (
+                    <option key={v} value={v}>
+                      {l}
+                    </option>
+                  ))}
+                </select>
+              ) : (
+                <input
+                  id={id}
+                  name={f.name}
+                  defaultValue={f.defaultValue ?? ""}
+                  className={`input num py-1 ${f.width ?? "w-32"}`}
+                  aria-invalid={errors?.length ? true : undefined}
+                  aria-describedby={[f.help ? `${id}-help` : null, errors?.length ? `${id}-error` : null].filter(Boolean).join(" ") || undefined}
+                  placeholder={f.hint}
+                />
+              )}
               {f.help ? (
                 <span id={`${id}-help`} className={`text-xs text-ink-soft ${f.width ?? "w-32"}`}>
                   {f.help}

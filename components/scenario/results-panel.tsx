@@ -51,6 +51,50 @@ function SponsorChecks({ results }: { results: ScenarioResults }) {
   );
 }
 
+/**
+ * Routine care billed to the participants' insurance is not in the grant budget: listed apart, with its
+ * cost, so that the investigator can show the coverage decision. Results stored before the rule have none.
+ */
+function RoutineCare({ ledger }: { ledger: ScenarioResults["ledger"] }) {
+  const lines = ledger.routineCare?.lines ?? [];
+  if (!lines.length) return null;
+  return (
+    <div className="notice" data-testid="routine-care">
+      <p className="font-medium">Billed as routine care, outside the budget: {formatMoney(ledger.routineCare!.total)}</p>
+      <ul className="mt-1 flex flex-col gap-0.5">
+        {lines.map((x) => (
+          <li key={x.key} className="flex flex-wrap justify-between gap-x-3">
+            <span>
+              {x.label}, {fmt(x.quantities?.reduce((a, b) => a + b, 0), 2)} at {formatMoney(x.unitCost)}
+            </span>
+            <span className="num">{formatMoney(x.total)}</span>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+/** Procedures this scenario classes differently from the rate book, with the investigator's reasons, for the grants office. */
+function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
+  // Results stored before the ledger listed them: the lines that carry one.
+  const changed =
+    ledger.classOverrides ?? [...ledger.lines, ...(ledger.routineCare?.lines ?? [])].filter((x) => x.classOverride).map((x) => ({ label: x.label, ...x.classOverride! }));
+  if (!changed.length) return null;
+  return (
+    <div className="notice" data-testid="class-overrides">
+      <p className="font-medium">For the grants office&apos;s review: procedures classed differently from the rate book</p>
+      <ul className="mt-1 flex flex-col gap-0.5">
+        {changed.map((x) => (
+          <li key={x.label}>
+            {x.label}: {x.from} → {x.to}. Reason: “{x.reason}”
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
 export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
   const p = results.power;
@@ -184,7 +228,15 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       <p className="-mt-2 text-xs text-ink-soft">
         F&amp;A at {formatRate(l.faRate)} of the {l.faBase === "mtdc" ? "MTDC" : "TDC"} base. Each period is 12 months from the month shown, unless a shorter length is given.
       </p>
+      {l.totals.consortiumFa && Number(l.totals.consortiumFa) > 0 ? (
+        <p className="-mt-2 text-xs text-ink-soft" data-testid="consortium-fa">
+          Direct costs include the subawards&apos; own F&amp;A (consortium F&amp;A) of {formatMoney(l.totals.consortiumFa)}; only each subaward&apos;s first{" "}
+          {formatMoney(l.mtdcSubawardThreshold, { cents: false })} counts in the MTDC base.
+        </p>
+      ) : null}
       <OneOffNote lines={l.lines} />
+      <ClassOverrides ledger={l} />
+      <RoutineCare ledger={l} />
       <details>
         <summary className="cursor-pointer text-sm font-medium">Cost lines ({l.lines.length})</summary>
         <ScrollRegion label="Cost lines" className="mt-2">
@@ -196,6 +248,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
                   <td>
                     {line.label}
                     {line.review === "one-off" ? <span className="badge badge-muted ml-1.5">review</span> : null}
+                    {line.personnel?.span && line.basis === "salary" ? <span className="block text-xs text-ink-soft">effort over {line.personnel.span}</span> : null}
                   </td>
                   <td>{line.category}</td>
                   <td className="num">{formatMoney(line.total)}</td>

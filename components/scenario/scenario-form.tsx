@@ -25,9 +25,22 @@ const SIDES = [
   ["2", "Two-sided"],
   ["1", "One-sided"],
 ] as const;
+/** Each span says the months it covers (lib/costing/effort-span.ts); the ledger's personnel line shows them as study months. */
 const EFFORT_RUNS = [
-  ["study", "the whole study"],
-  ["enrolment", "recruitment and visits"],
+  ["study", "the whole study: every month from the start to the end"],
+  ["sites", "site life: first site's start-up to last site's close-out"],
+  ["enrolment", "recruitment and visits only: first activation to last visit"],
+  ["months", "given months: the from and to months below"],
+] as const;
+const CLASS_OPTIONS = [
+  ["research", "research cost"],
+  ["patient-care", "patient care"],
+  ["routine-care", "routine care billed to insurance"],
+] as const;
+const SITE_ARRANGEMENT_OPTIONS = [
+  ["internal", "internal: the institution's own clinic"],
+  ["subaward", "subaward: a subrecipient with its own indirects"],
+  ["contract", "contract: a vendor paid per participant and visit"],
 ] as const;
 const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
 
@@ -56,8 +69,10 @@ function toFormValues(i: ScenarioInputs) {
     design: { ...strings(i.design), effectInput: effectInputOf(i.design) },
     recruitment: strings(i.recruitment),
     visits: i.visits.map(visitFormValues),
-    personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", ") })),
+    personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", "), months: p.months ? { from: String(p.months.from), to: String(p.months.to) } : undefined })),
     other: i.other.map((o) => ({ ...strings(o), escalate: o.escalate ? "on" : "" })),
+    procedureClasses: i.procedureClasses ?? [],
+    sites: (i.sites ?? []).map((t) => ({ arrangement: t.arrangement, indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate), foreign: t.foreign ? "on" : "" })),
     uncertainty: {
       rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
       effectPrior: {
@@ -356,6 +371,8 @@ export function ScenarioForm({
   const visits = i.visits.getFieldList();
   const personnel = i.personnel.getFieldList();
   const other = i.other.getFieldList();
+  const siteRows = i.sites.getFieldList();
+  const classRows = i.procedureClasses.getFieldList();
   const means = isMeansDesign(design);
   const proportions = isProportionsDesign(design);
   const cluster = isClusterDesign(design);
@@ -504,7 +521,19 @@ export function ScenarioForm({
             <Text meta={r.screenFailure} label="Screen failure" hint="Share of those screened not enrolled: 0.35 or 35%" />
             <Text meta={r.dropoutVisitShare} label="Visits a dropout attends" hint="Share of the schedule: 0.5 or 50%" />
           </div>
-          {cluster ? <p className="text-sm text-ink-soft">In a cluster design each cluster is a site; the number of sites follows from the clusters needed.</p> : null}
+          {cluster ? (
+            <>
+              <div className="grid gap-4 sm:grid-cols-3">
+                <Text meta={r.clustersPerSite} label="Clusters per site" hint="Like 4 classrooms a school; 1 when each cluster is its own site" />
+                <Text meta={r.clusterSetupCost} label="Set-up per cluster" hint="Optional, dollars" />
+                <Text meta={r.clusterAnnualFee} label="Fee per cluster per year" hint="Optional, dollars" />
+              </div>
+              <p className="text-sm text-ink-soft">
+                Clusters are the randomised units inside sites: the sites needed hold the clusters the power calculation asks for, each cluster recruits to its planned size at the rate
+                above (per cluster per month), and per-cluster costs are apart from per-site costs.
+              </p>
+            </>
+          ) : null}
           {design === "time-to-event" ? <p className="text-sm text-ink-soft">The months this plan takes to enrol are the accrual the power calculation uses.</p> : null}
         </Section>
         <UncertaintySection fields={i.uncertainty} design={design} />
@@ -557,6 +586,32 @@ export function ScenarioForm({
           </button>
         </Section>
 
+        <Section title="Procedure classes" id="sec-procedure-classes">
+          <p className="text-sm text-ink-soft">
+            The grants office classes each rate-book procedure as a research cost, patient care (out of the MTDC base) or routine care billed to insurance (outside the budget). Class a
+            procedure differently for this study only with a reason: the grants office reads it.
+          </p>
+          {classRows.map((row, idx) => {
+            const f = row.getFieldset();
+            return (
+              <div key={row.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+                <Choice meta={f.code} label={`Procedure ${idx + 1}`} options={procedureCatalogue.map((p) => [p.code, `${p.code}: ${p.name}`] as const)} />
+                <Choice meta={f.class} label={`Class for this study ${idx + 1}`} options={CLASS_OPTIONS} />
+                <Text meta={f.reason} label={`Reason for the class ${idx + 1}`} wide />
+                <button {...form.remove.getButtonProps({ name: i.procedureClasses.name, index: idx })} className="btn btn-danger justify-self-start py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button
+            {...form.insert.getButtonProps({ name: i.procedureClasses.name, defaultValue: { code: procedureCatalogue[0]?.code ?? "", class: "research", reason: "" } })}
+            className="btn btn-quiet self-start"
+          >
+            Class a procedure differently
+          </button>
+        </Section>
+
         <Section title="Costs: personnel" id="sec-personnel">
           {personnel.map((p, idx) => {
             const f = p.getFieldset();
@@ -567,6 +622,8 @@ export function ScenarioForm({
                 <Text meta={f.baseSalary} label="Base salary" />
                 <Text meta={f.effortPercent} label="Effort % by budget period" hint="20, or 20, 15, 10 (the last repeats)" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />
+                <Text meta={f.months.getFieldset().from} label="Effort from month" hint="given months only; 1 = the study's first month" />
+                <Text meta={f.months.getFieldset().to} label="Effort to month" hint="given months only" />
                 <button {...form.remove.getButtonProps({ name: i.personnel.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
@@ -578,6 +635,31 @@ export function ScenarioForm({
             className="btn btn-quiet self-start"
           >
             Add a person
+          </button>
+        </Section>
+
+        <Section title="Sites: how each is paid" id="sec-site-arrangements">
+          <p className="text-sm text-ink-soft">
+            One row per site, in the order the sites open; sites without a row take the study&apos;s default (internal). A subaward is one consortium line with its own indirect rate (15% when
+            none is given); only its first $50,000 over the award counts in MTDC.
+          </p>
+          {siteRows.map((t, idx) => {
+            const f = t.getFieldset();
+            return (
+              <div key={t.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+                <Choice meta={f.arrangement} label={`Site ${idx + 1} arrangement`} options={SITE_ARRANGEMENT_OPTIONS} />
+                <Text meta={f.indirectRate} label={`Site ${idx + 1} subaward indirect rate`} hint="subawards only, like 15%" />
+                <label className="flex items-center gap-1.5 pb-2 text-sm">
+                  <input {...getInputProps(snapshotField(f.foreign), { type: "checkbox" })} key={f.foreign.key} /> foreign (indirects at most 8%)
+                </label>
+                <button {...form.remove.getButtonProps({ name: i.sites.name, index: idx })} className="btn btn-danger justify-self-start py-1">
+                  Remove
+                </button>
+              </div>
+            );
+          })}
+          <button {...form.insert.getButtonProps({ name: i.sites.name, defaultValue: { arrangement: "subaward", indirectRate: "", foreign: "" } })} className="btn btn-quiet self-start">
+            Add a site&apos;s arrangement
           </button>
         </Section>
 

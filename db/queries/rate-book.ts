@@ -4,7 +4,7 @@ import { getDb } from "@/db";
 import type { Database } from "@/db/types";
 import { enforce, HttpError, notFound } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
-import type { RateBook } from "@/lib/costing";
+import { PROCEDURE_CLASSES, type ProcedureClass, type RateBook } from "@/lib/costing";
 import { SETTING_BY_KEY, SETTING_FIELDS, type SettingKey } from "@/lib/rate-book/fields";
 import { costingDate, editionInForce, isoDay, publishOutcome, standingOf, type PublishOutcome, type Standing } from "@/lib/rate-book/in-force";
 import type { EditionPatch } from "@/lib/rate-book/patch";
@@ -23,7 +23,7 @@ export type EditionSummary = {
 };
 export type EditionListItem = EditionSummary & { standing: Standing };
 export type FringeRow = { id: number; category: string; rate: string; version: number };
-export type ProcedureRow = { id: number; code: string; name: string; unitCost: string; category: string; version: number };
+export type ProcedureRow = { id: number; code: string; name: string; unitCost: string; category: string; class: string; version: number };
 export type EditionDetail = EditionSummary & { settings: Record<SettingKey, string | null>; fringe: FringeRow[]; procedures: ProcedureRow[] };
 
 const conflict = (message: string, fields?: Record<string, string[]>, current?: unknown) =>
@@ -81,7 +81,7 @@ async function loadEdition(db: Kysely<Database> | Transaction<Database>, id: num
   if (!r) return null;
   const [fringe, procedures] = await Promise.all([
     db.selectFrom("rate_book_fringe").select(["id", "category", "rate", "version"]).where("edition_id", "=", id).orderBy("category").execute(),
-    db.selectFrom("rate_book_procedures").select(["id", "code", "name", "unit_cost as unitCost", "category", "version"]).where("edition_id", "=", id).orderBy("code").execute(),
+    db.selectFrom("rate_book_procedures").select(["id", "code", "name", "unit_cost as unitCost", "category", "class", "version"]).where("edition_id", "=", id).orderBy("code").execute(),
   ]);
   return { ...toSummary(r), settings: settingsOf(r), fringe, procedures };
 }
@@ -115,7 +115,7 @@ export function editionToRateBook(e: EditionDetail): RateBook {
       closeoutFee: s.siteCloseoutFee!,
     },
     participant: { incentivePerVisit: s.incentivePerVisit!, screeningCost: s.screeningCost!, screenFailurePayment: s.screenFailurePayment! },
-    procedures: e.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost, category: p.category })),
+    procedures: e.procedures.map((p) => ({ code: p.code, name: p.name, unitCost: p.unitCost, category: p.category, class: asProcedureClass(p.class) })),
   };
 }
 
@@ -192,7 +192,7 @@ export async function createDraft(actor: Actor, input: { label: string; effectiv
     if (source.procedures.length) {
       await trx
         .insertInto("rate_book_procedures")
-        .values(source.procedures.map((p) => ({ edition_id: id, code: p.code, name: p.name, unit_cost: p.unitCost, category: p.category })))
+        .values(source.procedures.map((p) => ({ edition_id: id, code: p.code, name: p.name, unit_cost: p.unitCost, category: p.category, class: p.class })))
         .execute();
     }
     await writeAudit(trx, [{ userId: actor.id, action: "create", entity: "rate-book-edition", entityId: id, field: "based_on", newValue: String(source.id) }]);
@@ -293,8 +293,8 @@ export async function applyEditionPatch(actor: Actor, id: number, patch: Edition
             audit.push({ userId: actor.id, action: "remove", entity, entityId: id, field: `procedure:${row.code}`, oldValue: row.unitCost, newValue: null });
             continue;
           }
-          const next = { name: p.name ?? row.name, unit_cost: p.unitCost ?? row.unitCost, category: p.category ?? row.category };
-          const changed = (["name", "unit_cost", "category"] as const).filter((k) => next[k] !== (k === "unit_cost" ? row.unitCost : row[k]));
+          const next = { name: p.name ?? row.name, unit_cost: p.unitCost ?? row.unitCost, category: p.category ?? row.category, class: p.class ?? row.class };
+          const changed = (["name", "unit_cost", "category", "class"] as const).filter((k) => next[k] !== (k === "unit_cost" ? row.unitCost : row[k]));
           if (changed.length) {
             await trx.updateTable("rate_book_procedures").set({ ...next, version: row.version + 1 }).where("id", "=", row.id).execute();
             for (const k of changed) {
@@ -312,7 +312,7 @@ export async function applyEditionPatch(actor: Actor, id: number, patch: Edition
             }
             continue;
           }
-          await trx.insertInto("rate_book_procedures").values({ edition_id: id, code: p.code, name: p.name, unit_cost: p.unitCost, category: p.category }).execute();
+          await trx.insertInto("rate_book_procedures").values({ edition_id: id, code: p.code, name: p.name, unit_cost: p.unitCost, category: p.category, class: p.class ?? "research" }).execute();
           audit.push({ userId: actor.id, action: action === "import" ? "import" : "add", entity, entityId: id, field: `procedure:${p.code}`, oldValue: null, newValue: p.unitCost });
         }
       }
@@ -438,4 +438,9 @@ export async function listRateBookAudit(actor: Actor, limit = 500): Promise<Audi
     .orderBy("a.id", "desc")
     .limit(limit)
     .execute();
+}
+
+/** A stored class as the engine's type (anything unknown prices as a research cost, as before classes existed). */
+function asProcedureClass(v: string): ProcedureClass {
+  return (PROCEDURE_CLASSES as readonly string[]).includes(v) ? (v as ProcedureClass) : "research";
 }

@@ -12,13 +12,19 @@ import { faByPeriod } from "./fa";
 import { capChecks, type CapChecks } from "./caps";
 import { faTerms, type FaTerms } from "./fa-cap";
 import { CostingError } from "./errors";
-import { escalationOf, LineList, priceLines, type LineSpec } from "./pricing";
+import { escalationOf, LineList, priceLines, priceSiteBudget, type LineSpec } from "./pricing";
 import type { LedgerLine, LineGroup } from "./lines";
 import type { FamilyContext } from "./families/context";
 import { participantLines } from "./families/participants";
 import { siteLines } from "./families/sites";
 import { personnelLines } from "./families/personnel";
 import { otherCostLines } from "./families/other-costs";
+import { siteBudgetLine } from "./families/subawards";
+import { clusterLines } from "./families/clusters";
+import { siteTerms } from "./site-arrangements";
+import { enrolledBySite, splitByMonth } from "./site-enrolment";
+import { allocate } from "./timeline";
+import { sitesForClusters } from "./clusters";
 import type { CostInputs, RateBook } from "./types";
 
 export { CostingError } from "./errors";
@@ -29,9 +35,13 @@ export type { FaTerms } from "./fa-cap";
 export type Ledger = {
   periods: Period[];
   lines: LedgerLine[];
-  /** consortiumFa: the subaward sites' own indirect costs (missing = zeros); the sponsor's size tests subtract it. */
-  byPeriod: { direct: string[]; base: string[]; fa: string[]; total: string[]; consortiumFa?: string[] };
-  totals: { direct: string; base: string; fa: string; total: string; consortiumFa?: string };
+  /** consortiumFa: the subawards' own indirects inside direct costs (zeros when none), which some sponsor limits subtract (NOT-OD-05-004). */
+  byPeriod: { direct: string[]; base: string[]; fa: string[]; total: string[]; consortiumFa: string[] };
+  totals: { direct: string; base: string; fa: string; total: string; consortiumFa: string };
+  /** Procedures the scenario classes differently from the rate book, with its reasons (wherever their lines sit, subaward budgets too). */
+  classOverrides: { label: string; from: string; to: string; reason: string }[];
+  /** Routine care billed to the participants' insurance: priced for the coverage decision, outside the budget and its totals. */
+  routineCare: { lines: LedgerLine[]; total: string };
   /** The rate applied to the base: the agreement's rate for the study's location, limited by the sponsor (fa-cap.ts). */
   faRate: string;
   /** Absent in ledgers computed before the study chose a location and the sponsor's F&A rule existed. */
@@ -39,7 +49,8 @@ export type Ledger = {
   faBase: "mtdc" | "tdc";
   mtdcSubawardThreshold: string;
   timeline: Pick<TimelineResult, "activationMonths" | "monthsToEnrol" | "firstEnrolmentMonth" | "lastEnrolmentMonth" | "lastVisitMonth" | "studyMonths">;
-  counts: { evaluable: number; enrolled: number; screened: number; screenFailures: number; dropouts: number; sites: number; visitsAttended: number };
+  /** sites: the sites that enrol; sitesPlanned: those asked for (more when some would open after enrolment has finished). */
+  counts: { evaluable: number; enrolled: number; screened: number; screenFailures: number; dropouts: number; sites: number; sitesPlanned: number; clusters: number; visitsAttended: number };
   unit: { perEnrolled: string; perEvaluable: string; perSite: string; fixedShare: string; perParticipantShare: string };
   caps: CapChecks;
 };
@@ -49,6 +60,8 @@ const PER_PARTICIPANT_GROUPS: ReadonlySet<LineGroup> = new Set(["participants"])
 export type CostStructure = {
   tl: TimelineResult;
   specs: LineSpec[];
+  routine: LineSpec[];
+  classOverrides: Ledger["classOverrides"];
   counts: Ledger["counts"];
   sites: number;
   fa: FaTerms;
@@ -56,6 +69,7 @@ export type CostStructure = {
 
 /** Everything but the prices: the timeline, and each line's quantities, salaries and amounts by period. */
 export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStructure {
+  if (inputs.timeline.clusters) inputs = { ...inputs, timeline: { ...inputs.timeline, sites: sitesForClusters(inputs.timeline.clusters) } };
   const enrolled = inputs.arms.reduce((a, b) => a + b.enrolled, 0);
   const evaluable = inputs.arms.reduce((a, b) => a + b.evaluable, 0);
   const screened = inputs.arms.reduce((a, b) => a + b.screened, 0);
@@ -63,20 +77,58 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
   const visits = [...inputs.visits].sort((a, b) => a.month - b.month);
   const lastVisitOffset = visits.length ? visits[visits.length - 1]!.month : 0;
   const tl = computeTimeline(inputs.timeline, enrolled, lastVisitOffset, inputs.startDate);
-  const lines = new LineList(tl.periods.length, escalationOf(inputs, rates));
-  const context: FamilyContext = { inputs, rates, tl, lines, funnel: { enrolled, evaluable, screened }, visits };
+  const esc = escalationOf(inputs, rates);
+  const lines = new LineList(tl.periods.length, esc);
+  const routine = new LineList(tl.periods.length, esc);
+  const context: FamilyContext = { inputs, rates, tl, lines, routine, funnel: { enrolled, evaluable, screened }, visits };
 
-  const attendance = participantLines(context);
-  siteLines(context);
+  // The institution's own sites share its lines; each subaward or contract site has its own budget line.
+  const sites = tl.activationMonths.length;
+  const terms = siteTerms(inputs, sites);
+  const attendance = lines.zeros();
+  const failures = allocate(screened - enrolled, tl.enrolledByMonth);
+  const completers = allocate(evaluable, tl.enrolledByMonth);
+  const apart = terms.filter((t) => t.arrangement !== "internal");
+  if (!apart.length) {
+    participantLines(context, lines, { enrolled: tl.enrolledByMonth, failures, completers }).forEach((v, p) => (attendance[p]! += v));
+    siteLines(context, lines, tl.activationMonths);
+  } else {
+    const bySite = enrolledBySite(tl);
+    const internal = terms.filter((t) => t.arrangement === "internal");
+    const groups = [internal.map((t) => t.index), ...apart.map((t) => [t.index])];
+    const cohorts = groups.map((g) => tl.enrolledByMonth.map((_, m) => g.reduce((a, s) => a + bySite[s]![m]!, 0)));
+    const failuresBy = splitByMonth(failures, cohorts);
+    const completersBy = splitByMonth(completers, cohorts);
+    const add = (v: number[]) => v.forEach((x, p) => (attendance[p]! += x));
+    if (internal.length) {
+      add(participantLines(context, lines, { enrolled: cohorts[0]!, failures: failuresBy[0]!, completers: completersBy[0]! }));
+      siteLines(context, lines, internal.map((t) => tl.activationMonths[t.index]!));
+    }
+    apart.forEach((t, k) => add(siteBudgetLine(context, t, tl.activationMonths[t.index]!, { enrolled: cohorts[k + 1]!, failures: failuresBy[k + 1]!, completers: completersBy[k + 1]! }, esc)));
+  }
+  clusterLines(context);
   personnelLines(context);
   otherCostLines(context);
 
   return {
     tl,
     specs: lines.specs,
-    sites: inputs.timeline.sites,
+    routine: mergeRoutine(routine.specs),
+    classOverrides: overridesOf([...lines.specs, ...routine.specs]),
+    sites,
     fa: faTerms(inputs, rates),
-    counts: { evaluable, enrolled, screened, screenFailures: screened - enrolled, dropouts: enrolled - evaluable, sites: inputs.timeline.sites, visitsAttended: attendance.reduce((a, b) => a + b, 0) },
+    counts: {
+      evaluable,
+      enrolled,
+      screened,
+      screenFailures: screened - enrolled,
+      dropouts: enrolled - evaluable,
+      sites,
+      sitesPlanned: tl.sitesPlanned,
+      clusters: inputs.timeline.clusters?.count ?? 0,
+      // Expected visits: fractional where dropouts attend part of a visit in expectation; shown to 2 decimals.
+      visitsAttended: Number(attendance.reduce((a, b) => a + b, 0).toFixed(2)),
+    },
   };
 }
 
@@ -115,13 +167,31 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
   );
   // Money in the structure is as typed; the ledger shows it in cents.
   const fixed = (v: string) => new D(v).toFixed(2);
-  const lines: LedgerLine[] = specs.map(({ pricing: _pricing, ...spec }, i) => ({
+  const consortiumFa = Array.from({ length: P }, () => new D(0));
+  const lines: LedgerLine[] = specs.map(({ pricing, ...spec }, i) => {
+    let own: string[] | undefined;
+    if (pricing.kind === "site-budget" && spec.category === "subaward") {
+      const fa = priceSiteBudget(pricing, P, exact).fa;
+      fa.forEach((x, p) => (consortiumFa[p] = consortiumFa[p]!.plus(x)));
+      own = fa.map(toCents);
+    }
+    return {
+      ...spec,
+      ...(spec.unitCost !== undefined ? { unitCost: fixed(spec.unitCost) } : {}),
+      ...(spec.personnel ? { personnel: { ...spec.personnel, baseSalary: fixed(spec.personnel.baseSalary), salaryCap: spec.personnel.salaryCap === null ? null : fixed(spec.personnel.salaryCap) } } : {}),
+      ...(own ? { consortiumFa: own } : {}),
+      amounts: amounts[i]!.map(toCents),
+      total: toCents(sum(amounts[i]!)),
+      inBase: inBase[i]!.map(toCents),
+    };
+  });
+  const routineAmounts = priceLines(structure.routine, P, exact);
+  const routineLines: LedgerLine[] = structure.routine.map(({ pricing: _p, ...spec }, i) => ({
     ...spec,
     ...(spec.unitCost !== undefined ? { unitCost: fixed(spec.unitCost) } : {}),
-    ...(spec.personnel ? { personnel: { ...spec.personnel, baseSalary: fixed(spec.personnel.baseSalary), salaryCap: spec.personnel.salaryCap === null ? null : fixed(spec.personnel.salaryCap) } } : {}),
-    amounts: amounts[i]!.map(toCents),
-    total: toCents(sum(amounts[i]!)),
-    inBase: inBase[i]!.map(toCents),
+    amounts: routineAmounts[i]!.map(toCents),
+    total: toCents(sum(routineAmounts[i]!)),
+    inBase: routineAmounts[i]!.map(() => "0.00"),
   }));
   const total = direct.map((d, p) => d.plus(fa[p]!));
   const grand = sum(total);
@@ -134,8 +204,10 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
   const ledger: Omit<Ledger, "caps"> = {
     periods: tl.periods,
     lines,
-    byPeriod: { direct: direct.map(toCents), base: base.map(toCents), fa: fa.map(toCents), total: total.map(toCents) },
-    totals: { direct: toCents(directTotal), base: toCents(sum(base)), fa: toCents(sum(fa)), total: toCents(grand) },
+    byPeriod: { direct: direct.map(toCents), base: base.map(toCents), fa: fa.map(toCents), total: total.map(toCents), consortiumFa: consortiumFa.map(toCents) },
+    totals: { direct: toCents(directTotal), base: toCents(sum(base)), fa: toCents(sum(fa)), total: toCents(grand), consortiumFa: toCents(sum(consortiumFa)) },
+    classOverrides: structure.classOverrides,
+    routineCare: { lines: routineLines, total: toCents(sum(routineLines.map((l) => new D(l.total)))) },
     faRate: structure.fa.rate,
     faTerms: structure.fa,
     faBase: rates.faBase,
@@ -159,4 +231,35 @@ export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs
   };
   // The sponsor's size tests count direct costs less the subawards' own indirects (byPeriod.consortiumFa; zeros when absent).
   return { ...ledger, caps: capChecks(inputs.caps, { direct, grand, consortiumFa: ledger.byPeriod.consortiumFa, studyMonths: tl.studyMonths }) };
+}
+
+/** Routine care from every group of sites (the institution's, each subaward's) as one line per procedure and unit cost. */
+function mergeRoutine(specs: LineSpec[]): LineSpec[] {
+  const byLabel = new Map<string, LineSpec>();
+  for (const spec of specs) {
+    if (spec.pricing.kind !== "quantity") continue;
+    const id = `${spec.label}@${spec.pricing.unit}`;
+    const hit = byLabel.get(id);
+    if (!hit) {
+      const quantities = [...spec.pricing.quantities];
+      byLabel.set(id, { ...spec, key: spec.key.replace(/^site-\d+:/, ""), quantities, pricing: { ...spec.pricing, quantities } });
+      continue;
+    }
+    const q = hit.quantities!;
+    spec.pricing.quantities.forEach((n, p) => (q[p] = q[p]! + n));
+  }
+  return [...byLabel.values()];
+}
+
+/** Each overridden procedure once, from the prime's lines and every site budget's own lines. */
+function overridesOf(specs: LineSpec[]): Ledger["classOverrides"] {
+  const out = new Map<string, Ledger["classOverrides"][number]>();
+  const visit = (list: LineSpec[]) => {
+    for (const spec of list) {
+      if (spec.classOverride && !out.has(spec.label)) out.set(spec.label, { label: spec.label, ...spec.classOverride });
+      if (spec.pricing.kind === "site-budget") visit(spec.pricing.parts);
+    }
+  };
+  visit(specs);
+  return [...out.values()];
 }

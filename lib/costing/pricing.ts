@@ -8,6 +8,7 @@
  * fringe line's is ROUND(salary amount × rate, 2).
  */
 import type { Arith } from "./arith";
+import { MTDC_EXCLUDED } from "./types";
 import type { LedgerLine, LineGroup } from "./lines";
 import type { CostCategory, CostInputs, RateBook } from "./types";
 
@@ -17,7 +18,10 @@ export type Pricing =
   | { kind: "salary"; base: string; cap: string | null; effort: number[]; months: number[]; escalation: string }
   | { kind: "fringe"; of: number; rate: string }
   | { kind: "amounts"; amounts: string[] }
-  | { kind: "per-period"; amount: string; escalation: string | null };
+  /** Prorated by `months` (the months of each period the study runs) ÷ 12 where it runs only part of a period. */
+  | { kind: "per-period"; amount: string; escalation: string | null; months?: number[] }
+  /** A site paid as a whole (a subaward, a contract): its own lines, plus its own indirects at `rate` on the part of them in its base. */
+  | { kind: "site-budget"; parts: LineSpec[]; rate: string };
 
 export type LineSpec = Omit<LedgerLine, "amounts" | "total" | "inBase"> & { pricing: Pricing };
 
@@ -73,6 +77,8 @@ export class LineList {
 /** Each line's amount per period, rounded to cents, in the given arithmetic. */
 export function priceLines<T>(specs: LineSpec[], P: number, A: Arith<T>): T[][] {
   const out: T[][] = [];
+  const siteBudgets = new Map<LineSpec, SiteBudget<T>>();
+  for (const spec of specs) if (spec.pricing.kind === "site-budget") siteBudgets.set(spec, priceSiteBudget(spec.pricing, P, A));
   specs.forEach((spec) => {
     const pr = spec.pricing;
     const amounts: T[] = [];
@@ -93,12 +99,43 @@ export function priceLines<T>(specs: LineSpec[], P: number, A: Arith<T>): T[][] 
         case "amounts":
           amounts.push(A.round(A.of(pr.amounts[p] ?? "0")));
           break;
-        case "per-period":
-          amounts.push(A.round(pr.escalation === null ? A.of(pr.amount) : A.mul(A.of(pr.amount), A.growth(pr.escalation, p))));
+        case "per-period": {
+          const full = pr.escalation === null ? A.of(pr.amount) : A.mul(A.of(pr.amount), A.growth(pr.escalation, p));
+          const months = pr.months?.[p] ?? 12;
+          amounts.push(A.round(months === 12 ? full : A.div(A.mul(full, months), 12)));
+          break;
+        }
+        case "site-budget":
+          amounts.push(A.add(siteBudgets.get(spec)!.direct[p]!, siteBudgets.get(spec)!.fa[p]!));
           break;
       }
     }
     out.push(amounts);
   });
   return out;
+}
+
+export type SiteBudget<T> = { direct: T[]; base: T[]; fa: T[] };
+
+/**
+ * A site budget by period: its direct costs (the sum of its own rounded lines), its own base (those
+ * lines less what MTDC excludes, e.g. patient care) and its indirects, ROUND(base × rate, 2).
+ */
+export function priceSiteBudget<T>(pr: Extract<Pricing, { kind: "site-budget" }>, P: number, A: Arith<T>): SiteBudget<T> {
+  const parts = priceLines(pr.parts, P, A);
+  const direct: T[] = [];
+  const base: T[] = [];
+  const fa: T[] = [];
+  for (let p = 0; p < P; p++) {
+    let d = A.zero;
+    let b = A.zero;
+    pr.parts.forEach((part, i) => {
+      d = A.add(d, parts[i]![p]!);
+      if (!MTDC_EXCLUDED.has(part.category)) b = A.add(b, parts[i]![p]!);
+    });
+    direct.push(d);
+    base.push(b);
+    fa.push(A.round(A.mul(b, A.of(pr.rate))));
+  }
+  return { direct, base, fa };
 }

@@ -4,6 +4,7 @@
  * from the study's start (month 0); budget periods are 12-month blocks from the start date.
  */
 import type { Timeline } from "./types";
+import { clusterEnrolment, sitesForClusters } from "./clusters";
 
 export class TimelineError extends Error {
   readonly code = "timeline";
@@ -15,7 +16,12 @@ export const MAX_STUDY_MONTHS = 1200;
 export type Period = { index: number; startMonth: number; endMonth: number; months: number; startDate: string; endDate: string };
 
 export type TimelineResult = {
+  /** Activation month of each site that enrols (sites planned to open after enrolment has finished are left out). */
   activationMonths: number[];
+  /** Sites asked for; more than activationMonths.length when some would open after enrolment has finished. */
+  sitesPlanned: number;
+  /** Cluster designs: enrolled per site per month (site × month) and each cluster's planned size. */
+  clusterEnrolment?: { bySite: number[][]; sizes: number[] };
   enrolledByMonth: number[];
   firstEnrolmentMonth: number;
   lastEnrolmentMonth: number;
@@ -92,6 +98,7 @@ export function periodOfMonth(month: number): number {
 export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOffset: number, startDate: string): TimelineResult {
   if (t.sites < 1) throw new TimelineError("At least one site is needed.");
   if (!(t.ratePerSiteMonth > 0)) throw new TimelineError("The enrolment rate per site per month must be above 0.");
+  if (t.clusters) return clusterTimeline(t as Timeline & { clusters: NonNullable<Timeline["clusters"]> }, enrolledTotal, lastVisitOffset, startDate);
   const activationMonths = Array.from({ length: t.sites }, (_, i) => t.startupMonths + i * t.staggerMonths);
   const enrolledByMonth: number[] = [];
   let cum = 0;
@@ -110,6 +117,38 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
     given = target;
     month++;
   }
+  // A site that would open after the last participant is enrolled never enrols: plan only the sites that do
+  // (its start-up, fees and close-out would otherwise buy nothing). With nobody to enrol, the first site stays.
+  const enrolling = activationMonths.filter((a, i) => i === 0 || a < enrolledByMonth.length);
+  const firstEnrolmentMonth = enrolledTotal > 0 ? enrolledByMonth.findIndex((n) => n > 0) : activationMonths[0]!;
+  const lastEnrolmentMonth = Math.max(firstEnrolmentMonth, enrolledByMonth.length - 1);
+  const lastVisitMonth = lastEnrolmentMonth + lastVisitOffset;
+  const closeoutStartMonth = lastVisitMonth + 1;
+  const studyMonths = closeoutStartMonth + t.closeoutMonths;
+  if (studyMonths > MAX_STUDY_MONTHS) throw new TimelineError(`The study would run more than ${MAX_STUDY_MONTHS} months.`);
+  return {
+    activationMonths: enrolling,
+    sitesPlanned: t.sites,
+    enrolledByMonth,
+    firstEnrolmentMonth,
+    lastEnrolmentMonth,
+    monthsToEnrol: enrolledTotal > 0 ? lastEnrolmentMonth - activationMonths[0]! + 1 : 0,
+    lastVisitMonth,
+    closeoutStartMonth,
+    studyMonths,
+    periods: budgetPeriods(startDate, studyMonths),
+  };
+}
+
+/** A cluster design's timeline: every site holds its clusters, and every cluster fills to its planned size (clusters.ts). */
+function clusterTimeline(t: Timeline & { clusters: NonNullable<Timeline["clusters"]> }, enrolledTotal: number, lastVisitOffset: number, startDate: string): TimelineResult {
+  const sites = sitesForClusters(t.clusters);
+  const activationMonths = Array.from({ length: sites }, (_, i) => t.startupMonths + i * t.staggerMonths);
+  if (enrolledTotal / Math.max(1, t.clusters.count) / t.ratePerSiteMonth > MAX_STUDY_MONTHS) {
+    throw new TimelineError(`Filling each cluster would take more than ${MAX_STUDY_MONTHS} months at this rate; raise the rate.`);
+  }
+  const e = clusterEnrolment(activationMonths, t.clusters, enrolledTotal, t.ratePerSiteMonth);
+  const enrolledByMonth = e.enrolledByMonth;
   const firstEnrolmentMonth = enrolledTotal > 0 ? enrolledByMonth.findIndex((n) => n > 0) : activationMonths[0]!;
   const lastEnrolmentMonth = Math.max(firstEnrolmentMonth, enrolledByMonth.length - 1);
   const lastVisitMonth = lastEnrolmentMonth + lastVisitOffset;
@@ -118,6 +157,8 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   if (studyMonths > MAX_STUDY_MONTHS) throw new TimelineError(`The study would run more than ${MAX_STUDY_MONTHS} months.`);
   return {
     activationMonths,
+    sitesPlanned: sites,
+    clusterEnrolment: { bySite: e.bySite, sizes: e.sizes },
     enrolledByMonth,
     firstEnrolmentMonth,
     lastEnrolmentMonth,

@@ -49,8 +49,34 @@ export type RateBook = {
   fringe: { category: string; rate: string }[];
   site: { startupFee: string; annualFee: string; monitoringVisitsPerYear: number; monitoringVisitCost: string; closeoutFee: string };
   participant: { incentivePerVisit: string; screeningCost: string; screenFailurePayment: string };
-  procedures: { code: string; name: string; unitCost: string; category: string }[];
+  procedures: { code: string; name: string; unitCost: string; category: string; class?: ProcedureClass }[];
 };
+
+/**
+ * How the grants office classes a procedure: a research cost (in MTDC), patient care (hospital
+ * charges the rate agreement excludes from MTDC), or routine care billed to the participant's
+ * insurance (outside the grant budget, listed separately). Absent = research.
+ */
+export const PROCEDURE_CLASSES = ["research", "patient-care", "routine-care"] as const;
+export type ProcedureClass = (typeof PROCEDURE_CLASSES)[number];
+
+/** How a site is paid (DESIGN.md, "Site arrangement"); 2 CFR 200.331 sets subrecipient against contractor. */
+export const SITE_ARRANGEMENTS = ["internal", "subaward", "contract"] as const;
+export type SiteArrangement = (typeof SITE_ARRANGEMENTS)[number];
+
+/** One site's terms, in the order the sites activate. */
+export type SiteTerms = {
+  arrangement?: SiteArrangement;
+  /** A subaward's own indirect rate on its own base (its negotiated rate; 0.15 de minimis when none, 2 CFR 200.414(f)). */
+  indirectRate?: string;
+  /** A foreign subrecipient: its indirects are limited to `foreignFaLimit` of its own base where the sponsor says so. */
+  foreign?: boolean;
+};
+
+/** A subrecipient with no negotiated rate may use the de minimis rate: 15% of its MTDC since the 2024 revision (2 CFR 200.414(f)). */
+export const DE_MINIMIS_RATE = "0.15";
+/** NIH Grants Policy Statement 16.6: F&A to foreign (sub)recipients is limited to 8% of their own base. */
+export const FOREIGN_FA_LIMIT = "0.08";
 
 /** How a one-off procedure's line is marked wherever it is shown: the ledger, the page, the workbook. */
 export const ONE_OFF_MARK = "(one-off, for the grants office's review)";
@@ -74,6 +100,11 @@ export type Timeline = {
   ratePerSiteMonth: number;
   /** Months of close-out after the last visit. */
   closeoutMonths: number;
+  /**
+   * Cluster designs: the randomised clusters and how many a site holds (clusters.ts); `sites` is then
+   * ⌈count / perSite⌉ and the enrolment rate is per cluster per month.
+   */
+  clusters?: { count: number; perSite: number };
 };
 
 export type PersonnelLine = {
@@ -82,11 +113,19 @@ export type PersonnelLine = {
   baseSalary: string;
   /** Percent effort as a fraction (0.2 = 20%), one per budget period; the last value repeats. */
   effort: number[];
-  /** "study": the effort applies in every month of the study; "enrolment": only in months with recruitment or visits (coordinators). */
-  follows?: "study" | "enrolment";
+  /**
+   * The months the effort covers (effort-span.ts): "study", every month of the study; "sites", from the
+   * first site's start-up to the last site's close-out; "enrolment", only months with recruitment or
+   * visits; "months", the given study months (1-based, inclusive).
+   */
+  follows?: EffortSpan;
+  months?: { from: number; to: number };
   /** Person's salary is above the cap? The cap applies to every line unless this is false. */
   capped?: boolean;
 };
+
+export const EFFORT_SPANS = ["study", "sites", "enrolment", "months"] as const;
+export type EffortSpan = (typeof EFFORT_SPANS)[number];
 
 export type OtherCost = {
   label: string;
@@ -117,19 +156,25 @@ export type CostInputs = {
   screeningCost?: string;
   screenFailurePayment?: string;
   site?: Partial<RateBook["site"]>;
+  /** Per-cluster costs, apart from the per-site ones: a cluster's set-up, and a fee per cluster per year. */
+  cluster?: { setupCost?: string; annualFee?: string };
   personnel: PersonnelLine[];
   other: OtherCost[];
   /** Overrides of the rate book's escalation: salaries (and fringe), other costs, or one category. */
   escalation?: { salaries?: string; costs?: string; byCategory?: Partial<Record<CostCategory, string>> };
   caps?: SponsorRules;
-  /** The study's default site arrangement (undefined = internal): the costing of subaward and contract sites reads it. */
+  /** The study's default site arrangement (undefined = internal); `sites` may set it per site. */
   siteArrangement?: SiteArrangement;
+  /** Per-site terms in activation order; a site without an entry takes the study's default. */
+  sites?: SiteTerms[];
+  /** The limit on a foreign subaward's indirect rate where the sponsor sets one (NIH: 0.08); null = none. Default 0.08. */
+  foreignFaLimit?: string | null;
+  /** A scenario's own classification of rate-book procedures, each with the reason the grants office reads. */
+  procedureClasses?: { code: string; class: ProcedureClass; reason: string }[];
   /** Which of the rate agreement's F&A rates the study uses (undefined = on-campus). */
   faLocation?: FaLocation;
 };
 
-export const SITE_ARRANGEMENTS = ["internal", "subaward", "contract"] as const;
-export type SiteArrangement = (typeof SITE_ARRANGEMENTS)[number];
 export const FA_LOCATIONS = ["on-campus", "off-campus"] as const;
 export type FaLocation = (typeof FA_LOCATIONS)[number];
 

@@ -126,7 +126,8 @@ export function nOf(r: PowerResult): number {
   return r.clusters1 ?? r.n1;
 }
 
-export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInputs["arms"], sites: number): CostInputs {
+/** `clusters`: a cluster design's randomised clusters (both arms), held clustersPerSite to a site. */
+export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInputs["arms"], sites: number, clusters?: number): CostInputs {
   return {
     startDate: study.startDate,
     arms,
@@ -136,7 +137,9 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
       staggerMonths: i.recruitment.staggerMonths,
       ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
       closeoutMonths: i.recruitment.closeoutMonths,
+      ...(clusters !== undefined ? { clusters: { count: clusters, perSite: i.recruitment.clustersPerSite ?? 1 } } : {}),
     },
+    ...(clusters !== undefined ? { cluster: { setupCost: i.recruitment.clusterSetupCost, annualFee: i.recruitment.clusterAnnualFee } } : {}),
     visits: i.visits.map((v) => ({
       name: v.name,
       month: v.month,
@@ -144,7 +147,7 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
       oneOff: (v.oneOffProcedures ?? []).map((o) => ({ name: o.name, unitCost: o.cost })),
     })),
     dropoutVisitShare: i.recruitment.dropoutVisitShare,
-    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows })),
+    personnel: i.personnel.map((p) => ({ role: p.role, fringeCategory: p.fringeCategory, baseSalary: p.baseSalary, effort: p.effortPercent.map((e) => e / 100), follows: p.follows, ...(p.months ? { months: p.months } : {}) })),
     other: i.other.map((o) =>
       o.unitCost !== undefined && o.quantity !== undefined
         ? { label: o.label, category: o.category, unitCost: o.unitCost, quantity: o.quantity, period: o.period ?? 1 }
@@ -153,15 +156,17 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     caps: sponsorRulesOf(study),
     ...(study.siteArrangement ? { siteArrangement: study.siteArrangement } : {}),
     ...(study.faLocation ? { faLocation: study.faLocation } : {}),
+    ...(i.sites?.length ? { sites: i.sites.map((t) => ({ arrangement: t.arrangement, ...(t.indirectRate !== undefined ? { indirectRate: String(t.indirectRate) } : {}), foreign: t.foreign })) } : {}),
+    ...(i.procedureClasses?.length ? { procedureClasses: i.procedureClasses } : {}),
   };
 }
 
 /**
- * Sites for a sample: cluster designs enrol one cluster per site; otherwise the fixed number, or the
- * fewest that finish enrolment by the deadline.
+ * Sites for a sample: cluster designs need the sites that hold their clusters (clusters per site, 1 when
+ * not given); otherwise the fixed number, or the fewest that finish enrolment by the deadline.
  */
 export function sitesFor(i: ScenarioInputs, enrolled: number, clusters: number | null): number | null {
-  if (clusters !== null) return clusters;
+  if (clusters !== null) return Math.ceil(clusters / (i.recruitment.clustersPerSite ?? 1));
   if (i.recruitment.maxEnrolmentMonths) {
     return sitesNeeded(
       { startupMonths: i.recruitment.startupMonths, staggerMonths: i.recruitment.staggerMonths, ratePerSiteMonth: i.recruitment.ratePerSiteMonth, closeoutMonths: i.recruitment.closeoutMonths },
@@ -183,7 +188,7 @@ export function studyAt(i: ScenarioInputs, study: StudyContext, n: number, atN?:
   const clusters = power.clusters1 !== undefined ? power.clusters1 + (power.clusters2 ?? 0) : null;
   const sites = sitesFor(i, power.funnel.total.enrolled, clusters);
   if (sites === null) return null;
-  return { power, cost: costInputs(i, study, power.funnel.arms, sites) };
+  return { power, cost: costInputs(i, study, power.funnel.arms, sites, clusters ?? undefined) };
 }
 
 export type CapBuys = {
@@ -237,6 +242,13 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
       `The power calculation assumes ${accrual.accrualMonths} months of accrual, but the timeline enrols this sample in ${accrual.enrolMonths} months: in whole months no accrual matches its own enrolment exactly. The longer enrolment only adds follow-up, so the power is at least the target.`,
     );
   }
+  const clusterNote = clusterDifference(sized, ledger);
+  if (clusterNote) warnings.push(clusterNote);
+  if (ledger.counts.sitesPlanned > ledger.counts.sites) {
+    warnings.push(
+      `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or shorten the months between activations.`,
+    );
+  }
   if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
   return {
     computedAt: new Date().toISOString(),
@@ -246,13 +258,29 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
     targetEffect: effectOf(sized),
     mdes: effectOf(mdesResult),
     powerAtTarget: sized.power,
-    sites: at.cost.timeline.sites,
+    sites: ledger.counts.sites,
     ledger,
     capBuys: study.sponsorCap ? whatCapBuys(i, rates, study, study.sponsorCap) : null,
     warnings,
     ...(accrual ? { accrual } : {}),
     studySettings: settingsFingerprint(study),
   };
+}
+
+/**
+ * A cluster design is costed cluster by cluster, each filled to its planned size; where whole
+ * participants cannot make every cluster the powered mean size, say so (the costed study must be the
+ * powered one, or the difference must be plain).
+ */
+export function clusterDifference(power: PowerResult, ledger: Ledger): string | null {
+  if (power.clusters1 === undefined || power.clusterSize === undefined) return null;
+  const k = power.clusters1 + (power.clusters2 ?? 0);
+  const evaluable = ledger.counts.evaluable;
+  const lo = Math.floor(evaluable / k);
+  const hi = Math.ceil(evaluable / k);
+  if (ledger.counts.clusters !== k) return `The budget costs ${ledger.counts.clusters} clusters; the power calculation needs ${k}.`;
+  if (lo === power.clusterSize && hi === power.clusterSize) return null;
+  return `The budget costs ${k} clusters of ${lo === hi ? lo : `${lo} to ${hi}`} evaluable participants (${evaluable} in all); the power calculation assumes a mean of ${power.clusterSize} per cluster.`;
 }
 
 /** The largest sample the budget buys, with its sites, MDES and power at the target effect. */
@@ -276,7 +304,7 @@ export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyCont
     n: lo,
     n1: best.at.power.n1,
     n2: best.at.power.n2,
-    sites: best.at.cost.timeline.sites,
+    sites: best.ledger.counts.sites,
     total: best.ledger.totals.total,
     effect,
     powerAtTarget: best.at.power.power,

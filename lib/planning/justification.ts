@@ -62,6 +62,14 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
     `Allowing ${f(fn.attrition * 100, 1)}% attrition and ${f(fn.screenFailure * 100, 1)}% screen failure (each inflated by division and rounded up), ${fn.total.enrolled} participants will be enrolled from ${fn.total.screened} screened.`,
   );
   parts.push(`Recruitment at ${r.sites} site${r.sites === 1 ? "" : "s"} enrolling ${f(i.recruitment.ratePerSiteMonth, 2)} participants per site per month takes about ${r.ledger.timeline.monthsToEnrol} months.`);
+  // Clusters are the randomised units inside sites, each filled to its planned size (lib/costing/clusters.ts).
+  if (r.ledger.counts.clusters) {
+    const k = r.ledger.counts.clusters;
+    parts[parts.length - 1] += ` The ${k} clusters are held ${i.recruitment.clustersPerSite ?? 1} to a site, and each recruits to its planned size.`;
+  }
+  // Subaward sites are costed as consortium lines with their own indirect costs (lib/costing/families/subawards.ts).
+  const subawards = r.ledger.lines.filter((x) => x.category === "subaward" && x.site).length;
+  if (subawards) parts[parts.length - 1] += ` ${subawards} of the sites take part as subawards, each costed with its own indirect costs.`;
   parts.push(
     r.effectName === "margin"
       ? `At this size the smallest margin the study can support is ${f(r.mdes)}, and the study costs ${formatMoney(r.ledger.totals.total)} in total.`

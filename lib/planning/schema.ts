@@ -3,7 +3,7 @@
  * cost choices. One zod schema for the scenario form, the API and the stored JSON.
  */
 import { z } from "zod";
-import { COST_CATEGORIES } from "@/lib/costing/types";
+import { COST_CATEGORIES, EFFORT_SPANS, PROCEDURE_CLASSES, SITE_ARRANGEMENTS } from "@/lib/costing/types";
 import { percentToShare } from "@/lib/format/percent-input";
 import { ALPHA_MIN, DESIGNS, type Design } from "@/lib/power/schema";
 import { HYPOTHESES, MULTIPLICITY } from "@/lib/power/designs/hypothesis";
@@ -77,6 +77,10 @@ export const recruitmentSchema = z.object({
   attrition: share("Attrition"),
   screenFailure: share("Screen failure"),
   dropoutVisitShare: share("Visits a dropout attends").default(0.5),
+  // Cluster designs: clusters are the randomised units inside sites; per-cluster costs apart from per-site ones.
+  clustersPerSite: opt(n("Clusters per site").int("Clusters per site: a whole number like 4.").min(1, "Clusters per site: at least 1.").max(1000, "Clusters per site: at most 1,000.")),
+  clusterSetupCost: opt(money("Set-up per cluster")),
+  clusterAnnualFee: opt(money("Fee per cluster per year")),
 });
 
 /** Labels of the visit rows on the scenario page; messages use the same words. */
@@ -142,7 +146,44 @@ export const personnelSchema = z.object({
   fringeCategory: text("Staff category", 32, "Choose a staff category.").min(2, "Choose a staff category."),
   baseSalary: money("Base salary"),
   effortPercent: effortByPeriod,
-  follows: z.enum(["study", "enrolment"], { error: "Effort runs: choose the whole study, or recruitment and visits." }).default("study"),
+  follows: z
+    .enum(EFFORT_SPANS, { error: "Effort runs: choose the whole study, first start-up to last close-out, recruitment and visits, or given months." })
+    .default("study"),
+  // Given months only: study months from..to (1 = the study's first month), inclusive. Two empty boxes are no months.
+  months: z
+    .object({
+      from: opt(n("Effort from month").int("Effort from month: a whole number like 1.").min(1, "Effort from month: 1 or more.")),
+      to: opt(n("Effort to month").int("Effort to month: a whole number like 24.").min(1, "Effort to month: 1 or more.").max(1200, "Effort to month: at most 1,200.")),
+    })
+    .optional()
+    .transform((m, ctx) => {
+      if (!m || (m.from === undefined && m.to === undefined)) return undefined;
+      if (m.from === undefined) ctx.addIssue({ code: "custom", path: ["from"], message: "Effort from month: enter it, like 1." });
+      if (m.to === undefined) ctx.addIssue({ code: "custom", path: ["to"], message: "Effort to month: enter it, like 24." });
+      if (m.from === undefined || m.to === undefined) return z.NEVER;
+      if (m.to < m.from) {
+        ctx.addIssue({ code: "custom", path: ["to"], message: "Effort to month: on or after the from month." });
+        return z.NEVER;
+      }
+      return { from: m.from, to: m.to };
+    })
+    .optional(),
+}).superRefine((p, ctx) => {
+  if (p.follows === "months" && !p.months) ctx.addIssue({ code: "custom", path: ["months", "from"], message: "Effort from month: enter the months the effort covers, like 1 and 24." });
+});
+
+/** One site's terms, in activation order: how it is paid, and a subaward's own indirect rate. */
+export const siteTermsSchema = z.object({
+  arrangement: z.enum(SITE_ARRANGEMENTS, { error: "Site arrangement: choose internal, subaward, or contract." }),
+  indirectRate: opt(asShare(n("Subaward indirect rate").min(0, "Subaward indirect rate: from 0 to 1, like 0.15 or 15%.").max(1, "Subaward indirect rate: from 0 to 1, like 0.15 or 15%."))),
+  foreign: z.preprocess((v) => v === "on" || v === true || v === "true", z.boolean()).default(false),
+});
+
+/** A scenario's own class for a rate-book procedure, with the reason the grants office reads. */
+export const procedureClassOverrideSchema = z.object({
+  code: z.string({ error: "Procedure: choose one from the rate book." }).trim().min(1, "Procedure: choose one from the rate book.").max(24),
+  class: z.enum(PROCEDURE_CLASSES, { error: "Class: choose research cost, patient care, or routine care billed to insurance." }),
+  reason: text("Reason for the class", 500, "Reason for the class: say why this study classes it differently.").min(10, "Reason for the class: say why, in a sentence."),
 });
 
 /**
@@ -292,6 +333,9 @@ export const scenarioInputsSchema = z
     other: z.array(otherCostSchema).max(60, "At most 60 items.").default([]),
     pilot: pilotSchema.optional(),
     uncertainty: uncertaintySchema.optional(),
+    /** Per-site terms in activation order; sites without one take the study's default arrangement. */
+    sites: z.array(siteTermsSchema).max(500, "At most 500 sites.").optional(),
+    procedureClasses: z.array(procedureClassOverrideSchema).max(60, "At most 60 procedure classes.").optional(),
   })
   .superRefine((v, ctx) => {
     for (const issue of designRequirements(v)) ctx.addIssue({ code: "custom", ...issue });

@@ -3,6 +3,7 @@
  * the comparison and the audit log, so that a field is named and validated the same way everywhere.
  */
 import { z } from "zod";
+import { PROCEDURE_CLASSES } from "@/lib/costing/types";
 import { percentToShare } from "@/lib/format/percent-input";
 import "@/lib/validation/plain-messages";
 
@@ -123,6 +124,9 @@ export const procedureCodeField = z
   .toUpperCase()
   .regex(/^[A-Z0-9][A-Z0-9-]{0,23}$/, "Procedure code: up to 24 letters, digits or hyphens.");
 export const procedureNameField = z.string({ error: "Enter the procedure's name." }).trim().min(2, "Enter the procedure's name.").max(120, "Use at most 120 characters.");
+/** Research cost, patient care, or routine care billed to insurance (lib/costing/procedure-class.ts). */
+export const procedureClassField = z.enum(PROCEDURE_CLASSES, { error: "Class: choose research cost, patient care, or routine care billed to insurance." });
+
 export const procedureCategoryField = z
   .string({ error: "Enter a category." })
   .trim()

@@ -3,6 +3,7 @@ import { z } from "zod";
 import "@/lib/validation/plain-messages";
 import {
   fringeCategoryField,
+  procedureClassField,
   moneyField,
   procedureCategoryField,
   procedureCodeField,
@@ -38,9 +39,9 @@ export const editionPatchSchema = z
         z.union([
           z.object({ id: z.number().int(), version, remove: z.literal(true) }).strict(),
           z
-            .object({ id: z.number().int(), version, name: procedureNameField.optional(), unitCost: moneyField("Unit cost").optional(), category: procedureCategoryField.optional() })
+            .object({ id: z.number().int(), version, name: procedureNameField.optional(), unitCost: moneyField("Unit cost").optional(), category: procedureCategoryField.optional(), class: procedureClassField.optional() })
             .strict(),
-          z.object({ code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField }).strict(),
+          z.object({ code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField, class: procedureClassField.optional() }).strict(),
         ]),
       )
       .max(2000)

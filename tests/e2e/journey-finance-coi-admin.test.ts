@@ -6,7 +6,7 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowse
 /**
  * Finance, the co-investigator and the administrator, each through the pages. Where a journey needs
  * state, it makes it through the investigator's pages first, so the file holds in any order.
- * Figures: the hand-worked plan of journey-investigator.test.ts ($74,807.00; demo rate book "2027 rates").
+ * Figures: the hand-worked plan of journey-investigator.test.ts ($73,437.63; demo rate book "2027 rates").
  */
 
 const baseUrl = inject("baseUrl");
@@ -20,7 +20,7 @@ async function createScenario(pi: Page, studyUrl: string, name: string): Promise
   await pi.getByRole("link", { name: "New scenario" }).click();
   await pi.waitForURL(/\/scenarios\/new$/);
   await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
   await pi.getByRole("button", { name: "Create scenario" }).click();
   await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
   return pi.url().replace(/\?.*$/, "");
@@ -49,7 +49,7 @@ describe("finance", () => {
     await screenshotWidths(fin, "journey-finance-study");
     await fin.getByRole("link", { name: "Finance sees this one" }).click();
     await fin.waitForURL(/\/scenarios\/\d+$/);
-    const pageTotal = await waitForText(fin.getByTestId("result-total"), "$74,807.00");
+    const pageTotal = await waitForText(fin.getByTestId("result-total"), "$73,437.63");
     expect(await fin.getByRole("button", { name: "Save changes" }).count()).toBe(0);
     expect(await fin.getByLabel("Add a comment").count()).toBe(0);
     const [download] = await Promise.all([fin.waitForEvent("download"), fin.getByTestId("download-workbook").click()]);

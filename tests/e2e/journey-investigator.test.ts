@@ -20,14 +20,14 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowse
  * - Timeline: one site from month 0 at 20 a month → 160 in 8 months (0–7); last visit month 7; close-out month 8;
  *   9 months, one budget period.
  * - Ledger, period 1 (no escalation in period 1): screening 200 × $85 = 17,000; screen-failure payments
- *   40 × $25 = 1,000; incentives 160 visits × $40 = 6,400; site start-up 12,000; annual site fee 3,500;
- *   monitoring ⌈4 × 8/12⌉ = 3 × $1,800 = 5,400; close-out 2,500. Direct 47,800; all of it in MTDC
- *   (2 CFR 200.1: none is equipment, patient care, rental, tuition or participant support); F&A
- *   47,800 × 56.5% = 27,007.00; total $74,807.00; within a $100,000 cap by $25,193.
+ *   40 × $25 = 1,000; incentives 160 visits × $40 = 6,400; site start-up 12,000; annual site fee 3,500
+ *   prorated to the 9-month period, 3,500 × 9/12 = 2,625; monitoring ⌈4 × 8/12⌉ = 3 × $1,800 = 5,400; close-out 2,500.
+ *   Direct 46,925; all of it in MTDC (2 CFR 200.1: none is equipment, patient care, rental, tuition or participant
+ *   support); F&A 46,925 × 56.5% = 26,512.625 → 26,512.63; total $73,437.63; within a $100,000 cap by $26,562.37.
  * - With attrition 0.36: 64 / 0.64 = 100 enrolled, 125 screened per arm → 200 / 250; 10 months (0–9), close-out
  *   month 10, 11 months. Screening 250 × 85 = 21,250; failures 50 × 25 = 1,250; incentives 200 × 40 = 8,000;
- *   start-up 12,000; annual 3,500; monitoring ⌈4 × 10/12⌉ = 4 × 1,800 = 7,200; close-out 2,500. Direct 55,700;
- *   F&A 31,470.50; total $87,170.50.
+ *   start-up 12,000; annual 3,500 × 11/12 = 3,208.33; monitoring ⌈4 × 10/12⌉ = 4 × 1,800 = 7,200; close-out 2,500.
+ *   Direct 55,408.33; F&A 31,305.71 (31,305.706…); total $86,714.04.
  * - Sensitivity, attrition 10% and 30%: worked beside the check below.
  * - Pilot CSV (two arms of five: 1–5 and 2–6): pooled SD √2.5 = 1.5811; upper one-sided 80% limit
  *   s·√(8/χ²₀.₂,₈) = 2.0866 (Browne 1995; χ² quantile from scipy.stats.chi2). Mean difference 1 with SD 1.5811
@@ -70,10 +70,10 @@ describe("the investigator's journey", () => {
     // The preview follows the inputs without saving.
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
     await waitForText(pi.getByTestId("result-enrolled"), "160 / 200");
-    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
     await waitForText(pi.getByTestId("result-mdes"), "d = 0.499");
     await waitForText(pi.getByTestId("result-months"), "1 · 8");
-    await waitForText(pi.getByTestId("cap-check"), "Within the sponsor's cap of $100,000, with $25,193 to spare.");
+    await waitForText(pi.getByTestId("cap-check"), "Within the sponsor's cap of $100,000, with $26,562 to spare.");
     await pi.getByRole("button", { name: "Create scenario" }).click();
     await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
     firstScenarioUrl = pi.url().replace(/\?.*$/, "");
@@ -81,7 +81,7 @@ describe("the investigator's journey", () => {
     await pi.getByText(/· version 1$/).waitFor();
     expect(await pi.getByTestId("scenario-state").textContent()).toBe("Draft");
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
-    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
     await waitForText(pi.getByTestId("result-mdes"), "d = 0.499");
     // What the cap buys, worked by hand: 96 per arm → 120 enrolled, 150 screened per arm; 240 enrolled in 12 months
     // (0–11), close-out month 12, so two periods. Period 1: screening 300 × 85 = 25,500; failures 60 × 25 = 1,500;
@@ -94,22 +94,24 @@ describe("the investigator's journey", () => {
       "The sponsor's cap of $100,000 funds up to 96 + 96 evaluable participants at 1 site (12 months to enrol), costing $96,834: the detectable effect is d = 0.406 and power at the target 0.931.",
     );
     // Fewer sites cost less here (each adds fees), so one site is the cheapest way to reach the target power.
-    await waitForText(pi.getByTestId("cheapest"), /^1 site, \$74,807(\.00)?, 8 months to enrol\.$/);
+    await waitForText(pi.getByTestId("cheapest"), /^1 site, \$73,43(8|7\.63), 8 months to enrol\.$/);
     // The sensitivity table's attrition row, worked by hand like the scenario above (n stays 64: attrition moves
-    // only the funnel). 10%: 64 / 0.9 → 72 enrolled, 90 screened per arm (144 / 180), 8 months; screening 15,300,
-    // failures 900, incentives 5,760, start-up 12,000, annual 3,500, monitoring 3 × 1,800, close-out 2,500: direct
-    // 45,360, F&A 25,628.40, total $70,988.40. 30%: 64 / 0.7 → 92 enrolled, 115 screened per arm (184 / 230),
-    // 10 months; 19,550 + 1,150 + 7,360 + 12,000 + 3,500 + 4 × 1,800 + 2,500 = 53,260, F&A 30,091.90, total $83,351.90.
+    // only the funnel; the one period is as long as the study, so the annual fee is prorated by its months).
+    // 10%: 64 / 0.9 → 72 enrolled, 90 screened per arm (144 / 180), 8 months (a 9-month study); screening 15,300,
+    // failures 900, incentives 5,760, start-up 12,000, annual 3,500 × 9/12 = 2,625, monitoring 3 × 1,800,
+    // close-out 2,500: direct 44,485, F&A 25,134.03 (25,134.025), total $69,619.03. 20%: $73,437.63 as above.
+    // 30%: 64 / 0.7 → 92 enrolled, 115 screened per arm (184 / 230), 10 months (11-month study); 19,550 + 1,150
+    // + 7,360 + 12,000 + 3,500 × 11/12 (3,208.33) + 4 × 1,800 + 2,500 = 52,968.33, F&A 29,927.11, total $82,895.44.
     await waitForText(
       pi.getByTestId("sensitivity-table").getByRole("row").filter({ hasText: /^Attrition/ }),
-      /^Attrition\s*10%\s*n 64 · \$70,988 · 8 mo\s*20%\s*n 64 · \$74,807 · 8 mo\s*30%\s*n 64 · \$83,352 · 10 mo$/,
+      /^Attrition\s*10%\s*n 64 · \$69,619 · 8 mo\s*20%\s*n 64 · \$73,438 · 8 mo\s*30%\s*n 64 · \$82,895 · 10 mo$/,
     );
     // The justification quotes the same figures.
     const text = await pi.getByLabel("Justification text").inputValue();
     expect(text).toContain("64 and 64 evaluable participants per arm (128 in total)");
     expect(text).toContain("Allowing 20% attrition and 20% screen failure");
     expect(text).toContain("160 participants will be enrolled from 200 screened");
-    expect(text).toContain("minimum detectable standardized effect is 0.499, and the study costs $74,807.00 in total");
+    expect(text).toContain("minimum detectable standardized effect is 0.499, and the study costs $73,437.63 in total");
     expect(text).toContain("The sponsor's cap of $100,000 would fund up to 96 and 96 evaluable participants per arm, able to detect 0.406.");
     await screenshotWidths(pi, "journey-pi-scenario");
   }, 150_000);
@@ -117,18 +119,18 @@ describe("the investigator's journey", () => {
   it("saves an edit: the version goes up and the figures follow the hand-worked values", async () => {
     await textField(pi, "Attrition").fill("0.36");
     await waitForText(pi.getByTestId("result-enrolled"), "200 / 250");
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await pi.getByRole("button", { name: "Save changes" }).click();
     await pi.getByText(/· version 2$/).waitFor();
     await pi.getByText("Saved, with its results.").waitFor();
     await waitForText(pi.getByTestId("result-n"), "64 + 64");
     await waitForText(pi.getByTestId("result-enrolled"), "200 / 250");
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await waitForText(pi.getByTestId("result-months"), "1 · 10");
     await waitForText(pi.getByTestId("cap-check"), /^Within the sponsor's cap of \$100,000/);
     const text = await pi.getByLabel("Justification text").inputValue();
     expect(text).toContain("200 participants will be enrolled from 250 screened");
-    expect(text).toContain("the study costs $87,170.50 in total");
+    expect(text).toContain("the study costs $86,714.04 in total");
   }, 150_000);
 
   it("uploads a pilot CSV chosen as a person would, sees its estimate and uses it as the planning SD", async () => {
@@ -173,8 +175,8 @@ describe("the investigator's journey", () => {
     const row = async (label: string) => (await table.getByRole("row").filter({ has: pi.getByRole("rowheader", { name: label, exact: true }) }).first().textContent())?.replace(/\s+/g, " ");
     expect(await row("Evaluable per arm")).toContain("64 + 64");
     expect(await row("Evaluable per arm")).toContain("41 + 41");
-    // $87,170.50 in whole dollars, half-up.
-    expect(await row("Total")).toContain("$87,171");
+    // $86,714.04 in whole dollars, half-up.
+    expect(await row("Total")).toContain("$86,714");
     expect(await row("Design")).toContain("Two independent means");
     expect(await row("Design")).not.toContain("two-means");
     await screenshotWidths(pi, "journey-pi-compare");
@@ -187,7 +189,7 @@ describe("the investigator's journey", () => {
     await pi.getByRole("heading", { level: 1, name: /Hand-worked, one site \(copy\)/ }).waitFor();
     expect(await pi.getByTestId("scenario-state").textContent()).toBe("Draft");
     // The copy carries the inputs and so the figures.
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await clickAndConfirm(pi, pi.getByRole("button", { name: "Delete", exact: true }));
     await pi.waitForURL(/\/studies\/\d+\?deleted=1$/);
     await pi.getByTestId("done-status").filter({ hasText: "The scenario was deleted." }).waitFor();
@@ -251,9 +253,9 @@ describe("the investigator's journey", () => {
     await clickAndConfirm(pi, pi.getByTestId("submit-review"));
     await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
     expect(await pi.getByRole("button", { name: "Save changes" }).count()).toBe(0);
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await pi.goto(studyUrl);
     const row = pi.getByRole("row").filter({ hasText: "Hand-worked, one site" });
-    expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/In review.*\$87,171/);
+    expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/In review.*\$86,714/);
   }, 150_000);
 });

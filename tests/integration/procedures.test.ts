@@ -44,7 +44,12 @@ describe("one-off procedures over the API", () => {
 
   it("creates a scenario with a one-off procedure: its own ledger line, marked for review, priced like a rate-book one", async () => {
     const visits = base.visits.map((v, k) => (k === 0 ? { ...v, oneOffProcedures: [{ name: "Wound photograph", cost: "$62.50" }] } : v));
-    const res = await create({ name: "With a one-off", inputs: withVisits(visits) });
+    // All six sites the institution's own (the demo makes three subawards, whose budgets would hold their own share of the one-off).
+    const internal = (inputs: ScenarioInputs) => ({ ...inputs, sites: undefined });
+    const plainRes = await create({ name: "All internal", inputs: internal(withVisits(base.visits)) });
+    expect(plainRes.status).toBe(201);
+    plain = (await plainRes.json()).scenario.results.ledger;
+    const res = await create({ name: "With a one-off", inputs: internal(withVisits(visits)) });
     expect(res.status).toBe(201);
     const { scenario } = await res.json();
     expect(scenario.inputs.visits[0].oneOffProcedures).toEqual([{ name: "Wound photograph", cost: "62.50" }]);
@@ -52,8 +57,9 @@ describe("one-off procedures over the API", () => {
     const line = ledger.lines.find((l) => l.review === "one-off")!;
     expect(line.label).toBe("Wound photograph (one-off, for the grants office's review)");
     expect(line.unitCost).toBe("62.50");
-    // Everyone enrolled attends baseline: the same visits by period as the rate-book LAB-PANEL, only at baseline.
-    const lab = ledger.lines.find((l) => l.key.startsWith("procedure:LAB-PANEL@"))!;
+    // Everyone enrolled attends baseline: the same visits by period as the rate-book XRAY-KNEE, only at baseline
+    // (a patient-care line in the demo rate book; the baseline LAB-PANEL is routine care, outside the budget).
+    const lab = ledger.lines.find((l) => l.key.startsWith("procedure:XRAY-KNEE@"))!;
     expect(line.quantities).toEqual(lab.quantities);
     // Each period: ROUND(quantity × 62.50 × 1.03^(period − 1), 2) (the demo rate book's 3% escalation).
     line.quantities!.forEach((q, p) => expect(line.amounts[p]).toBe(new Decimal(q).times("62.50").times(new Decimal("1.03").pow(p)).toDecimalPlaces(2, Decimal.ROUND_HALF_UP).toFixed(2)));

@@ -24,7 +24,12 @@ const inputs: ScenarioInputs = {
     { role: "Analyst", fringeCategory: "no-fringe", baseSalary: "10.02", effortPercent: [25], follows: "study" },
     { role: "Coordinator", fringeCategory: "staff", baseSalary: "2.10", effortPercent: [100], follows: "study" },
   ],
-  other: [{ label: "Courier", category: "supplies", perPeriod: "3.50", escalate: true }],
+  // The courier's 11-month period 3 is prorated: ROUND(3.50 × 1.03² × 11/12, 2) = 3.40, a live formula in the workbook.
+  // A cent of postage a period makes period 1's base odd (4,555.15), so its F&A at 50% falls on a half cent.
+  other: [
+    { label: "Courier", category: "supplies", perPeriod: "3.50", escalate: true },
+    { label: "Postage", category: "supplies", perPeriod: "0.01", escalate: false },
+  ],
 };
 
 const num = (v: ExcelJS.CellValue): number => (typeof v === "number" ? v : v && typeof v === "object" && "formula" in v ? Number((v as ExcelJS.CellFormulaValue).result ?? 0) : Number(v));
@@ -41,6 +46,8 @@ describe("half cents in the workbook after LibreOffice recalculates", () => {
     expect(amounts("salary:0")[0]).toBe("2.51"); // 10.02 × 25% = 2.505
     expect(amounts("fringe:1")[0]).toBe("0.53"); // 2.10 × 25% = 0.525
     expect(amounts("other:0")[1]).toBe("3.61"); // 3.50 × 1.03 = 3.605
+    expect(amounts("other:0")[2]).toBe("3.40"); // 3.50 × 1.03² × 11/12 = 3.4037…
+    expect(l.periods.map((p) => p.months)).toEqual([12, 12, 11]);
     // At least one period's F&A falls on a half cent (an odd number of cents in the base at 50%).
     expect(l.byPeriod.base.some((b) => Number(b.slice(-1)) % 2 === 1)).toBe(true);
 

@@ -124,14 +124,18 @@ describe("participant and site costs (worked by hand)", () => {
     // Start-up begins at months 0, 3, 6 (all period 1): 3 × 5,000.
     expect(line(l, "site-startup").quantities).toEqual([3, 0, 0]);
     // Annual fees at each site's activation and its anniversaries while visits run (to month 27):
-    // site A 2, 14, 26; site B 5, 17; site C 8, 20 → periods 1: 3, 2: 3, 3: 1.
-    expect(line(l, "site-annual").quantities).toEqual([3, 3, 1]);
+    // site A 2, 14, 26; site B 5, 17; site C 8, 20 → periods 1: 3, 2: 3, 3: 1. Period 3 runs 6 months
+    // (months 24–29), so its fee is prorated: 1 × 6/12 = 0.5 (common practice; see "a short final period").
+    expect(line(l, "site-annual").quantities).toEqual([3, 3, 0.5]);
+    expect(line(l, "site-annual").label).toBe("Annual site fees (prorated: P3: 6 of 12 months)");
     // Close-out at month 28 (period 3) for each site.
     expect(line(l, "site-closeout").quantities).toEqual([0, 0, 3]);
     expect(line(l, "site-closeout").amounts[2]).toBe("3182.70"); // 3 × 1,000 × 1.03²
-    // Monitoring: 2 a year pro rata by active months, rounded up per site and period.
-    // Period 1: A 10 months → 2, B 7 → 2, C 4 → 1 = 5; period 2: 2 each = 6; period 3 (to month 27): 4 months each → 1 each = 3.
-    expect(line(l, "site-monitoring").quantities).toEqual([5, 6, 3]);
+    // Monitoring: 2 a year over each site's life (activation to the last visit, month 27), rounded up once per site
+    // (common practice): A 26 months → ⌈4.33⌉ = 5, B 23 → ⌈3.83⌉ = 4, C 20 → ⌈3.33⌉ = 4: 13 (rounding per period gave 14).
+    // Spread by active months with cumulative whole numbers: A [10, 12, 4] → [1, 3, 1]; B [7, 12, 4] → [1, 2, 1];
+    // C [4, 12, 4] → [0, 3, 1]; together [2, 8, 3].
+    expect(line(l, "site-monitoring").quantities).toEqual([2, 8, 3]);
   });
   it("totals are sums of the rounded lines, period by period and overall", () => {
     for (let p = 0; p < l.periods.length; p++) {

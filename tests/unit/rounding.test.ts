@@ -28,26 +28,27 @@ describe("half cents round up, as the workbook's ROUND does (worked by hand)", (
     expect(amounts("salary:1")).toEqual(["2.10", "0.18"]);
     expect(amounts("fringe:1")).toEqual(["0.53", "0.05"]);
   });
-  it("an escalated amount: $3.50 × 1.03 = $3.605 → $3.61 (half-even $3.60)", () => {
-    expect(amounts("other:0")).toEqual(["3.50", "3.61"]);
+  it("an escalated year's amount, prorated in the 1-month period 2: $18.00 × 1.03 × 1/12 = $1.545 → $1.55 (half-even $1.54)", () => {
+    expect(amounts("other:0")).toEqual(["18.00", "1.55"]);
   });
   it("an F&A amount: period 2's base $5.61 × 50% = $2.805 → $2.81 (half-even $2.80)", () => {
-    // Period 2's direct costs: 1.55 + 0.22 + 0.18 + 0.05 + 3.61 = 5.61 (the analyst: $10.02 × 1.03 × 25% / 12 = $0.215006… → $0.22).
-    expect(l.byPeriod.direct).toEqual(["8.64", "5.61"]);
-    expect(l.byPeriod.fa).toEqual(["4.32", "2.81"]);
-    expect(l.totals.total).toBe("21.38");
+    // Period 2's direct costs: 1.55 + 0.22 + 0.18 + 0.05 + 1.55 + 2.06 = 5.61 (the analyst: $10.02 × 1.03 × 25% / 12 = $0.215006… → $0.22).
+    // Period 1: 0 + 2.51 + 2.10 + 0.53 + 18.00 + 0 = 23.14, F&A 11.57.
+    expect(l.byPeriod.direct).toEqual(["23.14", "5.61"]);
+    expect(l.byPeriod.fa).toEqual(["11.57", "2.81"]);
+    expect(l.totals.total).toBe("43.13");
   });
   it("the per-participant share of direct costs rounds half-up too: $1.55 / $49.60 = 0.03125 → 0.0313 (half-even 0.0312)", () => {
-    // A one-off $35.35 in period 1 brings direct costs to 14.25 + 35.35 = 49.60; the participant lines are the screening's $1.55.
-    const withItem = computeLedger({ ...HALF_CENT_STUDY, other: [...HALF_CENT_STUDY.other, { label: "Set-up", category: "supplies", byPeriod: ["35.35"] }] }, HALF_CENT_RATES);
+    // A one-off $20.85 in period 1 brings direct costs to 28.75 + 20.85 = 49.60; the participant lines are the screening's $1.55.
+    const withItem = computeLedger({ ...HALF_CENT_STUDY, other: [...HALF_CENT_STUDY.other, { label: "Set-up", category: "supplies", byPeriod: ["20.85"] }] }, HALF_CENT_RATES);
     expect(withItem.totals.direct).toBe("49.60");
     expect(withItem.unit.perParticipantShare).toBe("0.0313");
     expect(withItem.unit.fixedShare).toBe("0.9688");
   });
   it("the reach curve's float pricing rounds the same halves up", () => {
     const approx = approximateTotals(buildCostStructure(HALF_CENT_STUDY, HALF_CENT_RATES), HALF_CENT_RATES);
-    expect(approx.total.toFixed(2)).toBe("21.38");
-    expect(approx.direct.toFixed(2)).toBe("14.25");
+    expect(approx.total.toFixed(2)).toBe("43.13");
+    expect(approx.direct.toFixed(2)).toBe("28.75");
   });
 });
 
@@ -81,8 +82,8 @@ describe("the ledger rounds as integer half-up arithmetic does (property)", () =
           );
           const line = (key: string) => l.lines.find((x) => x.key === key)!.amounts.map(asCents);
           const g = 10_000n + BigInt(escBp);
-          // Period 2 is escalated once: amount × (10000 + bp) / 10000.
-          expect(line("other:0")).toEqual([BigInt(amount), halfUpCents(BigInt(amount) * g, 10_000n)]);
+          // Period 2 is escalated once and prorated to its one month: amount × (10000 + bp) / 10000 × 1/12.
+          expect(line("other:0")).toEqual([BigInt(amount), halfUpCents(BigInt(amount) * g, 10_000n * 12n)]);
           // Salary: base × escalation^p × effort% × months / 12.
           const salaries = [halfUpCents(BigInt(salary) * BigInt(effort) * 12n, 100n * 12n), halfUpCents(BigInt(salary) * g * BigInt(effort) * 1n, 10_000n * 100n * 12n)];
           expect(line("salary:0")).toEqual(salaries);

@@ -8,7 +8,7 @@ import { z } from "zod";
 import { applyEditionPatch, cancelImport, commitImport, createDraft } from "@/db/queries/rate-book";
 import { forbidden, HttpError } from "@/lib/auth/errors";
 import { roleMay } from "@/lib/auth/permissions";
-import { fringeCategoryField, moneyField, procedureCategoryField, procedureCodeField, procedureNameField, rateField, SETTING_BY_KEY, SETTING_KEYS, settingSchema } from "@/lib/rate-book/fields";
+import { fringeCategoryField, moneyField, procedureCategoryField, procedureClassField, procedureCodeField, procedureNameField, rateField, SETTING_BY_KEY, SETTING_KEYS, settingSchema } from "@/lib/rate-book/fields";
 import type { EditionPatch } from "@/lib/rate-book/patch";
 import { newDraftSchema } from "@/lib/rate-book/patch";
 import { requireUser } from "@/lib/server/current-user";
@@ -66,16 +66,16 @@ export async function addFringeAction(_prev: unknown, formData: FormData) {
 }
 
 export async function updateProcedureAction(_prev: unknown, formData: FormData) {
-  const schema = z.object({ editionId: id, id, version, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField });
+  const schema = z.object({ editionId: id, id, version, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField, class: procedureClassField.optional() });
   return patchFrom(formData, schema, (v) => ({
     editionId: v.editionId,
-    patch: { procedures: [{ id: v.id, version: v.version, name: v.name, unitCost: v.unitCost, category: v.category }] },
+    patch: { procedures: [{ id: v.id, version: v.version, name: v.name, unitCost: v.unitCost, category: v.category, ...(v.class ? { class: v.class } : {}) }] },
   }));
 }
 
 export async function addProcedureAction(_prev: unknown, formData: FormData) {
-  const schema = z.object({ editionId: id, code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField });
-  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { procedures: [{ code: v.code, name: v.name, unitCost: v.unitCost, category: v.category }] } }));
+  const schema = z.object({ editionId: id, code: procedureCodeField, name: procedureNameField, unitCost: moneyField("Unit cost"), category: procedureCategoryField, class: procedureClassField.optional() });
+  return patchFrom(formData, schema, (v) => ({ editionId: v.editionId, patch: { procedures: [{ code: v.code, name: v.name, unitCost: v.unitCost, category: v.category, class: v.class ?? "research" }] } }));
 }
 
 export async function removeRowAction(_prev: unknown, formData: FormData) {

@@ -8,6 +8,8 @@ export type FamilyContext = {
   rates: RateBook;
   tl: TimelineResult;
   lines: LineList;
+  /** Routine care billed to insurance: priced like any line, but outside the budget. */
+  routine: LineList;
   funnel: { evaluable: number; enrolled: number; screened: number };
   /** The visit schedule in month order. */
   visits: Visit[];

@@ -2,12 +2,24 @@
  * Other direct costs: amounts the investigator gives per period (or one amount a period, escalated),
  * in their category; or a purchase (a unit cost, a quantity and the period it is bought in), which is
  * equipment or supplies by its unit cost against the rate book's equipment threshold (equipment.ts).
+ * An amount a period is a year's amount: in a short final period it is prorated by the months the
+ * study runs in it (common practice: a 7-month period pays 7/12 of a year's licence).
  */
 import { D } from "../money";
 import { ITEM_CATEGORIES, itemCategory } from "../equipment";
 import type { FamilyContext } from "./context";
 
-export function otherCostLines({ inputs, rates, lines }: FamilyContext): void {
+/** "P4: 7 of 12 months": the short periods a prorated line pays for, as the line says them. */
+export function prorationNote(months: number[]): string {
+  return months
+    .map((m, p) => (m === 12 ? null : `P${p + 1}: ${m} of 12 months`))
+    .filter(Boolean)
+    .join("; ");
+}
+
+export function otherCostLines({ inputs, rates, lines, tl }: FamilyContext): void {
+  const months = tl.periods.map((p) => p.months);
+  const short = months.some((m) => m !== 12);
   inputs.other.forEach((o, i) => {
     if (o.unitCost !== undefined && o.quantity !== undefined) {
       const category = ITEM_CATEGORIES.has(o.category) ? itemCategory(o.unitCost, rates.equipmentThreshold) : o.category;
@@ -34,11 +46,14 @@ export function otherCostLines({ inputs, rates, lines }: FamilyContext): void {
       key: `other:${i}`,
       group: "other",
       category: o.category,
-      label: o.label,
+      label: !o.byPeriod && short ? `${o.label} (${prorationNote(months)})` : o.label,
       basis: "amount",
       escalation: o.byPeriod || o.escalate === false ? "0" : escalation,
       ...(o.category === "subaward" ? { subawardId: o.subawardId ?? `subaward-${i}` } : {}),
-      pricing: o.byPeriod ? { kind: "amounts", amounts: o.byPeriod } : { kind: "per-period", amount: o.perPeriod ?? "0", escalation: o.escalate === false ? null : escalation },
+      ...(!o.byPeriod && short ? { periodMonths: months } : {}),
+      pricing: o.byPeriod
+        ? { kind: "amounts", amounts: o.byPeriod }
+        : { kind: "per-period", amount: o.perPeriod ?? "0", escalation: o.escalate === false ? null : escalation, ...(short ? { months } : {}) },
     });
   });
 }

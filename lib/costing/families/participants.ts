@@ -2,10 +2,16 @@
  * Participant costs: screening every person screened (screen failures too), payments to screen
  * failures, each procedure at each visit attended, and incentives per completed visit. Participants
  * are counted in the budget period of the month they are screened or attend.
+ *
+ * Dropouts attend the expected number of visits (visits × the share a dropout attends, at least the
+ * enrolment visit), fractional in expectation: with a 0.5 share of three visits, 1.5 visits, i.e. the
+ * first in full and half of the second. Common practice for expected costs.
  */
 import { D } from "../money";
-import { allocate, periodOfMonth } from "../timeline";
+import { periodOfMonth } from "../timeline";
 import { CostingError } from "../errors";
+import { categoryOfClass, procedureClassOf, ROUTINE_CARE_MARK } from "../procedure-class";
+import type { LineList } from "../pricing";
 import { ONE_OFF_MARK, type RateBook } from "../types";
 import type { FamilyContext } from "./context";
 
@@ -15,37 +21,44 @@ function unknownProcedure(visit: string, code: string, rates: RateBook): string 
   return `Visit "${visit}": the procedure code ${code} is not in ${edition}. Pick a procedure from the rate book, or add it as a one-off procedure with its name and cost per visit.`;
 }
 
-/** Adds the participant lines; returns the visits attended per period (for the counts). */
-export function participantLines({ inputs, rates, tl, lines, funnel, visits }: FamilyContext): number[] {
-  const { enrolled, evaluable, screened } = funnel;
-  const cohorts = tl.enrolledByMonth;
-  const failuresByMonth = allocate(screened - enrolled, cohorts);
-  const completersByMonth = allocate(evaluable, cohorts);
+/** The participants one group of sites enrols, by month: all sites together, or one site's. */
+export type Cohorts = { enrolled: number[]; failures: number[]; completers: number[] };
+
+/** Each visit's share attended by a dropout, for an expected `share × visits` visits (at least 1). */
+export function dropoutAttendance(share: number, visits: number): number[] {
+  if (visits === 0) return [];
+  const expected = Math.max(1, share * visits);
+  return Array.from({ length: visits }, (_, i) => Math.min(1, Math.max(0, expected - i)));
+}
+
+/** Adds the participant lines for one group to `lines`; returns the visits attended per period (for the counts). */
+export function participantLines({ inputs, rates, visits, routine }: FamilyContext, lines: LineList, c: Cohorts, keyPrefix = ""): number[] {
   const screenedQ = lines.zeros();
   const failureQ = lines.zeros();
-  cohorts.forEach((n, m) => (screenedQ[periodOfMonth(m)]! += n + failuresByMonth[m]!));
-  failuresByMonth.forEach((n, m) => (failureQ[periodOfMonth(m)]! += n));
-  lines.quantity("screening", "participants", "procedures", "Screening, per person screened", inputs.screeningCost ?? rates.participant.screeningCost, screenedQ);
-  lines.quantity("screen-failure-payments", "participants", "participant", "Payments to screen failures", inputs.screenFailurePayment ?? rates.participant.screenFailurePayment, failureQ);
+  c.enrolled.forEach((n, m) => (screenedQ[periodOfMonth(m)]! += n + c.failures[m]!));
+  c.failures.forEach((n, m) => (failureQ[periodOfMonth(m)]! += n));
+  lines.quantity(`${keyPrefix}screening`, "participants", "procedures", "Screening, per person screened", inputs.screeningCost ?? rates.participant.screeningCost, screenedQ);
+  lines.quantity(`${keyPrefix}screen-failure-payments`, "participants", "participant", "Payments to screen failures", inputs.screenFailurePayment ?? rates.participant.screenFailurePayment, failureQ);
 
-  // Dropouts attend the first share of visits (at least the enrolment visit); completers attend all.
-  const dropoutVisits = visits.length ? Math.max(1, Math.round(inputs.dropoutVisitShare * visits.length)) : 0;
+  const dropoutShare = dropoutAttendance(inputs.dropoutVisitShare, visits.length);
   const attendance = lines.zeros();
   const procedureQ = new Map<string, number[]>();
   const catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
-  const procedureUnit = new Map<string, { unit: string; name: string; oneOff: boolean }>();
+  type Entry = { unit: string; name: string; oneOff: boolean; code?: string };
+  const procedureUnit = new Map<string, Entry>();
   // Rate-book procedures and one-off procedures are priced alike: a quantity line per procedure and unit
   // cost, counting each visit attended in the period it happens, escalated and rounded like any quantity line.
-  const count = (key: string, unit: string, name: string, oneOff: boolean, byPeriod: number[]) => {
-    if (!procedureUnit.has(key)) procedureUnit.set(key, { unit, name, oneOff });
+  const count = (key: string, entry: Entry, byPeriod: number[]) => {
+    if (!procedureUnit.has(key)) procedureUnit.set(key, entry);
     const q = procedureQ.get(key) ?? lines.zeros();
     byPeriod.forEach((n, p) => (q[p]! += n));
     procedureQ.set(key, q);
   };
   visits.forEach((visit, i) => {
     const byPeriod = lines.zeros();
-    cohorts.forEach((n, m) => {
-      const attendees = i < dropoutVisits ? n : completersByMonth[m]!;
+    c.enrolled.forEach((n, m) => {
+      const completers = c.completers[m]!;
+      const attendees = completers + (n - completers) * dropoutShare[i]!;
       byPeriod[periodOfMonth(m + visit.month)]! += attendees;
     });
     byPeriod.forEach((q, p) => (attendance[p]! += q));
@@ -53,19 +66,29 @@ export function participantLines({ inputs, rates, tl, lines, funnel, visits }: F
       const entry = catalogue.get(proc.code);
       if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
       const unit = proc.unitCost ?? entry!.unitCost;
-      count(`${proc.code}@${unit}`, unit, `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, false, byPeriod);
+      count(`${proc.code}@${unit}`, { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, oneOff: false, code: proc.code }, byPeriod);
     }
     for (const extra of visit.oneOff ?? []) {
       const name = extra.name.trim();
       // The same one-off at several visits, at the same cost, is one line (as a rate-book code is).
-      count(`one-off:${name.toLowerCase()}@${new D(extra.unitCost).toFixed(2)}`, extra.unitCost, `${name} ${ONE_OFF_MARK}`, true, byPeriod);
+      count(`one-off:${name.toLowerCase()}@${new D(extra.unitCost).toFixed(2)}`, { unit: extra.unitCost, name: `${name} ${ONE_OFF_MARK}`, oneOff: true }, byPeriod);
     }
   });
   for (const [key, q] of procedureQ) {
-    const { unit, name, oneOff } = procedureUnit.get(key)!;
-    const line = lines.quantity(oneOff ? key : `procedure:${key}`, "participants", "procedures", name, unit, q);
-    if (oneOff && line) line.review = "one-off";
+    const { unit, name, oneOff, code } = procedureUnit.get(key)!;
+    if (oneOff) {
+      const line = lines.quantity(`${keyPrefix}${key}`, "participants", "procedures", name, unit, q);
+      if (line) line.review = "one-off";
+      continue;
+    }
+    const { cls, override } = procedureClassOf(code!, rates, inputs);
+    const category = categoryOfClass(cls);
+    // Routine care billed to insurance is not a grant cost: listed apart, with the quantities, so the coverage decision shows.
+    const target = category ? lines : routine;
+    const label = category === "patient-care" ? `${name} (patient care)` : category ? name : `${name} (${ROUTINE_CARE_MARK})`;
+    const line = target.quantity(`${keyPrefix}procedure:${key}`, "participants", category ?? "patient-care", label, unit, q);
+    if (line && override) line.classOverride = override;
   }
-  lines.quantity("incentives", "participants", "participant", "Participant incentives, per completed visit", inputs.incentivePerVisit ?? rates.participant.incentivePerVisit, attendance);
+  lines.quantity(`${keyPrefix}incentives`, "participants", "participant", "Participant incentives, per completed visit", inputs.incentivePerVisit ?? rates.participant.incentivePerVisit, attendance);
   return attendance;
 }

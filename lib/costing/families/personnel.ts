@@ -1,24 +1,21 @@
 /**
  * Personnel: each person's requested salary per period, MIN(escalated base salary, salary cap) ×
- * effort × months / 12, and fringe on it at their staff category's rate. Effort that follows
- * enrolment counts only the months with recruitment or visits.
+ * effort × months / 12, and fringe on it at their staff category's rate. The months are those of
+ * the person's effort span (effort-span.ts) inside each budget period.
  */
+import { describeSpan, monthsByPeriod, spanMonths } from "../effort-span";
 import { CostingError } from "../errors";
 import type { FamilyContext } from "./context";
 
 export function personnelLines({ inputs, rates, tl, lines }: FamilyContext): void {
   const fringeRates = new Map(rates.fringe.map((f) => [f.category, f.rate]));
-  const activeFrom = tl.activationMonths[0]!;
   inputs.personnel.forEach((person, i) => {
     const fringeRate = fringeRates.get(person.fringeCategory);
     if (fringeRate === undefined) throw new CostingError(`No fringe rate for staff category "${person.fringeCategory}" in the rate book.`);
     const escalation = lines.escalation("salaries");
     const capped = person.capped !== false && rates.salaryCap !== null;
-    const months = tl.periods.map((period) =>
-      person.follows === "enrolment"
-        ? Math.max(0, Math.min(period.endMonth, tl.lastVisitMonth + 1) - Math.max(period.startMonth, activeFrom))
-        : period.months,
-    );
+    const span = spanMonths(person.follows, tl, inputs.timeline.startupMonths, person.months);
+    const months = monthsByPeriod(tl.periods, span);
     const effort = tl.periods.map((_, p) => person.effort[Math.min(p, person.effort.length - 1)] ?? 0);
     const key = `salary:${i}`;
     const personnel = {
@@ -31,6 +28,7 @@ export function personnelLines({ inputs, rates, tl, lines }: FamilyContext): voi
       personMonths: effort.map((ef, p) => Number((ef * months[p]!).toFixed(4))),
       fringeCategory: person.fringeCategory,
       fringeRate,
+      span: describeSpan(span),
     };
     const salaryIndex = lines.add({
       key,

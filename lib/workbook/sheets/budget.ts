@@ -44,7 +44,11 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
           const base = Number(line.amounts[0]);
           const esc = escalationCell(ctx, line.escalation, s.rates);
           const escRef = typeof esc === "number" ? String(esc) : (esc as ExcelJS.CellFormulaValue).formula;
-          cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`, Number(line.amounts[p]));
+          const months = line.periodMonths?.[p] ?? 12;
+          const yearly = inputAmount(s, line.key);
+          // A year's amount prorated in a short period: ROUND(amount × (1 + escalation)^p × months / 12, 2).
+          if (line.periodMonths && yearly !== null && (months !== 12 || line.periodMonths[0] !== 12)) cell.value = fx(`ROUND(${yearly}*(1+${escRef})^${p}*${months}/12,2)`, Number(line.amounts[p]));
+          else cell.value = p === 0 ? base : fx(`ROUND($${col(first)}${r}*(1+${escRef})^${p},2)`, Number(line.amounts[p]));
         } else cell.value = Number(line.amounts[p]);
         cell.numFmt = MONEY;
       }
@@ -105,7 +109,54 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
     for (let p = 0; p <= P; p++) ws.getCell(rr, first + p).numFmt = MONEY;
   }
   defineName(ctx, ws, `${col(first + P)}${rows.total}`, name(ctx, "GRAND_TOTAL"));
+  let extra = rows.total + 2;
+  // The subawards' own indirects, inside direct costs: sponsors apply some limits to direct costs less these (NOT-OD-05-004).
+  const consortium = ledger.lines.filter((l) => l.consortiumFa);
+  if (consortium.length) {
+    ws.getCell(`B${extra}`).value = "Of direct costs: consortium F&A (the subawards' own indirects)";
+    ws.getRow(extra).font = { bold: true };
+    for (let p = 0; p < P; p++) {
+      ws.getCell(extra, first + p).value = fx(`${consortium.map((l) => Number(l.consortiumFa![p])).join("+")}`, Number(ledger.byPeriod.consortiumFa[p]));
+      ws.getCell(extra, first + p).numFmt = MONEY;
+    }
+    ws.getCell(extra, first + P).value = fx(`SUM(${col(first)}${extra}:${col(first + P - 1)}${extra})`, Number(ledger.totals.consortiumFa));
+    ws.getCell(extra, first + P).numFmt = MONEY;
+    extra += 2;
+  }
+  // Routine care billed to insurance: priced for the coverage decision, outside the budget and every total above.
+  const routine = ledger.routineCare?.lines ?? [];
+  if (routine.length) {
+    ws.getCell(`A${extra}`).value = "Billed as routine care (outside the budget)";
+    ws.getCell(`A${extra}`).font = { bold: true };
+    extra++;
+    const start = extra;
+    for (const line of routine) {
+      ws.getCell(`A${extra}`).value = "Routine care";
+      ws.getCell(`B${extra}`).value = safeText(line.label);
+      for (let p = 0; p < P; p++) {
+        ws.getCell(extra, first + p).value = Number(line.amounts[p]);
+        ws.getCell(extra, first + p).numFmt = MONEY;
+      }
+      ws.getCell(extra, first + P).value = fx(`SUM(${col(first)}${extra}:${col(first + P - 1)}${extra})`, Number(line.total));
+      ws.getCell(extra, first + P).numFmt = MONEY;
+      extra++;
+    }
+    ws.getCell(`B${extra}`).value = "Total billed as routine care";
+    ws.getRow(extra).font = { bold: true };
+    for (let p = 0; p <= P; p++) {
+      ws.getCell(extra, first + p).value = fx(`SUM(${col(first + p)}${start}:${col(first + p)}${extra - 1})`, p < P ? routine.reduce((a, l) => a + Number(l.amounts[p]), 0) : Number(ledger.routineCare!.total));
+      ws.getCell(extra, first + p).numFmt = MONEY;
+    }
+  }
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 20 : i === 1 ? 46 : i === 2 ? 12 : 16));
   finish(ws, ctx.footer, { x: 2, y: 4 }, "1:4");
+
   return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
+}
+
+/** The year's amount an "other:i" line was given, as typed in the scenario (null for any other line). */
+function inputAmount(s: WorkbookScenario, key: string): string | null {
+  const m = /^other:(\d+)$/.exec(key);
+  const item = m ? s.inputs.other[Number(m[1])] : undefined;
+  return item ? String(Number(item.perPeriod)) : null;
 }

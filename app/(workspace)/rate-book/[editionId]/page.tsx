@@ -22,6 +22,11 @@ import {
   updateSettingAction,
 } from "../actions";
 import { TableHead } from "@/components/table-head";
+import { PROCEDURE_CLASS_LABELS } from "@/lib/costing/procedure-class";
+import type { ProcedureClass } from "@/lib/costing/types";
+
+/** The grants office's classes, as the procedure rows offer them. */
+const CLASS_CHOICES = Object.entries(PROCEDURE_CLASS_LABELS) as [ProcedureClass, string][];
 import { ScrollRegion } from "@/components/scroll-region";
 
 export const metadata: Metadata = { title: "Rate-book edition" };
@@ -182,13 +187,14 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
         </h2>
         <ScrollRegion label="Table of procedures">
         <table className="table">
-          <TableHead columns={["Code", "Procedure", "Category", { label: "Unit cost", num: true }, editable && "Change"]} />
+          <TableHead columns={["Code", "Procedure", "Category", "Class", { label: "Unit cost", num: true }, editable && "Change"]} />
           <tbody>
             {e.procedures.map((p) => (
               <tr key={p.id}>
                 <td className="font-mono text-sm whitespace-nowrap">{p.code}</td>
                 <td>{p.name}</td>
                 <td>{p.category}</td>
+                <td data-testid={`class-${p.code}`}>{PROCEDURE_CLASS_LABELS[p.class as ProcedureClass] ?? p.class}</td>
                 <td className="num">{formatMoney(p.unitCost)}</td>
                 {editable ? (
                   <td className="flex flex-wrap gap-2">
@@ -199,6 +205,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                         { name: "name", label: `Name of ${p.code}`, defaultValue: p.name, width: "w-48" },
                         { name: "unitCost", label: `Unit cost of ${p.code}`, defaultValue: p.unitCost, width: "w-24" },
                         { name: "category", label: `Category of ${p.code}`, defaultValue: p.category, width: "w-28" },
+                        { name: "class", label: `Class of ${p.code}`, defaultValue: p.class, width: "w-44", options: CLASS_CHOICES },
                       ]}
                       submitLabel="Save"
                     />
@@ -221,6 +228,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                 { name: "name", label: "Name", hint: "name", width: "w-48" },
                 { name: "unitCost", label: "Unit cost", hint: "0.00", width: "w-24" },
                 { name: "category", label: "Category", hint: "category", width: "w-28" },
+                { name: "class", label: "Class", width: "w-44", options: CLASS_CHOICES },
               ]}
               submitLabel="Add"
             />

@@ -1,0 +1,151 @@
+/**
+ * The issue-14 costing rules as the investigator sets them by clicking on the scenario form: three sites
+ * made subawards (one with its own 26% rate, one abroad, its indirects limited to 8%: NIH Grants Policy
+ * Statement 16.6), the coordinator's effort over given months, and a procedure classed differently with a
+ * reason. The page's figures are the costing engine's for what was saved (each rule is worked by hand in
+ * tests/unit/costing-rules.test.ts: demo scenario two as subawards has $185,349.83 less F&A), and the
+ * grants officer reads the reason.
+ */
+import Database from "better-sqlite3";
+import Decimal from "decimal.js";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { formatMoney } from "@/lib/format/money";
+import { computeScenario, type ScenarioResults } from "@/lib/planning/compute";
+import type { ScenarioInputs } from "@/lib/planning/schema";
+import { demoRateBook } from "@/scripts/demo-data";
+import { launchBrowser, pageAs, screenshot, waitForText } from "./browser";
+
+const baseUrl = inject("baseUrl");
+const databasePath = inject("databasePath");
+let browser: Browser;
+let page: Page;
+let copyUrl = "";
+let originalFa = new Decimal(0);
+
+/** The stored inputs of a scenario and the engine's results for them, with the study's start date and cap. */
+function stored(id: number): { inputs: ScenarioInputs; expected: ScenarioResults } {
+  const db = new Database(databasePath, { readonly: true });
+  const row = db
+    .prepare("SELECT s.inputs_json, s.rate_edition_id, st.start_date, st.sponsor_cap FROM scenarios s JOIN studies st ON st.id = s.study_id WHERE s.id = ?")
+    .get(id) as { inputs_json: string; rate_edition_id: number; start_date: string; sponsor_cap: string | null };
+  db.close();
+  const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
+  return { inputs, expected: computeScenario(inputs, demoRateBook(row.rate_edition_id), { startDate: row.start_date, sponsorCap: row.sponsor_cap }) };
+}
+const idOf = (url: string) => Number(/scenarios\/(\d+)/.exec(url)![1]);
+const dollars = (t: string | null) => new Decimal((t ?? "").replace(/[^0-9.]/g, ""));
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("site arrangements, effort spans and procedure classes on the scenario form", () => {
+  it("the investigator copies the three-site scenario and makes its sites subawards by clicking", { timeout: 180_000 }, async () => {
+    await page.getByRole("link", { name: /Walking Better/ }).click();
+    await page.getByRole("link", { name: "Three sites, longer enrolment", exact: true }).click();
+    await page.waitForURL(/\/scenarios\/\d+$/);
+    // A copy to change, so that the seeded scenarios stay for the other tests.
+    await page.getByTestId("clone").click();
+    await page.getByRole("heading", { name: /Three sites, longer enrolment \(copy\)/ }).waitFor();
+    copyUrl = page.url();
+    await page.getByTestId("result-total").waitFor();
+    originalFa = new Decimal(stored(idOf(copyUrl)).expected.ledger.totals.fa);
+
+    const sites = page.getByRole("group", { name: "Sites: how each is paid" });
+    for (let k = 0; k < 3; k++) await sites.getByRole("button", { name: "Add a site's arrangement" }).click();
+    for (let n = 1; n <= 3; n++) await page.getByRole("combobox", { name: `Site ${n} arrangement` }).selectOption("subaward");
+    await page.getByRole("textbox", { name: /^Site 1 subaward indirect rate/ }).fill("26%");
+    await page.getByRole("textbox", { name: /^Site 3 subaward indirect rate/ }).fill("30%");
+    await sites.getByRole("checkbox").nth(2).check();
+
+    // The coordinator (the third person) over study months 1–24.
+    await page.getByRole("combobox", { name: "Effort runs" }).nth(2).selectOption("months");
+    await page.getByRole("textbox", { name: /^Effort from month/ }).nth(2).fill("1");
+    await page.getByRole("textbox", { name: /^Effort to month/ }).nth(2).fill("24");
+
+    // The radiograph is patient care in the rate book; this study classes it as a research cost, with a reason.
+    await page.getByRole("button", { name: "Class a procedure differently" }).click();
+    await page.getByRole("combobox", { name: "Procedure 1" }).selectOption("XRAY-KNEE");
+    await page.getByRole("combobox", { name: "Class for this study 1" }).selectOption("research");
+    await page.getByRole("textbox", { name: /^Reason for the class 1/ }).fill("Two extra views for the study's own reading; not standard of care");
+
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Saved, with its results.").waitFor();
+  });
+
+  it("what was clicked is what was saved, and the page's figures are the engine's for it", { timeout: 60_000 }, async () => {
+    const { inputs, expected } = stored(idOf(copyUrl));
+    expect(inputs.sites).toEqual([
+      { arrangement: "subaward", indirectRate: 0.26, foreign: false },
+      { arrangement: "subaward", foreign: false },
+      { arrangement: "subaward", indirectRate: 0.3, foreign: true },
+    ]);
+    expect(inputs.personnel[2]).toMatchObject({ follows: "months", months: { from: 1, to: 24 } });
+    expect(inputs.procedureClasses).toEqual([{ code: "XRAY-KNEE", class: "research", reason: "Two extra views for the study's own reading; not standard of care" }]);
+
+    const l = expected.ledger;
+    await waitForText(page.getByTestId("result-total"), formatMoney(l.totals.total));
+    // The subawards' own indirects, said under the budget: site 1 at 26%, site 2 at 15% (de minimis), site 3 abroad at 8%.
+    expect(l.lines.filter((x) => x.category === "subaward").map((x) => x.label)).toEqual([
+      "Subaward, site 1: direct costs and its own F&A at 26%",
+      "Subaward, site 2: direct costs and its own F&A at 15%",
+      "Subaward, site 3 (foreign): direct costs and its own F&A at 8%",
+    ]);
+    const consortium = await page.getByTestId("consortium-fa").textContent();
+    expect(consortium).toContain(formatMoney(l.totals.consortiumFa));
+    // Only each subaward's first $50,000 is in the base, so F&A falls well below the internal plan's.
+    expect(originalFa.minus(l.totals.fa).greaterThan(100_000)).toBe(true);
+    // Routine care (the metabolic panel, classed so in the demo rate book) is listed apart, outside the budget.
+    const routine = await page.getByTestId("routine-care").textContent();
+    expect(routine).toContain(`Billed as routine care, outside the budget: ${formatMoney(l.routineCare.total)}`);
+    expect(dollars(l.routineCare.total).greaterThan(0)).toBe(true);
+    // The reason for the class is beside the ledger.
+    expect(await page.getByTestId("class-overrides").textContent()).toContain("Two extra views for the study's own reading; not standard of care");
+    // The coordinator's line says its months.
+    await page.getByText(/^Cost lines/).click();
+    await page.getByText("effort over study months 1–24").waitFor();
+    await screenshot(page, "site-arrangements-saved-1440");
+  });
+
+  it("the grants officer reads the reclassification and its reason, and the subawards' F&A", { timeout: 60_000 }, async () => {
+    const grants = await pageAs(browser, baseUrl, "grants@demo.test", { width: 1440 });
+    await grants.goto(copyUrl);
+    const note = grants.getByTestId("class-overrides");
+    await note.waitFor();
+    expect(await note.textContent()).toContain("patient-care → research");
+    expect(await note.textContent()).toContain("Two extra views for the study's own reading; not standard of care");
+    await grants.getByTestId("consortium-fa").waitFor();
+    await grants.close();
+  });
+
+  it("the grants officer sets a procedure's class on a draft rate-book edition by choosing it", { timeout: 60_000 }, async () => {
+    const grants = await pageAs(browser, baseUrl, "grants@demo.test", { width: 1440 });
+    await grants.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Rate book" }).click();
+    await grants.waitForURL(/\/rate-book$/);
+    await grants.getByLabel("Start from").selectOption({ label: "2027 rates (in force today)" });
+    await grants.getByLabel("Label", { exact: true }).fill("2031 rates");
+    await grants.getByLabel("Effective from").fill("2031-01-01");
+    await grants.getByRole("button", { name: "Start the draft" }).click();
+    await grants.waitForURL(/\/rate-book\/\d+$/);
+    // The draft keeps the classes of the edition it starts from (scripts/demo-data.ts).
+    expect(await grants.getByTestId("class-XRAY-KNEE").textContent()).toBe("patient care");
+    expect(await grants.getByTestId("class-LAB-PANEL").textContent()).toBe("routine care billed to insurance");
+    expect(await grants.getByTestId("class-GAIT").textContent()).toBe("research cost");
+    const row = grants.getByRole("row").filter({ has: grants.getByTestId("class-GAIT") });
+    await row.getByLabel("Class of GAIT").selectOption("patient-care");
+    await row.getByRole("button", { name: "Save" }).click();
+    await waitForText(grants.getByTestId("class-GAIT"), "patient care");
+    const editionId = Number(/rate-book\/(\d+)/.exec(grants.url())![1]);
+    const db = new Database(databasePath, { readonly: true });
+    const stored = db.prepare("SELECT class FROM rate_book_procedures WHERE edition_id = ? AND code = 'GAIT'").get(editionId) as { class: string };
+    db.close();
+    expect(stored.class).toBe("patient-care");
+    await screenshot(grants, "rate-book-procedure-class-1440");
+    await grants.close();
+  });
+});
