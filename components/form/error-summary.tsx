@@ -44,7 +44,10 @@ export function ErrorSummary({ formId, errors }: { formId: string; errors: Recor
           messages.map((message, k) => {
             if (!name) return <li key={`form-${k}`}>{message}</li>;
             const label = present[name];
-            const text = label && !message.toLowerCase().startsWith(label.toLowerCase()) ? `${label}: ${message}` : message;
+            // A message already names its field, by the label or by its words before a unit or a note ("Expected effect (d)").
+            const base = label?.split(/[(,]/)[0]!.trim().toLowerCase();
+            const named = label && (message.toLowerCase().startsWith(label.toLowerCase()) || (base && message.toLowerCase().startsWith(base)));
+            const text = label && !named ? `${label}: ${message}` : message;
             return (
               <li key={`${name}-${k}`}>
                 {label === null ? (

@@ -100,6 +100,20 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
               <Row label="Visits a dropout attends" value={pct(r.dropoutVisitShare)} />
             </dl>
           </div>
+          <div>
+            <h3 className="text-base">Uncertainty</h3>
+            <dl>
+              <Row
+                label="Spread of enrolment rates between sites"
+                value={inputs.uncertainty?.rateSpread === undefined ? "not given (the forecast uses the published spread)" : pct(inputs.uncertainty.rateSpread)}
+                field="inputs.uncertainty.rateSpread"
+              />
+              <Row label="Expected effect" value={inputs.uncertainty?.effectPrior?.mean === undefined ? "not given" : num(inputs.uncertainty.effectPrior.mean)} field="inputs.uncertainty.effectPrior.mean" />
+              <Row label="Uncertainty of the effect (SD)" value={num(inputs.uncertainty?.effectPrior?.sd)} field="inputs.uncertainty.effectPrior.sd" />
+              {inputs.uncertainty?.effectPrior?.source ? <Row label="Where the expected effect comes from" value={inputs.uncertainty.effectPrior.source} /> : null}
+              {inputs.uncertainty?.effectPrior?.mean !== undefined ? <Row label="Assurance quoted in the justification" value={inputs.uncertainty.effectPrior.inJustification ? "yes" : "no"} /> : null}
+            </dl>
+          </div>
         </div>
         <div>
           <h3 className="text-base">

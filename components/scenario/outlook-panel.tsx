@@ -18,6 +18,26 @@ async function fetchOutlook(url: string): Promise<Outlook> {
 }
 
 const pct = (p: number) => `${(p * 100).toFixed(0)}%`;
+
+/** A number typed as 0.6, 60% or 1,2 is read as the page reads it; anything else is a message for that box. */
+function tryOutProblems(spread: string, mean: string, sd: string, hr: boolean): { spread?: string; mean?: string; sd?: string } {
+  const num = (v: string) => (/^\s*[+-]?(\d+(\.\d*)?|\.\d+)\s*$/.test(v) ? Number(v) : Number.NaN);
+  const out: { spread?: string; mean?: string; sd?: string } = {};
+  if (spread.trim()) {
+    const m = /^\s*(\d+(?:\.\d*)?)\s*%\s*$/.exec(spread);
+    const v = m ? Number(m[1]) / 100 : num(spread);
+    if (!Number.isFinite(v) || v < 0.05 || v > 5) out.spread = "Type a coefficient of variation from 5% to 500%, like 60%, or leave it empty for the published spread.";
+  }
+  if (mean.trim() || sd.trim()) {
+    const m = num(mean);
+    const d = num(sd);
+    if (!mean.trim()) out.mean = "Type your expected effect too, or empty the uncertainty.";
+    else if (!Number.isFinite(m) || (hr ? m <= 0 || m > 100 : Math.abs(m) > 10)) out.mean = hr ? "Type a hazard ratio above 0, like 0.75." : "Type a number, like 0.4.";
+    if (!sd.trim()) out.sd = "Type how uncertain the effect is, like 0.1, or empty the expected effect.";
+    else if (!Number.isFinite(d) || d <= 0 || d > 10) out.sd = "Type a number above 0 and at most 10, like 0.1.";
+  }
+  return out;
+}
 const months = (m: number) => `${m.toFixed(1)} months`;
 
 /** The value typed last, once the user has paused: the forecast redraws as they type, not on every key. */
@@ -43,7 +63,16 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
   const [spread, setSpread] = useState(saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`);
   const [mean, setMean] = useState(saved.prior ? String(saved.prior.mean) : "");
   const [sd, setSd] = useState(saved.prior ? String(saved.prior.sd) : "");
-  const query = useSettled(new URLSearchParams({ ...(spread ? { rateSpread: spread } : {}), ...(mean && sd ? { priorMean: mean, priorSd: sd } : {}) }).toString());
+  // Each try-out box is checked here, in the page's words, before anything is asked of the server; while
+  // one is wrong the figures below stay for the last good values and say so.
+  const problems = tryOutProblems(spread, mean, sd, hr);
+  const valid = !problems.spread && !problems.mean && !problems.sd;
+  const [lastGood, setLastGood] = useState("");
+  const wanted = new URLSearchParams({ ...(spread.trim() ? { rateSpread: spread.trim() } : {}), ...(mean.trim() && sd.trim() ? { priorMean: mean.trim(), priorSd: sd.trim() } : {}) }).toString();
+  useEffect(() => {
+    if (valid) setLastGood(wanted);
+  }, [valid, wanted]);
+  const query = useSettled(valid ? wanted : lastGood);
   const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/forecast?${query}&v=${version}`, fetchOutlook, { keepPreviousData: true, revalidateOnFocus: false });
   const f = data?.forecast;
   const a = data?.assurance;
@@ -61,31 +90,51 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
       <div className="grid gap-4 sm:grid-cols-3">
         <div className="field">
           <label htmlFor="outlook-spread">Try a spread of enrolment rates</label>
-          <input id="outlook-spread" className="input" value={spread} onChange={(e) => setSpread(e.target.value)} placeholder={`${Math.round(DEFAULT_RATE_SPREAD * 100)}%`} aria-describedby="outlook-spread-hint" />
+          <input id="outlook-spread" className="input" value={spread} onChange={(e) => setSpread(e.target.value)} placeholder={`${Math.round(DEFAULT_RATE_SPREAD * 100)}%`} aria-describedby="outlook-spread-hint outlook-spread-error" aria-invalid={problems.spread ? true : undefined} />
           <span id="outlook-spread-hint" className="hint">
             Coefficient of variation, like 60%. Empty: {Math.round(DEFAULT_RATE_SPREAD * 100)}%, the published spread.
           </span>
+          {problems.spread ? (
+            <span id="outlook-spread-error" className="error" data-testid="outlook-error">
+              {problems.spread}
+            </span>
+          ) : null}
         </div>
         <div className="field">
           <label htmlFor="outlook-mean">{hr ? "Try an expected hazard ratio" : `Try an expected effect (${unit.symbol})`}</label>
-          <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" />
+          <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" aria-describedby="outlook-mean-error" aria-invalid={problems.mean ? true : undefined} />
+          {problems.mean ? (
+            <span id="outlook-mean-error" className="error" data-testid="outlook-error">
+              {problems.mean}
+            </span>
+          ) : null}
         </div>
         <div className="field">
           <label htmlFor="outlook-sd">{hr ? "Try an uncertainty (SD of the log hazard ratio)" : `Try an uncertainty of the effect (SD, ${unit.symbol})`}</label>
-          <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" />
+          <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" aria-describedby="outlook-sd-error" aria-invalid={problems.sd ? true : undefined} />
+          {problems.sd ? (
+            <span id="outlook-sd-error" className="error" data-testid="outlook-error">
+              {problems.sd}
+            </span>
+          ) : null}
         </div>
       </div>
       {error ? (
-        <p className="alert" role="alert" data-testid="outlook-error">
+        <p className="alert" role="alert" data-testid="outlook-server-error">
           {(error as Error).message}
         </p>
       ) : null}
+      {f && (!valid || error) ? (
+        <p className="alert" data-testid="outlook-stale">
+          Out of date: these figures are for the last values that could be used. Fix the value marked above to update them.
+        </p>
+      ) : null}
       {f ? (
-        <div className={error ? "opacity-50" : undefined}>
+        <div className={error || !valid ? "opacity-50" : undefined} data-stale={error || !valid ? "true" : undefined}>
           <div className="grid gap-4 lg:grid-cols-2">
             <div className="flex flex-col gap-2">
               <p data-testid="forecast-probability">
-                Chance of enrolling all {f.milestones.at(-1)?.planned ?? ""} participants by the planned end of enrolment (month {f.deadlines.enrolment}):{" "}
+                Chance of enrolling all {f.milestones.at(-1)?.planned ?? ""} participants by the planned end of enrolment (the end of month {f.deadlines.enrolment} of the study, counting start-up):{" "}
                 <strong className="num">{pct(f.probability.byEnrolmentDeadline)}</strong>
                 {f.probability.byFundedEnd !== null ? (
                   <>
@@ -95,7 +144,7 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
                 .
               </p>
               <p data-testid="forecast-months">
-                The plan takes <span className="num">{months(f.plannedMonths)}</span> at the planned rate. Months to enrol: median <strong className="num">{months(f.monthsToEnrol.median)}</strong>, 80th
+                At the planned rate enrolment takes <span className="num">{months(f.plannedMonths)}</span> ({Math.ceil(f.plannedMonths - 1e-9)} in whole months, as the timeline counts them). Months to enrol if sites vary: median <strong className="num">{months(f.monthsToEnrol.median)}</strong>, 80th
                 percentile <strong className="num">{months(f.monthsToEnrol.p80)}</strong>, 90th percentile <strong className="num">{months(f.monthsToEnrol.p90)}</strong>.
               </p>
               <p className="text-xs text-ink-soft">
@@ -105,7 +154,7 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
               {f.slowEnd.map((s) => (
                 <details key={s.percentile} data-testid={`slow-end-${s.percentile}`}>
                   <summary className="cursor-pointer">
-                    At the {s.percentile}th percentile ({s.monthsToEnrol} months to enrol): <strong className="num">+{formatMoney(s.difference, { cents: false })}</strong>, a total of {formatMoney(s.total, { cents: false })}
+                    If enrolment takes as long as the {s.percentile}th percentile (costed as {s.monthsToEnrol} whole months): <strong className="num">+{formatMoney(s.difference, { cents: false })}</strong>, a total of {formatMoney(s.total, { cents: false })}
                   </summary>
                   <ScrollRegion label={`Lines that change at the ${s.percentile}th percentile`} className="mt-2">
                     <table className="table text-sm">

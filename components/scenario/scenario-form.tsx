@@ -76,8 +76,8 @@ function toFormValues(i: ScenarioInputs) {
     uncertainty: {
       rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
       effectPrior: {
-        mean: i.uncertainty?.effectPrior ? String(i.uncertainty.effectPrior.mean) : "",
-        sd: i.uncertainty?.effectPrior ? String(i.uncertainty.effectPrior.sd) : "",
+        mean: i.uncertainty?.effectPrior?.mean === undefined ? "" : String(i.uncertainty.effectPrior.mean),
+        sd: i.uncertainty?.effectPrior?.sd === undefined ? "" : String(i.uncertainty.effectPrior.sd),
         source: i.uncertainty?.effectPrior?.source ?? "",
         inJustification: i.uncertainty?.effectPrior?.inJustification ? "on" : "",
       },
@@ -166,8 +166,8 @@ function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSp
       <p className="text-sm text-ink-soft">Optional. Used by “How likely the plan is” below the form: the recruitment forecast and the assurance.</p>
       <div className="grid gap-4 sm:grid-cols-3">
         <Text meta={u.rateSpread} label={UNCERTAINTY_LABELS.rateSpread} hint={`Coefficient of variation, like 60%. Empty: ${Math.round(100 / Math.sqrt(DEFAULT_RATE_SHAPE))}%, the published spread`} />
-        <Text meta={p.mean} label={hr ? "Expected hazard ratio" : `${UNCERTAINTY_LABELS.priorMean} (${unit.symbol})`} hint={hr ? "Your best guess of the true hazard ratio" : `Your best guess of the true ${unit.noun}`} />
-        <Text meta={p.sd} label={hr ? "Uncertainty of the effect (SD of the log hazard ratio)" : `${UNCERTAINTY_LABELS.priorSd}, in ${unit.symbol}`} hint="How far the true effect may plausibly be from it" />
+        <Text meta={p.mean} label={`${UNCERTAINTY_LABELS.priorMean} (${hr ? "hazard ratio" : unit.symbol})`} hint={hr ? "Your best guess of the true hazard ratio" : `Your best guess of the true ${unit.noun}`} />
+        <Text meta={p.sd} label={`${UNCERTAINTY_LABELS.priorSd}, ${hr ? "of the log hazard ratio" : `in ${unit.symbol}`}`} hint="How far the true effect may plausibly be from it" />
         <Text meta={p.source} label={UNCERTAINTY_LABELS.priorSource} wide />
         <div className="field justify-end">
           <label className="flex items-center gap-2">

@@ -24,6 +24,9 @@ export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.visits": "Visits and procedures",
   "inputs.personnel": "Staff and effort",
   "inputs.other": "Other costs",
+  "inputs.uncertainty.rateSpread": "Spread of enrolment rates between sites",
+  "inputs.uncertainty.effectPrior.mean": "Expected effect",
+  "inputs.uncertainty.effectPrior.sd": "Uncertainty of the effect (SD)",
 };
 
 const MEANS = ["inputs.design.meanDifference", "inputs.design.sd", "inputs.design.effectSize"];

@@ -39,8 +39,9 @@ export const designSchema = z.object({
   effectSize: opt(n("Standardized effect d").min(-10, "Standardized effect d must be at least −10.").max(10, "Standardized effect d must be at most 10.")),
   meanDifference: opt(n("Target mean difference")),
   sd: opt(n("Outcome SD").gt(0, "Outcome SD must be above 0.")),
-  p1: opt(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3.")),
-  p2: opt(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45.")),
+  // Proportions, typed as shares (0.3) or as percentages (30%), as rates are everywhere on the form.
+  p1: opt(asShare(n("Control proportion (p1)").gt(0, "Control proportion (p1): between 0 and 1, like 0.3 or 30%.").lt(1, "Control proportion (p1): between 0 and 1, like 0.3 or 30%."))),
+  p2: opt(asShare(n("Target intervention proportion (p2)").gt(0, "Target intervention proportion (p2): between 0 and 1, like 0.45 or 45%.").lt(1, "Target intervention proportion (p2): between 0 and 1, like 0.45 or 45%."))),
   // Two proportions only: the test the sample is sized for (absent in older scenarios: the normal approximation).
   method: opt(z.enum(["normal", "continuity-corrected", "arcsine"], { error: "Two-proportions method: choose one from the list." })),
   hazardRatio: opt(n("Target hazard ratio").gt(0, "Target hazard ratio must be above 0, like 0.7.").max(100, "Target hazard ratio: at most 100.")),

@@ -72,9 +72,9 @@ describe("the investigator reads how likely the plan is", () => {
   });
 
   it("the chance of enrolling on time equals the closed form: time to enrol = (n / Kμ) × F(2n, 2Kα), one site at 20 a month, α = 1 / 0.5² = 4", async () => {
-    const said = await waitForText(page.getByTestId("forecast-probability"), /Chance of enrolling all \d+ participants by the planned end of enrolment \(month \d+\): \d+%/);
+    const said = await waitForText(page.getByTestId("forecast-probability"), /Chance of enrolling all \d+ participants by the planned end of enrolment \(the end of month \d+ of the study, counting start-up\): \d+%/);
     const n = number(said, /all (\d+) participants/);
-    const deadline = number(said, /\(month (\d+)\)/);
+    const deadline = number(said, /the end of month (\d+) of the study/);
     const shown = number(said, /: (\d+)%/);
     // 86 + 86 evaluable, 20% attrition then 20% screen failure: ceil(86 / 0.8) = 108 per arm enrolled.
     expect(n).toBe(216);
@@ -98,10 +98,16 @@ describe("the investigator reads how likely the plan is", () => {
     await screenshotWidths(page, "outlook-panel");
   });
 
-  it("a bad value in the panel gets a plain message and keeps what was typed", async () => {
-    await page.getByLabel("Try a spread of enrolment rates").fill("900%");
-    await waitForText(page.getByTestId("outlook-error"), /Spread of enrolment rates between sites: from 5% to 500%/);
-    expect(await page.getByLabel("Try a spread of enrolment rates").inputValue()).toBe("900%");
+  it("bad values in the panel: a plain message under each box, the figures marked out of date, and what was typed kept", async () => {
+    await page.getByLabel("Try a spread of enrolment rates").fill("abc");
+    await page.getByLabel(/^Try an uncertainty of the effect/).fill("-1");
+    await waitForText(page.getByTestId("outlook-error").first(), /^Type a coefficient of variation from 5% to 500%/);
+    await waitForText(page.getByTestId("outlook-error").nth(1), /^Type a number above 0 and at most 10/);
+    await waitForText(page.getByTestId("outlook-stale"), /^Out of date: these figures are for the last values that could be used/);
+    expect(await page.getByLabel("Try a spread of enrolment rates").inputValue()).toBe("abc");
+    await page.getByLabel("Try a spread of enrolment rates").fill("50%");
+    await page.getByLabel(/^Try an uncertainty of the effect/).fill("0.2");
+    await page.getByTestId("outlook-stale").waitFor({ state: "detached" });
   });
 
   it("every other design shows its assurance for a prior in its own unit", async () => {

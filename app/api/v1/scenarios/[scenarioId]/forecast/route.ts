@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { scenarioContext } from "@/db/queries/scenarios";
-import { validationError } from "@/lib/http/errors";
+import { HttpError } from "@/lib/auth/errors";
 import { effectPriorSchema, givenPrior, uncertaintySchema } from "@/lib/planning/schema";
 import { json, parseId, withUser } from "@/lib/server/api";
 import { outlookCached } from "@/lib/server/planning-cache";
@@ -21,7 +21,11 @@ export const GET = withUser<{ scenarioId: string }>(async ({ req, user, params }
   const ctx = await scenarioContext(user, parseId(params.scenarioId, "That scenario"));
   const query = Object.fromEntries(new URL(req.url).searchParams);
   const parsed = querySchema.safeParse(query);
-  if (!parsed.success) throw validationError(parsed.error);
+  if (!parsed.success) {
+    // The messages name the field as the page does; the query's own key is not a word a person reads.
+    const issue = parsed.error.issues[0]!;
+    throw new HttpError(400, "invalid", issue.message, { [String(issue.path[0] ?? "query")]: [issue.message] });
+  }
   const saved = ctx.inputs.uncertainty;
   const prior =
     parsed.data.priorMean !== undefined && parsed.data.priorSd !== undefined
