@@ -9,8 +9,8 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBro
  * with what changed since the last return; every assumption read-only beside the comments; the rate
  * sheet pre-filled with an edition; finance's list of in-review and cleared scenarios.
  *
- * Figures: the hand-worked plan of journey-investigator.test.ts ($74,807.00 at attrition 0.2,
- * $87,170.50 at 0.36; demo rate book "2027 rates"), so the queue's move is +$12,363.50. Two proportions
+ * Figures: the hand-worked plan of journey-investigator.test.ts ($73,437.63 at attrition 0.2,
+ * $86,714.04 at 0.36; demo rate book "2027 rates"), so the queue's move is +$13,276.41. Two proportions
  * 0.5 vs 0.75 at 90% power: 77 per arm (R's power.prop.test documentation example) and 85 with the
  * continuity correction (Fleiss, Tytun & Ury 1980). Hazard ratio 0.75 at 80% power, two-sided 0.05,
  * 1:1: 380 events (Schoenfeld 1983: 379.4 → 380). See tests/fixtures/published-checks.ts.
@@ -47,7 +47,7 @@ async function newHandWorked(name: string): Promise<string> {
   await pi.getByRole("link", { name: "New scenario" }).click();
   await pi.waitForURL(/\/scenarios\/new$/);
   await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
   await pi.getByRole("button", { name: "Create scenario" }).click();
   await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
   return pi.url().replace(/\?.*$/, "");
@@ -72,7 +72,7 @@ describe("the investigator", () => {
     await pi.getByTestId("done-status").filter({ hasText: "Withdrawn from review" }).waitFor();
     const withdrawn = pi.getByTestId("history-withdraw");
     await waitForText(withdrawn, within(WITHDRAW_REASON));
-    expect(await withdrawn.textContent()).toMatch(/Withdrawn from review by .+ · \d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC · total then \$74,807\.00/);
+    expect(await withdrawn.textContent()).toMatch(/Withdrawn from review by .+ · \d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC · total then \$73,437\.63/);
     expect(await pi.getByTestId("history-submit").count()).toBe(1);
     // A draft again: the form is back.
     await pi.getByRole("button", { name: "Save changes" }).waitFor();
@@ -165,7 +165,7 @@ describe("the grants officer", () => {
     await grants.getByRole("link", { name: "Review queue" }).click();
     await grants.waitForURL(/\/review$/);
     const row = grants.getByRole("row").filter({ hasText: NAME });
-    expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/JRN-Q18.*Queue walk.*\$74,807\.00.*\$100,000.*2027 rates.*First submission/);
+    expect((await row.textContent())?.replace(/\s+/g, " ")).toMatch(/JRN-Q18.*Queue walk.*\$73,437\.63.*\$100,000.*2027 rates.*First submission/);
     await row.getByRole("link", { name: NAME }).click();
     await grants.waitForURL(scenarioUrl);
     await grants.getByLabel("Reason for returning").fill(RETURN_REASON);
@@ -175,7 +175,7 @@ describe("the grants officer", () => {
     // The investigator changes attrition, saves and resubmits.
     await pi.reload();
     await textField(pi, "Attrition").fill("0.36");
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await pi.getByRole("button", { name: "Save changes" }).click();
     await pi.getByText("Saved, with its results.").waitFor();
     await clickAndConfirm(pi, pi.getByTestId("submit-review"));
@@ -184,8 +184,8 @@ describe("the grants officer", () => {
     await grants.goto(`${baseUrl}/review`);
     const again = grants.getByRole("row").filter({ hasText: NAME });
     const since = await waitForText(again.getByTestId("since-return"), /changed/);
-    expect(since.replace(/\s+/g, " ")).toMatch(/Returned \d{4}-\d{2}-\d{2} \(“Attrition of 20% is low.*”\): changed Attrition; total \+\$12,363\.50\./);
-    expect(await again.textContent()).toContain("$87,170.50");
+    expect(since.replace(/\s+/g, " ")).toMatch(/Returned \d{4}-\d{2}-\d{2} \(“Attrition of 20% is low.*”\): changed Attrition; total \+\$13,276\.41\./);
+    expect(await again.textContent()).toContain("$86,714.04");
     // The demo study's scenario in review is older, so it comes first.
     const order = await grants.getByTestId("review-queue").getByRole("link").allTextContents();
     expect(order.indexOf("Lean follow-up, 80% power")).toBeLessThan(order.indexOf(NAME));
@@ -264,7 +264,7 @@ describe("finance", () => {
     await fin.waitForURL(/\/review\/scenarios$/);
     const row = fin.getByRole("row").filter({ hasText: NAME });
     const text = (await row.textContent())?.replace(/\s+/g, " ") ?? "";
-    expect(text).toMatch(/JRN-Q18.*Queue walk.*Cleared.*\$87,170\.50.*2027 rates.*\d{4}-\d{2}-\d{2}.*Workbook/);
+    expect(text).toMatch(/JRN-Q18.*Queue walk.*Cleared.*\$86,714\.04.*2027 rates.*\d{4}-\d{2}-\d{2}.*Workbook/);
     const demo = fin.getByRole("row").filter({ hasText: "Lean follow-up, 80% power" });
     expect(await demo.textContent()).toContain("In review");
     // Drafts are not listed.

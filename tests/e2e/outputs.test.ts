@@ -10,11 +10,12 @@ import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, printToText
  * justification edited and then flagged when the figures move, and the printable report printed to
  * PDF by headless Chromium and read back with poppler's pdftotext.
  *
- * Figures: the hand-worked plan of journey-investigator.test.ts (demo rate book "2027 rates"):
- * every line is whole dollars (screening 200 × $85, …), F&A 47,800 × 56.5% = $27,007.00, total
- * $74,807.00, so the sponsor's format shows $74,807 with no rounding difference. With attrition 0.36
- * the ledger's F&A is 55,700 × 56.5% = $31,470.50 → $31,471 in whole dollars (half-up), total
- * $87,171 against $87,170.50 in cents: a rounding difference of $0.50.
+ * Figures: the hand-worked plan of journey-investigator.test.ts (demo rate book "2027 rates"): every
+ * line is whole dollars (screening 200 × $85, …; the annual site fee prorated to the 9-month study,
+ * 3,500 × 9/12 = 2,625), direct 46,925, F&A × 56.5% = $26,512.63 → $26,513, total $73,437.63, so the
+ * sponsor's format shows $73,438, $0.37 above the cents. With attrition 0.36 (an 11-month study: annual
+ * fee 3,208.33 → $3,208) direct 55,408.33, F&A $31,305.71 → $31,306, total $86,714 against $86,714.04
+ * in cents: a rounding difference of −$0.04.
  * Enrolled: 64 / 0.8 = 80 per arm, 160 in all.
  */
 
@@ -32,7 +33,7 @@ beforeAll(async () => {
   await pi.getByRole("link", { name: "New scenario" }).click();
   await pi.waitForURL(/\/scenarios\/new$/);
   await fillHandWorkedScenario(pi, "Printed plan");
-  await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
   await pi.getByRole("button", { name: "Create scenario" }).click();
   await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
   scenarioUrl = pi.url().replace(/\?.*$/, "");
@@ -50,8 +51,9 @@ describe("the investigator's outputs", () => {
     const sponsor = pi.getByTestId("sponsor-budget");
     await sponsor.waitFor();
     const total = (await pi.getByTestId("sponsor-total").textContent())!;
-    expect(amounts(total)).toEqual(["$74,807", "$74,807"]);
-    expect(amounts((await pi.getByTestId("sponsor-rounding").textContent())!)).toEqual(["$0.00", "$0.00"]);
+    expect(amounts(total)).toEqual(["$73,438", "$73,438"]);
+    // F&A $26,512.63 → $26,513: the whole-dollar total is $0.37 above the cents ledger's.
+    expect(amounts((await pi.getByTestId("sponsor-rounding").textContent())!)).toEqual(["$0.37", "$0.37"]);
     expect(await sponsor.textContent()).toContain("F. Other direct costs");
     expect(await sponsor.textContent()).not.toMatch(/site-fees|participant-support/);
   }, 120_000);
@@ -92,22 +94,22 @@ describe("the investigator's outputs", () => {
     const generated = await box.inputValue();
     expect(generated).toContain("F. Other direct costs");
     expect(generated).toContain("F&A at the institution's rate of 56.5% on modified total direct costs");
-    expect(generated).toContain("total $74,807 over 1 budget period");
+    expect(generated).toContain("total $73,438 over 1 budget period");
     await box.fill(`${generated}\n\nSite arrangements were agreed with the invented clinic in writing.`);
     await pi.getByRole("button", { name: "Save the budget justification" }).click();
     await pi.getByText("Saved your text, with the figures it quotes.").first().waitFor();
     expect(await pi.getByTestId("budget-justification-mismatch").count()).toBe(0);
-    // The figures move: attrition 0.36 (hand-worked total $87,170.50).
+    // The figures move: attrition 0.36 (hand-worked total $86,714.04).
     await textField(pi, "Attrition").fill("0.36");
-    await waitForText(pi.getByTestId("result-total"), "$87,170.50");
+    await waitForText(pi.getByTestId("result-total"), "$86,714.04");
     await pi.getByRole("button", { name: "Save changes" }).click();
     await pi.waitForURL(/\?saved=1$/);
     const warning = pi.getByTestId("budget-justification-mismatch");
     await warning.waitFor();
-    expect(await warning.textContent()).toContain("Total costs: written for $74,807, now $87,171");
-    // The sponsor's format: F&A $31,470.50 → $31,471; total $87,171 against $87,170.50, a difference of $0.50.
-    expect(amounts((await pi.getByTestId("sponsor-total").textContent())!)).toEqual(["$87,171", "$87,171"]);
-    expect(amounts((await pi.getByTestId("sponsor-rounding").textContent())!)).toEqual(["$0.50", "$0.50"]);
+    expect(await warning.textContent()).toContain("Total costs: written for $73,438, now $86,714");
+    // The sponsor's format: F&A $31,305.71 → $31,306, annual fee $3,208.33 → $3,208; total $86,714 against $86,714.04, a difference of −$0.04.
+    expect(amounts((await pi.getByTestId("sponsor-total").textContent())!)).toEqual(["$86,714", "$86,714"]);
+    expect(amounts((await pi.getByTestId("sponsor-rounding").textContent())!)).toEqual(["$0.04", "$0.04"]);
   }, 180_000);
 
   it("prints the report to PDF whose totals equal the ledger's, with the chart, both justifications and the enrolment table", async () => {
@@ -116,12 +118,12 @@ describe("the investigator's outputs", () => {
     await pi.waitForURL(/\/report$/);
     await pi.getByTestId("print-reach-chart").locator("svg path.recharts-curve").first().waitFor();
     const ledgerTotal = (await pi.getByTestId("report-ledger-total").textContent())!;
-    expect(amounts(ledgerTotal)).toEqual(["$87,170.50", "$87,170.50"]);
+    expect(amounts(ledgerTotal)).toEqual(["$86,714.04", "$86,714.04"]);
     const text = await printToText(pi, "report");
     // The ledger's total row and the sponsor format's, as printed.
-    expect(amounts(rowOf(text, /^Total\s+\$/))).toEqual(["$87,170.50", "$87,170.50"]);
-    expect(amounts(rowOf(text, /^I\. Total costs/))).toEqual(["$87,171", "$87,171"]);
-    expect(amounts(rowOf(text, /^Rounding difference/))).toEqual(["$0.50", "$0.50"]);
+    expect(amounts(rowOf(text, /^Total\s+\$/))).toEqual(["$86,714.04", "$86,714.04"]);
+    expect(amounts(rowOf(text, /^I\. Total costs/))).toEqual(["$86,714", "$86,714"]);
+    expect(amounts(rowOf(text, /^Rounding difference/))).toEqual(["$0.04", "$0.04"]);
     for (const heading of ["Design and sample size", "Sample-size justification", "Funnel", "Timeline", "Reach curve", "Ledger by budget period", "Budget in the sponsor", "Budget justification", "Planned enrolment"]) expect(text, heading).toContain(heading);
     // The enrolment table's total row (the last section): its cells add up to the 200 enrolled.
     fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });

@@ -6,7 +6,7 @@
  * - the administrator sends a reset link: it works once, and a link past its expiry is refused;
  * - the review's e-mails arrive (submitted, returned with the reason, cleared to finance with the
  *   link), and a kind a person turned off in Account settings does not.
- * The figures of the scenario are the hand-worked plan of journey-investigator.test.ts ($74,807.00).
+ * The figures of the scenario are the hand-worked plan of journey-investigator.test.ts ($73,437.63).
  */
 import Database from "better-sqlite3";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
@@ -214,7 +214,7 @@ describe("the review's e-mails", () => {
     await pi.getByRole("link", { name: "New scenario" }).click();
     await pi.waitForURL(/\/scenarios\/new$/);
     await fillHandWorkedScenario(pi, "Reminder letters");
-    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
     await pi.getByRole("button", { name: "Create scenario" }).click();
     await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
     const scenarioUrl = pi.url().replace(/\?.*$/, "");
@@ -244,12 +244,12 @@ describe("the review's e-mails", () => {
     expect(toPi.text).toContain(scenarioPath);
     const toFinance = await mailTo("finance@demo.test", /JRN-MAIL: Reminder letters cleared/, { after: start });
     // The total a person reads on the page, and the link that opens the scenario and its workbook.
-    expect(toFinance.text).toContain("total $74,807.00");
+    expect(toFinance.text).toContain("total $73,437.63");
     const financeLink = toFinance.text.match(/https?:\/\/\S+\/studies\/\d+\/scenarios\/\d+/)![0];
     const finance = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(finance, baseUrl, "finance@demo.test");
     await finance.goto(financeLink);
-    await waitForText(finance.getByTestId("result-total"), "$74,807.00");
+    await waitForText(finance.getByTestId("result-total"), "$73,437.63");
     await finance.close();
 
     // The person who turned "cleared" off got none: wait past two sender rounds, then look.

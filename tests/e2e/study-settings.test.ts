@@ -8,15 +8,16 @@ import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBro
  * study; a cleared scenario keeps its figures and says the settings changed since.
  *
  * Worked by hand for the plan in `fillHandWorkedScenario` (journey-investigator.test.ts has the lines;
- * demo rate book "2027 rates", scripts/demo-data.ts): direct costs $47,800.00, all in MTDC, one budget period.
- * - On-campus 56.5%: F&A 27,007.00, total $74,807.00.
- * - Off-campus 26% (the demo agreement's invented off-campus rate): F&A 47,800 × 0.26 = 12,428.00, total $60,228.00.
- * - Modular (NIH Grants Policy Statement, modular applications): 47,800 ≤ 250,000 → ⌈47,800 / 25,000⌉ = 2 modules.
- * - The sponsor's F&A limit of 10% (below 26%): F&A 47,800 × 0.10 = 4,780.00, total $52,580.00.
+ * demo rate book "2027 rates", scripts/demo-data.ts): direct costs $46,925.00, all in MTDC, one 9-month budget period.
+ * - The plan's direct costs: 46,925 (the annual site fee prorated to the 9-month study, 3,500 × 9/12).
+ * - On-campus 56.5%: F&A 26,512.63, total $73,437.63.
+ * - Off-campus 26% (the demo agreement's invented off-campus rate): F&A 46,925 × 0.26 = 12,200.50, total $59,125.50.
+ * - Modular (NIH Grants Policy Statement, modular applications): 46,925 ≤ 250,000 → ⌈46,925 / 25,000⌉ = 2 modules.
+ * - The sponsor's F&A limit of 10% (below 26%): F&A 46,925 × 0.10 = 4,692.50, total $51,617.50.
  * - A purchase at the demo's equipment threshold of $10,000 (2 CFR 200.1: "equals or exceeds" → equipment,
- *   outside MTDC): direct 57,800, base 47,800, F&A 4,780.00, total $62,580.00. At $9,999.99 (supplies, in
- *   MTDC): direct and base 57,799.99, F&A 5,779.999 → 5,780.00, total $63,579.99. At $10,000.01: equipment,
- *   direct 57,800.01, F&A 4,780.00, total $62,580.01.
+ *   outside MTDC): direct 56,925, base 46,925, F&A 4,692.50, total $61,617.50. At $9,999.99 (supplies, in
+ *   MTDC): direct and base 56,924.99, F&A 5,692.499 → 5,692.50, total $62,617.49. At $10,000.01: equipment,
+ *   direct 56,925.01, F&A 4,692.50, total $61,617.51.
  */
 
 const baseUrl = inject("baseUrl");
@@ -45,7 +46,7 @@ async function newScenario(name: string): Promise<string> {
   await pi.getByRole("link", { name: "New scenario" }).click();
   await pi.waitForURL(/\/scenarios\/new$/);
   await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
   await pi.getByRole("button", { name: "Create scenario" }).click();
   await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
   return pi.url().replace(/\?.*$/, "");
@@ -81,7 +82,7 @@ describe("the study's settings and sponsor rules", () => {
     await screenshotWidths(pi, "study-settings-saved");
 
     await pi.goto(draftUrl);
-    await waitForText(pi.getByTestId("result-total"), "$60,228.00");
+    await waitForText(pi.getByTestId("result-total"), "$59,125.50");
     await waitForText(pi.getByTestId("recompute-note"), /because .+ changed the study's settings: F&A rate on-campus → off-campus; modular budget off → on\.$/);
     await waitForText(pi.getByTestId("check-modular"), /request 2 modules in period 1 \(2 in all\)/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%.");
@@ -99,7 +100,7 @@ describe("the study's settings and sponsor rules", () => {
     await grants.getByRole("button", { name: "Save the study's settings" }).click();
     await waitForText(grants.getByTestId("settings-saved"), /^Saved\. One draft or returned scenario was recomputed/);
     await pi.goto(draftUrl);
-    await waitForText(pi.getByTestId("result-total"), "$52,580.00");
+    await waitForText(pi.getByTestId("result-total"), "$51,617.50");
     await waitForText(pi.getByTestId("recompute-note"), /changed the study's settings: F&A limit none → 10%\.$/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%; limited by the sponsor to 10%.");
   }, 240_000);
@@ -107,7 +108,7 @@ describe("the study's settings and sponsor rules", () => {
   it("a cleared scenario is untouched, and says the settings changed since", async () => {
     await pi.goto(clearedUrl);
     await pi.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
-    await waitForText(pi.getByTestId("result-total"), "$74,807.00");
+    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
     expect(await pi.getByTestId("recompute-note").count()).toBe(0);
     await waitForText(pi.getByTestId("settings-changed"), /changed since this scenario was cleared; its figures follow the settings it was cleared under/);
     // The co-investigator of the demo study has no settings link on it, and the page says who may change them.
@@ -120,14 +121,14 @@ describe("the study's settings and sponsor rules", () => {
     await textField(pi, /^Item$/).fill("Force plate");
     await textField(pi, "Unit cost").fill("10000");
     await textField(pi, "Quantity").fill("1");
-    await waitForText(pi.getByTestId("result-total"), "$62,580.00");
+    await waitForText(pi.getByTestId("result-total"), "$61,617.50");
     await textField(pi, "Unit cost").fill("9999.99");
-    await waitForText(pi.getByTestId("result-total"), "$63,579.99");
+    await waitForText(pi.getByTestId("result-total"), "$62,617.49");
     await textField(pi, "Unit cost").fill("10000.01");
-    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    await waitForText(pi.getByTestId("result-total"), "$61,617.51");
     await pi.getByRole("button", { name: "Save changes" }).click();
     await pi.getByText("Saved, with its results.").waitFor();
-    await waitForText(pi.getByTestId("result-total"), "$62,580.01");
+    await waitForText(pi.getByTestId("result-total"), "$61,617.51");
     // The line says what it is: quantity × unit cost, equipment.
     await pi.locator("summary", { hasText: /^Cost lines/ }).first().click();
     await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).waitFor();

@@ -100,18 +100,19 @@ describe("the edited justification and its figures", () => {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
     const ws = wb.getWorksheet("Justification")!;
-    expect(ws.getCell("A4").value).toBe("Our own words: 35% screen failure and the rest.");
-    expect(ws.getCell("B3").value).toBe("Against the figures");
-    const warning = String(ws.getCell("B4").value);
+    // The sheet holds both texts: the sample-size justification first (heading in row 4, text in row 5).
+    expect(ws.getCell("A5").value).toBe("Our own words: 35% screen failure and the rest.");
+    expect(ws.getCell("B4").value).toBe("Against the figures");
+    const warning = String(ws.getCell("B5").value);
     expect(warning).toMatch(/^This text no longer matches the scenario's figures\./);
     expect(warning).toContain(SF);
-    expect(ws.getCell("B4").font?.bold).toBe(true);
+    expect(ws.getCell("B5").font?.bold).toBe(true);
     // A generated text says so instead.
     const other = ids["Six sites, 90% power"]!;
     const res2 = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${other}/workbook`, { cookie: c.pi }), params({ scenarioId: String(other) }));
     const wb2 = new ExcelJS.Workbook();
     await wb2.xlsx.load((await res2.arrayBuffer()) as ArrayBuffer);
-    expect(wb2.getWorksheet("Justification")!.getCell("B4").value).toBe("Generated from the scenario's current figures.");
+    expect(wb2.getWorksheet("Justification")!.getCell("B5").value).toBe("Generated from the scenario's current figures.");
   });
 
   it("regenerating goes back to the generated text, which follows the inputs", async () => {

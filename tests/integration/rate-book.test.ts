@@ -65,7 +65,8 @@ describe("reading the rate book", () => {
     // 42 × $38 = 1,596.00 and 58 × $39.14 = 2,270.12.
     const ledger = computeLedger({ ...SMALL_STUDY, visits: [{ name: "Baseline", month: 0, procedures: [{ code: "LAB-PANEL" }] }] }, editionToRateBook(e));
     expect(ledger.lines.find((l) => l.key === "screening")!.amounts).toEqual(["7140.00", "10155.80"]);
-    expect(ledger.lines.find((l) => l.key.startsWith("procedure:LAB-PANEL@"))!.amounts).toEqual(["1596.00", "2270.12"]);
+    // The demo rate book classes the metabolic panel as routine care: priced the same, listed apart from the budget.
+    expect([...ledger.lines, ...ledger.routineCare.lines].find((l) => l.key.includes("LAB-PANEL@"))!.amounts).toEqual(["1596.00", "2270.12"]);
     expect(ledger.faRate).toBe("0.565");
     // And the stored edition prices exactly as the seed's own rate book does.
     expect(ledger.totals).toEqual(computeLedger({ ...SMALL_STUDY, visits: [{ name: "Baseline", month: 0, procedures: [{ code: "LAB-PANEL" }] }] }, demoRateBook(e.id)).totals);

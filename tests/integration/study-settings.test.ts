@@ -101,7 +101,8 @@ describe("the investigator changes the sponsor's rules of their own study", () =
     l.byPeriod.base.forEach((b, p) => expect(l.byPeriod.fa[p]).toBe(new D(b).times("0.1").toDecimalPlaces(2, D.ROUND_HALF_UP).toFixed(2)));
     // The base is the sum of the lines' parts in it, travel's being zero.
     l.byPeriod.base.forEach((b, p) => expect(l.lines.reduce((a, x) => a.plus(x.inBase[p]!), new D(0)).toFixed(2)).toBe(b));
-    expect(l.caps.modular!.modulesByPeriod).toEqual(l.byPeriod.direct.map((d) => new D(d).div(25000).ceil().toNumber()));
+    // Modules count direct costs less consortium F&A (the demo's subaward sites' own indirects; NOT-OD-05-004).
+    expect(l.caps.modular!.modulesByPeriod).toEqual(l.byPeriod.direct.map((d, p) => new D(d).minus(l.byPeriod.consortiumFa[p]!).div(25000).ceil().toNumber()));
     expect(l.caps.priorApproval!.needed).toBe(l.byPeriod.direct.some((d) => new D(d).greaterThanOrEqualTo(500000)));
   });
 

@@ -310,7 +310,8 @@ describe("made for people", () => {
     // No internal codes (site-fees, procedures, participant…), no 1/0 flags.
     for (const c of categories) expect(c, c).not.toMatch(/^[a-z]+(-[a-z]+)*$/);
     expect([...categories]).toEqual(expect.arrayContaining(["Salaries", "Fringe benefits", "Site fees", "Research procedures", "Participant payments"]));
-    expect([...flags].sort()).toEqual(["no", "yes"].filter((f) => flags.has(f)));
+    // A subaward site's line counts in the base only for its first part (the row below it says how much).
+    expect([...flags].sort()).toEqual(["first part (below)", "no", "yes"].filter((f) => flags.has(f)));
     expect(flags.has("yes")).toBe(true);
     // Rates as percentages with two decimals.
     const assumptions = wb.getWorksheet("Assumptions")!;

@@ -44,7 +44,6 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   ws.getCell(`A${r}`).value = "Planned enrolment by month, with the band where 80% of simulated studies fall";
   ws.getCell(`A${r}`).font = { bold: true };
   r++;
-  const head = r;
   ws.getRow(r).values = ["Month of the study", "Planned", "10th percentile", "Median", "90th percentile"];
   ws.getRow(r).font = { bold: true };
   r++;
@@ -66,5 +65,5 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
       r++;
     }
   }
-  finish(ws, ctx.footer, { x: 1, y: head }, `${head}:${head}`, "portrait");
+  finish(ws, ctx.footer, { x: 1, y: 3 }, "1:3", "portrait");
 }
