@@ -2,15 +2,15 @@ import "server-only";
 import type { Transaction } from "kysely";
 import type { Database } from "@/db/types";
 import { formatMoney } from "@/lib/format/money";
-import { clearedForFinanceMail, reviewedMail, submittedMail, type MailMessage } from "@/lib/mail/templates";
+import { clearedForFinanceMail, reviewedMail, submittedMail, withdrawnMail, type MailMessage } from "@/lib/mail/templates";
 import { appUrl } from "@/lib/mail/transport";
 import { enqueueMail } from "./outbox";
 
-export type ReviewEvent = "submit" | "return" | "clear";
+export type ReviewEvent = "submit" | "withdraw" | "return" | "clear";
 
 /**
  * The e-mails of one review event, written into the outbox in the event's transaction (a rolled-back
- * event sends nothing): submitted → the grants officers; returned (with the reason) → the study's
+ * event sends nothing): submitted or withdrawn (with the reason) → the grants officers; returned (with the reason) → the study's
  * investigator and the study's co-investigators; cleared → the same team, and finance. Each recipient's e-mail settings are honoured
  * by the outbox (enqueueMail). One call per event keeps the review code's hook small.
  */
@@ -43,6 +43,9 @@ export async function enqueueReviewMail(
   const messages: MailMessage[] = [];
   if (e.event === "submit") {
     for (const o of await activeIn("grants-officer")) messages.push(submittedMail({ to: o.email, investigator: me.name, scenario: s.name, studyCode: s.code, link }));
+  } else if (e.event === "withdraw") {
+    // The grants office may have opened it already: they hear that it is back with the investigator, and why.
+    for (const o of await activeIn("grants-officer")) messages.push(withdrawnMail({ to: o.email, investigator: me.name, scenario: s.name, studyCode: s.code, reason: e.reason?.trim() ?? "", link }));
   } else {
     const outcome = e.event === "return" ? "returned" : "cleared";
     for (const to of await team()) messages.push(reviewedMail({ to, scenario: s.name, studyCode: s.code, outcome, reason: e.reason?.trim() ?? null, reviewer: me.name, link }));

@@ -394,8 +394,8 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
       ]);
       const results = JSON.parse(row.results_json) as ScenarioResults;
       await recordReviewEvent(trx, { scenarioId: id, userId: actor.id, action, reason: why, total: results.ledger.totals.total, inputsJson: row.inputs_json, at: now });
-      // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing; a withdrawal tells no one.
-      if (action !== "withdraw") await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason: why });
+      // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing.
+      await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason: why });
     });
   kickMailSender();
   return getScenario(actor, id);

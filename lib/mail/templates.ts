@@ -85,6 +85,14 @@ export function submittedMail(o: { to: string; investigator: string; scenario: s
   });
 }
 
+/** A submission taken back before the grants office acted: the officers hear of it, with the reason (the same kind as a submission, so one setting covers both). */
+export function withdrawnMail(o: { to: string; investigator: string; scenario: string; studyCode: string; reason: string; link: string }): MailMessage {
+  return compose("submitted", o.to, `${o.studyCode}: ${o.scenario} withdrawn from review`, [`${o.investigator} withdrew the scenario "${o.scenario}" of ${o.studyCode} from review.`, `Reason: ${o.reason}`], {
+    href: o.link,
+    label: "Open the scenario",
+  });
+}
+
 export function reviewedMail(o: { to: string; scenario: string; studyCode: string; outcome: "returned" | "cleared"; reason: string | null; reviewer: string; link: string }): MailMessage {
   const lines =
     o.outcome === "returned"

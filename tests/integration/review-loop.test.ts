@@ -66,6 +66,10 @@ describe("withdrawing a submission", () => {
     const ok = await review("pi", s.id, { action: "withdraw", reason: "The site count changes next week." });
     expect(ok.status).toBe(200);
     expect((await ok.json()).scenario.state).toBe("draft");
+    // The grants office is told, with the reason, in the same transaction (the outbox row).
+    const told = await getDb().selectFrom("outbox").select(["subject", "text_body"]).where("subject", "like", "%To be withdrawn withdrawn from review").execute();
+    expect(told.length).toBeGreaterThan(0);
+    expect(told[0]!.text_body).toContain("Reason: The site count changes next week.");
     const h = (await history("coi", s.id)).history;
     expect(h.map((e: any) => e.action)).toEqual(["submit", "withdraw"]);
     expect(h[1]).toMatchObject({ who: expect.stringMatching(/\w/), reason: "The site count changes next week.", total: s.results.ledger.totals.total });
