@@ -14,7 +14,8 @@ import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
-import { reachCurveCached } from "@/lib/server/planning-cache";
+import { outlookCached, reachCurveCached } from "@/lib/server/planning-cache";
+import { givenPrior } from "@/lib/planning/schema";
 import { sponsorBudget } from "@/lib/sponsor/budget";
 import { categoryWords } from "@/lib/sponsor/categories";
 import { enrolmentTable } from "@/lib/sponsor/enrolment";
@@ -50,6 +51,10 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
   const sb = sponsorBudget(l);
   const unit = effectUnit(r.effectName).noun;
   const budgetWarning = justificationWarning(s.budgetJustificationCheck);
+  // How likely the plan is, with what is saved with the scenario, as its page shows it.
+  const outlook = outlookCached(ctx.inputs, ctx.results, ctx.rates, ctx.study, { rateSpread: ctx.inputs.uncertainty?.rateSpread, prior: givenPrior(ctx.inputs.uncertainty) });
+  const f = outlook.forecast;
+  const pc = (x: number) => `${Math.round(x * 100)}%`;
   const sampleWarning = justificationWarning(s.justificationCheck);
   return (
     <article className="report flex flex-col gap-6" data-testid="report">
@@ -162,6 +167,44 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
             </li>
           ))}
         </ul>
+      </section>
+
+      <section aria-labelledby="forecast-heading" className="print-keep flex flex-col gap-2" data-testid="report-forecast">
+        <h2 id="forecast-heading">How likely the plan is</h2>
+        <p className="text-sm">
+          Chance of enrolling all {p.funnel.total.enrolled} participants by the planned end of enrolment (the end of month {f.deadlines.enrolment}): {pc(f.probability.byEnrolmentDeadline)}
+          {f.probability.byFundedEnd !== null ? `; in time for the last visits and close-out within the funded period: ${pc(f.probability.byFundedEnd)}` : ""}. Months to enrol if sites vary: median{" "}
+          {f.monthsToEnrol.median.toFixed(1)}, 80th percentile {f.monthsToEnrol.p80.toFixed(1)}, 90th percentile {f.monthsToEnrol.p90.toFixed(1)} (planned {f.plannedMonths.toFixed(1)}). If enrolment
+          takes the 80th percentile, the budget grows by {formatMoney(f.slowEnd[0]!.difference, { cents: false })}; the 90th, by {formatMoney(f.slowEnd[1]!.difference, { cents: false })}.
+          {outlook.assurance ? ` Assurance over the investigator's expectation of the effect: ${outlook.assurance.assurance.toFixed(3)} (power at the target ${outlook.assurance.power.toFixed(3)}).` : ""}
+        </p>
+        <p className="text-xs text-ink-soft">
+          {f.method}; sites&apos; rates vary with a coefficient of variation of {pc(f.rateSpread)} ({f.shapeSource}). A forecast is a model of recruitment, not a promise.
+        </p>
+        <table className="table text-sm">
+          <thead>
+            <tr>
+              <th scope="col">Month</th>
+              <th scope="col" className="num">Planned enrolment</th>
+              <th scope="col" className="num">10th percentile</th>
+              <th scope="col" className="num">Median</th>
+              <th scope="col" className="num">90th percentile</th>
+            </tr>
+          </thead>
+          <tbody>
+            {f.milestones
+              .filter((m, k) => k % Math.max(1, Math.ceil(f.milestones.length / 24)) === 0 || k === f.milestones.length - 1)
+              .map((m) => (
+                <tr key={m.month}>
+                  <td>{m.month + 1}</td>
+                  <td className="num">{m.planned}</td>
+                  <td className="num">{Math.round(m.low)}</td>
+                  <td className="num">{Math.round(m.median)}</td>
+                  <td className="num">{Math.round(m.high)}</td>
+                </tr>
+              ))}
+          </tbody>
+        </table>
       </section>
 
       <section aria-labelledby="curve-heading" className="print-keep flex flex-col gap-2">
