@@ -238,6 +238,24 @@ export async function fillHandWorkedScenario(page: Page, name: string, overrides
   await removeAllRows(page, "Costs: other direct costs");
 }
 
+/** The hand-worked total of fillHandWorkedScenario's plan (worked in journey-investigator.test.ts). */
+export const HAND_WORKED_TOTAL = "$73,437.63";
+
+/**
+ * Creates the hand-worked scenario in a study through the form, as the investigator does, checks the
+ * results beside the form show its hand-worked total before saving, and returns the scenario's URL.
+ */
+export async function createHandWorkedScenario(page: Page, studyUrl: string, name: string): Promise<string> {
+  if (page.url() !== studyUrl) await page.goto(studyUrl);
+  await page.getByRole("link", { name: "New scenario" }).click();
+  await page.waitForURL(/\/scenarios\/new$/);
+  await fillHandWorkedScenario(page, name);
+  await waitForText(page.getByTestId("result-total"), HAND_WORKED_TOTAL);
+  await page.getByRole("button", { name: "Create scenario" }).click();
+  await page.waitForURL(/\/scenarios\/\d+\?saved=1$/);
+  return page.url().replace(/\?.*$/, "");
+}
+
 /**
  * The value a spreadsheet program would show in a cell of a workbook read with exceljs, whose formulas
  * carry no cached results: evaluates the few functions the budget workbook uses (SUM over a range,

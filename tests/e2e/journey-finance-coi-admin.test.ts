@@ -1,7 +1,7 @@
 import { describe, expect, inject, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { readMailbox } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, printToText, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
+import { clickAndConfirm, createStudyFromPage, useBrowser, printToText, screenshotWidths, signIn, textField, waitForText, workbookValue, createHandWorkedScenario } from "./browser";
 
 /**
  * Finance, the co-investigator and the administrator, each through the pages. Where a journey needs
@@ -15,16 +15,6 @@ let browser: Browser;
 
 useBrowser((b) => (browser = b));
 
-async function createScenario(pi: Page, studyUrl: string, name: string): Promise<string> {
-  await pi.goto(studyUrl);
-  await pi.getByRole("link", { name: "New scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/new$/);
-  await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-  await pi.getByRole("button", { name: "Create scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-  return pi.url().replace(/\?.*$/, "");
-}
 
 describe("finance", () => {
   it("finds the scenario in review, downloads its workbook whose grand total is the page's total, saves the report as PDF with the same totals, and sees no draft", async () => {
@@ -32,10 +22,10 @@ describe("finance", () => {
     await signIn(pi, baseUrl, "pi@demo.test");
     const study = { code: "JRN-FIN", title: "Open Air: an invented outdoor exercise trial", sponsor: "Invented Lung Health Fund", cap: "100000", start: "2028-01-01" };
     const studyUrl = await createStudyFromPage(pi, baseUrl, study);
-    await createScenario(pi, studyUrl, "Finance sees this one");
+    await createHandWorkedScenario(pi, studyUrl, "Finance sees this one");
     await clickAndConfirm(pi, pi.getByTestId("submit-review"));
     await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
-    await createScenario(pi, studyUrl, "Still a draft");
+    await createHandWorkedScenario(pi, studyUrl, "Still a draft");
     await pi.close();
 
     const { default: ExcelJS } = await import("exceljs");

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, useBrowser, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario } from "./browser";
 
 /**
  * The grants officer's review, with the investigator's side in a second browser context: return with a
@@ -30,13 +30,7 @@ describe("the grants officer's journey", () => {
   it("returns a scenario with a reason; after the investigator changes an input, saves and resubmits, clears it", async () => {
     // The investigator prepares and submits a scenario.
     const studyUrl = await createStudyFromPage(pi, baseUrl, STUDY);
-    await pi.getByRole("link", { name: "New scenario" }).click();
-    await pi.waitForURL(/\/scenarios\/new$/);
-    await fillHandWorkedScenario(pi, NAME);
-    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-    await pi.getByRole("button", { name: "Create scenario" }).click();
-    await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-    const scenarioUrl = pi.url().replace(/\?.*$/, "");
+    const scenarioUrl = await createHandWorkedScenario(pi, studyUrl, NAME);
     await clickAndConfirm(pi, pi.getByTestId("submit-review"));
     await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
 

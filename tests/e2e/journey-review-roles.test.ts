@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
 
 /**
  * What each role reaches for first (issue 18): the investigator withdraws a submission, reads the review
@@ -31,26 +31,16 @@ let scenarioUrl = "";
 const dollars = (text: string) => Number(text.replace(/[^0-9.]/g, ""));
 const within = (text: string) => new RegExp(text.replace(/[.*+?^${}()|[\]\\]/g, "\\$&"));
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(pi, baseUrl, "pi@demo.test");
   await signIn(grants, baseUrl, "grants@demo.test");
 });
-afterAll(async () => {
-  await browser?.close();
-});
 
 async function newHandWorked(name: string): Promise<string> {
-  await pi.goto(studyUrl);
-  await pi.getByRole("link", { name: "New scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/new$/);
-  await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-  await pi.getByRole("button", { name: "Create scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-  return pi.url().replace(/\?.*$/, "");
+  return createHandWorkedScenario(pi, studyUrl, name);
 }
 
 describe("the investigator", () => {

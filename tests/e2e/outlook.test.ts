@@ -6,22 +6,19 @@
  * assurance checked with R (N(0.5, 0.2²) on d, 86 per group, two-sided 0.05: 0.786). Then each of the
  * other designs shows its assurance with a prior in its own unit.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { jStat } from "@/lib/power/special";
-import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { createStudyFromPage, fillHandWorkedScenario, screenshotWidths, signIn, textField, waitForText, useBrowser } from "./browser";
 import { ensureDesignStudy } from "./design-study";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
 let page: Page;
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(page, baseUrl, "pi@demo.test");
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 const number = (text: string, re: RegExp) => Number(re.exec(text)?.[1] ?? Number.NaN);

@@ -1,8 +1,8 @@
 import fs from "node:fs";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, printToText, SCREENSHOT_DIR, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { createStudyFromPage, printToText, SCREENSHOT_DIR, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
 
 /**
  * The outputs a grants office sends, walked as the investigator does: the sponsor's format on the
@@ -24,23 +24,13 @@ let browser: Browser;
 let pi: Page;
 let scenarioUrl = "";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(pi, baseUrl, "pi@demo.test");
   const studyUrl = await createStudyFromPage(pi, baseUrl, { code: "OUT-PRN", title: "Paper Trail: an invented walking trial for printing", sponsor: "Invented Mobility Fund", cap: "100000", start: "2028-01-01" });
-  await pi.goto(studyUrl);
-  await pi.getByRole("link", { name: "New scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/new$/);
-  await fillHandWorkedScenario(pi, "Printed plan");
-  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-  await pi.getByRole("button", { name: "Create scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-  scenarioUrl = pi.url().replace(/\?.*$/, "");
+  scenarioUrl = await createHandWorkedScenario(pi, studyUrl, "Printed plan");
 }, 300_000);
-afterAll(async () => {
-  await browser?.close();
-});
 
 const rowOf = (text: string, start: RegExp) => text.split("\n").map((l) => l.trim()).find((l) => start.test(l)) ?? "";
 const amounts = (line: string) => line.match(/\$[\d,]+(?:\.\d{2})?/g) ?? [];

@@ -9,22 +9,17 @@
  * The figures of the scenario are the hand-worked plan of journey-investigator.test.ts ($73,437.63).
  */
 import Database from "better-sqlite3";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { readMailbox, type StoredMail } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, screenshotWidths, signIn, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const mailboxDir = inject("mailboxDir");
 const databasePath = inject("databasePath");
 let browser: Browser;
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((b) => (browser = b));
 
 /** The first message to `to` whose subject matches, waiting for the outbox's sender (it runs every 2 s). */
 async function mailTo(to: string, subject: RegExp, opts: { after?: number; timeout?: number } = {}): Promise<StoredMail> {
@@ -210,14 +205,7 @@ describe("the review's e-mails", () => {
     await signIn(grants, baseUrl, "grants@demo.test");
     const study = { code: "JRN-MAIL", title: "Letters Home: an invented postal reminder trial", sponsor: "Invented Post Fund", cap: "100000", start: "2028-01-01" };
     const studyUrl = await createStudyFromPage(pi, baseUrl, study);
-    await pi.goto(studyUrl);
-    await pi.getByRole("link", { name: "New scenario" }).click();
-    await pi.waitForURL(/\/scenarios\/new$/);
-    await fillHandWorkedScenario(pi, "Reminder letters");
-    await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-    await pi.getByRole("button", { name: "Create scenario" }).click();
-    await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-    const scenarioUrl = pi.url().replace(/\?.*$/, "");
+    const scenarioUrl = await createHandWorkedScenario(pi, studyUrl, "Reminder letters");
     const scenarioPath = new URL(scenarioUrl).pathname;
 
     const start = Date.now() - 1000;

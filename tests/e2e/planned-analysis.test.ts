@@ -3,9 +3,9 @@
  * ANCOVA and a several-arm design, through the calculator and through the scenario form, reading the
  * n against the published values (sources beside each figure).
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshot, signIn, textField } from "./browser";
+import { createStudyFromPage, fillHandWorkedScenario, screenshot, signIn, textField, useBrowser } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const JOURNEY = 180_000;
@@ -13,16 +13,13 @@ let browser: Browser;
 let page: Page;
 let studyUrl = "";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   page.setDefaultTimeout(60_000);
   await signIn(page, baseUrl, "pi@demo.test");
   studyUrl = await createStudyFromPage(page, baseUrl, { code: "PLAN-16", title: "Planned analysis journeys", sponsor: "Invented Health Foundation", cap: "2,400,000", start: "2027-07-01" });
 }, 120_000);
-afterAll(async () => {
-  await browser?.close();
-});
 
 const field = (label: string) => page.getByLabel(label, { exact: true });
 const answer = (value: string | RegExp) => page.getByTestId("calc-answer-value").filter({ hasText: value }).waitFor();

@@ -8,13 +8,13 @@
  */
 import Database from "better-sqlite3";
 import Decimal from "decimal.js";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { formatMoney } from "@/lib/format/money";
 import { computeScenario, type ScenarioResults } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { demoRateBook } from "@/scripts/demo-data";
-import { launchBrowser, pageAs, screenshot, waitForText } from "./browser";
+import { pageAs, screenshot, waitForText, useBrowser } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -36,12 +36,9 @@ function stored(id: number): { inputs: ScenarioInputs; expected: ScenarioResults
 const idOf = (url: string) => Number(/scenarios\/(\d+)/.exec(url)![1]);
 const dollars = (t: string | null) => new Decimal((t ?? "").replace(/[^0-9.]/g, ""));
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
-});
-afterAll(async () => {
-  await browser?.close();
 });
 
 describe("site arrangements, effort spans and procedure classes on the scenario form", () => {

@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, launchBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
 
 /**
  * The study's settings and sponsor rules through the pages: the investigator edits their study and a
@@ -30,26 +30,16 @@ let studyUrl = "";
 let draftUrl = "";
 let clearedUrl = "";
 
+useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  browser = await launchBrowser();
   pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
   await signIn(pi, baseUrl, "pi@demo.test");
   await signIn(grants, baseUrl, "grants@demo.test");
 });
-afterAll(async () => {
-  await browser?.close();
-});
 
 async function newScenario(name: string): Promise<string> {
-  await pi.goto(studyUrl);
-  await pi.getByRole("link", { name: "New scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/new$/);
-  await fillHandWorkedScenario(pi, name);
-  await waitForText(pi.getByTestId("result-total"), "$73,437.63");
-  await pi.getByRole("button", { name: "Create scenario" }).click();
-  await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
-  return pi.url().replace(/\?.*$/, "");
+  return createHandWorkedScenario(pi, studyUrl, name);
 }
 
 describe("the study's settings and sponsor rules", () => {
