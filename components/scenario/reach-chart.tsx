@@ -25,7 +25,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
   const key: [string, string | null] =
     source.kind === "saved"
       ? [`/api/v1/scenarios/${source.scenarioId}/curve?points=96${x === "slow" ? "&slow=1" : ""}`, null]
-      : [source.url, JSON.stringify({ inputs: source.inputs, points: 96 })];
+      : [source.url, JSON.stringify({ inputs: source.inputs, points: 96, ...(x === "slow" ? { slow: true } : {}) })];
   const { data, error, isLoading } = useSWR(key, fetchCurve, { keepPreviousData: true, revalidateOnFocus: false });
   // The curve's own unit (it follows the assumptions it was drawn for), else the caller's.
   const unit = effectUnit(data?.effectName ?? effectName);
@@ -62,7 +62,8 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
             <select className="input py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct" | "slow")} aria-label="Budget axis">
               <option value="budget">total budget</option>
               <option value="direct">direct costs</option>
-              {source.kind === "saved" ? <option value="slow">total budget if enrolment is slow (80th percentile)</option> : null}
+              {/* A scenario's own curve (saved or being edited): the study-level preview of a new scenario has no forecast to draw on. */}
+              {source.kind === "saved" || source.url.includes("/scenarios/") ? <option value="slow">total budget if enrolment is slow (80th percentile)</option> : null}
             </select>
           </label>
         </div>

@@ -123,9 +123,10 @@ function Choice({
 }) {
   const meta = snapshotField(live);
   return (
-    <div className="field">
+    // min-w-0 and w-full: a select otherwise takes its longest option's width and pushes a phone's page sideways.
+    <div className="field min-w-0">
       <label htmlFor={meta.id}>{label}</label>
-      <select {...getSelectProps(meta as FieldMetadata<string>)} key={meta.key} className="input" onChange={onChange}>
+      <select {...getSelectProps(meta as FieldMetadata<string>)} key={meta.key} className="input w-full min-w-0" onChange={onChange}>
         {options.map(([v, l]) => (
           <option key={v} value={v}>
             {l}
@@ -164,7 +165,7 @@ function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSp
   return (
     <Section title="Uncertainty" id="sec-uncertainty">
       <p className="text-sm text-ink-soft">Optional. Used by “How likely the plan is” below the form: the recruitment forecast and the assurance.</p>
-      <div className="grid gap-4 sm:grid-cols-3">
+      <div className="grid grid-cols-1 gap-4 sm:grid-cols-3">
         <Text meta={u.rateSpread} label={UNCERTAINTY_LABELS.rateSpread} hint={`Coefficient of variation, like 60%. Empty: ${Math.round(100 / Math.sqrt(DEFAULT_RATE_SHAPE))}%, the published spread`} />
         <Text meta={p.mean} label={`${UNCERTAINTY_LABELS.priorMean} (${hr ? "hazard ratio" : unit.symbol})`} hint={hr ? "Your best guess of the true hazard ratio" : `Your best guess of the true ${unit.noun}`} />
         <Text meta={p.sd} label={`${UNCERTAINTY_LABELS.priorSd}, ${hr ? "of the log hazard ratio" : `in ${unit.symbol}`}`} hint="How far the true effect may plausibly be from it" />
@@ -210,7 +211,7 @@ function PlannedAnalysis({ d, design }: { d: AnalysisFields; design: Design }) {
         ? "A risk difference, e.g. 0.10; the target p2 is the expected proportion"
         : "In the effect's units (outcome units with a mean difference, SD units with d); the target is then the expected true difference, 0 or negative allowed";
   return (
-    <div className="mt-4 grid gap-4 border-t border-line pt-4 sm:grid-cols-2" data-testid="planned-analysis">
+    <div className="mt-4 grid grid-cols-1 gap-4 border-t border-line pt-4 sm:grid-cols-2" data-testid="planned-analysis">
       <Choice meta={d.hypothesis} label="Hypothesis" options={HYPOTHESIS_OPTIONS} />
       {margined ? (
         <>
@@ -412,11 +413,11 @@ export function ScenarioForm({
           </p>
         ) : null}
         <ErrorSummary formId={form.id} errors={form.allErrors} />
-        <div className="card grid gap-4 sm:grid-cols-2">
+        <div className="card grid grid-cols-1 gap-4 sm:grid-cols-2">
           <Text meta={fields.name} label="Scenario name" wide />
         </div>
         <Section title="Design" id="sec-design">
-          <div className="grid gap-4 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
             <Choice meta={d.design} label="Design" options={Object.entries(DESIGN_NAMES)} onChange={onDesignChange} />
             <Text meta={d.outcome} label="Primary outcome" />
             <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05 or 5%" />
@@ -510,7 +511,7 @@ export function ScenarioForm({
         </Section>
 
         <Section title="Recruitment" id="sec-recruitment">
-          <div className="grid gap-4 sm:grid-cols-3">
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-3">
             {!cluster ? <Text meta={r.sites} label="Sites" /> : null}
             {!cluster ? <Text meta={r.maxEnrolmentMonths} label="Enrolment deadline (months)" hint="Optional: sites are added to meet it" /> : null}
             <Text meta={r.ratePerSiteMonth} label="Enrolled per site per month" />
@@ -523,7 +524,7 @@ export function ScenarioForm({
           </div>
           {cluster ? (
             <>
-              <div className="grid gap-4 sm:grid-cols-3">
+              <div className="grid grid-cols-1 gap-4 sm:grid-cols-3">
                 <Text meta={r.clustersPerSite} label="Clusters per site" hint="Like 4 classrooms a school; 1 when each cluster is its own site" />
                 <Text meta={r.clusterSetupCost} label="Set-up per cluster" hint="Optional, dollars" />
                 <Text meta={r.clusterAnnualFee} label="Fee per cluster per year" hint="Optional, dollars" />
@@ -544,7 +545,7 @@ export function ScenarioForm({
             const visitLabel = `Visit ${idx + 1}`;
             return (
               <div key={v.key} role="group" aria-label={visitLabel} className="flex flex-col gap-3 border-b border-rule pb-4">
-                <div className="grid items-end gap-3 sm:grid-cols-[1fr_6rem_auto]">
+                <div className="grid grid-cols-1 items-end gap-3 sm:grid-cols-[1fr_6rem_auto]">
                   <Text meta={f.name} label={visitLabel} />
                   <Text meta={f.month} label="Month" />
                   <button {...form.remove.getButtonProps({ name: i.visits.name, index: idx })} className="btn btn-danger justify-self-start py-1">
@@ -562,7 +563,7 @@ export function ScenarioForm({
                 {oneOffs.map((o, k) => {
                   const g = o.getFieldset();
                   return (
-                    <div key={o.key} className="grid items-end gap-3 rounded-md border border-brass/40 bg-brass-tint/40 p-3 sm:grid-cols-[2fr_1fr_auto]">
+                    <div key={o.key} className="grid grid-cols-1 items-end gap-3 rounded-md border border-brass/40 bg-brass-tint/40 p-3 sm:grid-cols-[2fr_1fr_auto]">
                       <Text meta={g.name} label={PROCEDURE_LABELS.oneOffName} hint="Not in the rate book: for the grants office's review" />
                       <Text meta={g.cost} label={PROCEDURE_LABELS.oneOffCost} hint="Dollars per participant visit" />
                       <button
@@ -594,7 +595,7 @@ export function ScenarioForm({
           {classRows.map((row, idx) => {
             const f = row.getFieldset();
             return (
-              <div key={row.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              <div key={row.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Choice meta={f.code} label={`Procedure ${idx + 1}`} options={procedureCatalogue.map((p) => [p.code, `${p.code}: ${p.name}`] as const)} />
                 <Choice meta={f.class} label={`Class for this study ${idx + 1}`} options={CLASS_OPTIONS} />
                 <Text meta={f.reason} label={`Reason for the class ${idx + 1}`} wide />
@@ -616,7 +617,7 @@ export function ScenarioForm({
           {personnel.map((p, idx) => {
             const f = p.getFieldset();
             return (
-              <div key={p.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              <div key={p.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
@@ -646,7 +647,7 @@ export function ScenarioForm({
           {siteRows.map((t, idx) => {
             const f = t.getFieldset();
             return (
-              <div key={t.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              <div key={t.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Choice meta={f.arrangement} label={`Site ${idx + 1} arrangement`} options={SITE_ARRANGEMENT_OPTIONS} />
                 <Text meta={f.indirectRate} label={`Site ${idx + 1} subaward indirect rate`} hint="subawards only, like 15%" />
                 <label className="flex items-center gap-1.5 pb-2 text-sm">
@@ -667,7 +668,7 @@ export function ScenarioForm({
           {other.map((o, idx) => {
             const f = o.getFieldset();
             return (
-              <div key={o.key} className="grid items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              <div key={o.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.label} label="Item" />
                 <Choice meta={f.category} label="Category" options={COST_OPTIONS} />
                 <Text meta={f.perPeriod} label="Per budget period" hint="Or, for a purchase, the three fields below" />

@@ -25,7 +25,7 @@ export const curveQuerySchema = z.object({
   /** "1": also the budget each point needs if enrolment is as slow as the forecast's 80th percentile. */
   slow: z.enum(["0", "1"], { error: "slow: 0 or 1." }).default("0"),
 });
-export const previewSchema = z.object({ inputs: scenarioInputsSchema, points: z.number().int().min(8).max(512).optional() });
+export const previewSchema = z.object({ inputs: scenarioInputsSchema, points: z.number().int().min(8).max(512).optional(), slow: z.boolean().optional() });
 
 /** Adopting a planner answer as a new draft: the cheapest design for the target power, or what the sponsor's cap buys. */
 export const adoptSchema = z.object({

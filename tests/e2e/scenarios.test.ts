@@ -54,8 +54,8 @@ describe("the investigator's scenario workspace", () => {
 
   it("compares two scenarios with the differences marked", async () => {
     await page.getByRole("link", { name: "WALK-KNEE" }).first().click();
-    await page.getByLabel("Compare Six sites, 90% power").check();
-    await page.getByLabel("Compare Three sites, longer enrolment").check();
+    await page.getByLabel("Compare Six sites, 90% power", { exact: true }).check();
+    await page.getByLabel("Compare Three sites, longer enrolment", { exact: true }).check();
     await page.getByRole("button", { name: "Compare the chosen scenarios" }).click();
     await page.waitForURL(/\/compare\?/);
     const table = page.getByTestId("comparison");

@@ -10,8 +10,8 @@ const ACCOUNTS = [
   { email: "admin@demo.test", role: "Administrator", nav: ["Rate book", "Accounts", "Outbox"], landing: "/admin/accounts", heading: "Accounts" },
   { email: "pi@demo.test", role: "Investigator", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
   { email: "coi@demo.test", role: "Co-investigator", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
-  { email: "grants@demo.test", role: "Grants officer", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
-  { email: "finance@demo.test", role: "Finance", nav: ["Studies", "Rate book"], landing: "/studies", heading: "Studies" },
+  { email: "grants@demo.test", role: "Grants officer", nav: ["Studies", "Review queue", "In review and cleared", "Rate book"], landing: "/studies", heading: "Studies" },
+  { email: "finance@demo.test", role: "Finance", nav: ["Studies", "In review and cleared", "Rate book"], landing: "/studies", heading: "Studies" },
 ];
 
 describe("each demo account signs in through the form, sees its navigation, and signs out", () => {

@@ -38,6 +38,6 @@ export const GET = withUser<P>(async ({ req, user, params }) => {
 export const POST = withUser<P>(async ({ req, user, params }) => {
   // A role that may never see a study is refused before its body is read, as on every other route.
   if (!roleMay(user, "scenario.view")) throw forbidden();
-  const { inputs, points } = await readJson(req, previewSchema);
-  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), points ?? 64, inputs) });
+  const { inputs, points, slow } = await readJson(req, previewSchema);
+  return json({ curve: await curveFor(user, parseId(params.scenarioId, "That scenario"), points ?? 64, inputs, slow === true) });
 });
