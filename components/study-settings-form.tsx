@@ -64,7 +64,7 @@ export function StudySettingsForm({ studyId, values, offCampusRate, onCampusRate
       <input type="hidden" name="studyId" value={studyId} />
       <input type="hidden" name={fields.updatedAt.name} value={values.updatedAt} />
       <ErrorSummary formId={form.id} errors={form.allErrors} />
-      <fieldset className="grid gap-4 md:grid-cols-2">
+      <fieldset className="grid grid-cols-1 gap-4 md:grid-cols-2">
         <legend className="mb-2 font-medium">The study</legend>
         <div className="md:col-span-2">{text(fields.title, "Title")}</div>
         {text(fields.sponsor, "Sponsor")}
@@ -80,14 +80,14 @@ export function StudySettingsForm({ studyId, values, offCampusRate, onCampusRate
           </select>
         </Field>
       </fieldset>
-      <fieldset className="grid gap-4 md:grid-cols-2">
+      <fieldset className="grid grid-cols-1 gap-4 md:grid-cols-2">
         <legend className="mb-2 font-medium">The sponsor&apos;s rules</legend>
         {text(fields.sponsorCap, "Total cap (USD)", "Total cost over the whole award; empty for none")}
         {text(fields.directPerYear, "Cap on direct costs per year (USD)", "Direct costs in any one budget period; empty for none")}
         {check(fields.modular, "Modular budget", "At most $250,000 direct costs a year in $25,000 modules, counted on direct costs less consortium F&A (NIH Grants Policy Statement; NOT-OD-05-004)")}
         {check(fields.priorApproval, "Prior-approval test", "$500,000 or more direct costs (less consortium F&A) in any year needs the sponsor's agreement before submission (NIH Grants Policy Statement 2.3.7.2)")}
       </fieldset>
-      <fieldset className="grid gap-4 md:grid-cols-2">
+      <fieldset className="grid grid-cols-1 gap-4 md:grid-cols-2">
         <legend className="mb-2 font-medium">F&amp;A</legend>
         <Field id={fields.faLocation.id} label="F&A rate from the rate agreement" hint="Off-campus: work done mainly in space the institution neither owns nor leases" errors={fields.faLocation.errors}>
           <select {...getSelectProps(fields.faLocation)} key={fields.faLocation.key} className="input" aria-describedby={describedBy(fields.faLocation.id, true, fields.faLocation.errors)}>

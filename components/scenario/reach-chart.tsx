@@ -50,20 +50,20 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
       <div className="flex flex-wrap items-center justify-between gap-2">
         <h2 id="reach-heading">Reach curve</h2>
         <div className="flex flex-wrap gap-3 text-sm">
-          <label className="flex items-center gap-1">
+          <label className="flex min-w-0 max-w-full items-center gap-1">
             Show
-            <select className="input py-0.5" value={view} onChange={(e) => setView(e.target.value as "mdes" | "power")} aria-label="What the chart shows">
+            <select className="input max-w-full py-0.5" value={view} onChange={(e) => setView(e.target.value as "mdes" | "power")} aria-label="What the chart shows">
               <option value="mdes">detectable effect</option>
               <option value="power">power at the target effect</option>
             </select>
           </label>
-          <label className="flex items-center gap-1">
+          <label className="flex min-w-0 max-w-full items-center gap-1">
             against
-            <select className="input py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct" | "slow")} aria-label="Budget axis">
+            <select className="input max-w-full py-0.5" value={x} onChange={(e) => setX(e.target.value as "budget" | "direct" | "slow")} aria-label="Budget axis">
               <option value="budget">total budget</option>
               <option value="direct">direct costs</option>
               {/* A scenario's own curve (saved or being edited): the study-level preview of a new scenario has no forecast to draw on. */}
-              {source.kind === "saved" || source.url.includes("/scenarios/") ? <option value="slow">total budget if enrolment is slow (80th percentile)</option> : null}
+              {source.kind === "saved" || source.url.includes("/scenarios/") ? <option value="slow">budget if enrolment is slow</option> : null}
             </select>
           </label>
         </div>

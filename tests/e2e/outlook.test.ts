@@ -56,7 +56,7 @@ describe("the investigator reads how likely the plan is", () => {
 
   it("the reach curve against the budget at a slow enrolment: no study costs less than at the planned rate", async () => {
     const planned = await page.getByTestId("reach-chart").getAttribute("data-signature");
-    await page.getByRole("combobox", { name: "Budget axis" }).selectOption({ label: "total budget if enrolment is slow (80th percentile)" });
+    await page.getByRole("combobox", { name: "Budget axis" }).selectOption({ label: "budget if enrolment is slow" });
     await waitForText(page.getByTestId("reach-slow-note"), /Each study is placed at the budget it needs if enrolment takes as long as the recruitment forecast's 80th percentile/);
     const api = await page.evaluate(async (url) => (await (await fetch(url)).json()).curve, page.url().replace(/\/studies\/\d+\/scenarios\/(\d+).*/, "/api/v1/scenarios/$1/curve?points=96&slow=1"));
     expect(api.slow.length).toBeGreaterThan(0);
