@@ -77,7 +77,7 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("check-modular"), /request 2 modules in period 1 \(2 in all\)/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%.");
     await pi.getByTestId("scenario-history").locator("summary").click();
-    await waitForText(pi.getByTestId("scenario-history"), /recompute: Recomputed on .+ F&A rate on-campus → off-campus/);
+    await waitForText(pi.getByTestId("scenario-history"), /recomputed: Recomputed on .+ F&A rate on-campus → off-campus/);
     await pi.goto(studyUrl);
     await pi.getByRole("heading", { level: 1, name: `${STUDY.title}, revised` }).waitFor();
   }, 240_000);
@@ -121,6 +121,6 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("result-total"), "$61,617.51");
     // The line says what it is: quantity × unit cost, equipment.
     await pi.locator("summary", { hasText: /^Cost lines/ }).first().click();
-    await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).waitFor();
+    await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).first().waitFor();
   }, 180_000);
 });
