@@ -74,7 +74,7 @@ export function ScenarioActions({
   const [withdrawState, withdrawDispatch, withdrawPending] = useActionState(reviewAction, undefined);
   const warning: ReactNode = mismatch ? (
     <div className="alert flex flex-col gap-1 text-sm">
-      <p className="font-semibold">The justification no longer matches the scenario&apos;s figures.</p>
+      <p className="font-semibold">An edited justification no longer matches the scenario&apos;s figures.</p>
       <ul className="list-disc pl-5">
         {mismatch.map((line) => (
           <li key={line}>{line}</li>

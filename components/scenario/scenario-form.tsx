@@ -375,6 +375,13 @@ export function ScenarioForm({
   const siteRows = i.sites.getFieldList();
   const classRows = i.procedureClasses.getFieldList();
   const means = isMeansDesign(design);
+  const claim = offersMargin(design) ? ((d.hypothesis.value as string | undefined) ?? "superiority") : "superiority";
+  const marginTest =
+    claim === "non-inferiority"
+      ? "One-sided at alpha: non-inferiority is shown on one side of the margin."
+      : claim === "equivalence"
+        ? "Two one-sided tests, each at alpha: equivalence is shown on both sides of the margin."
+        : null;
   const proportions = isProportionsDesign(design);
   const cluster = isClusterDesign(design);
 
@@ -421,7 +428,16 @@ export function ScenarioForm({
             <Choice meta={d.design} label="Design" options={Object.entries(DESIGN_NAMES)} onChange={onDesignChange} />
             <Text meta={d.outcome} label="Primary outcome" />
             <Text meta={d.alpha} label="Alpha" hint="e.g. 0.05 or 5%" />
-            <Choice meta={d.sides} label="Test" options={SIDES} />
+            {marginTest ? (
+              // Under a margin the test's sides are fixed by the claim; the stored choice is kept for a return to superiority.
+              <div className="field min-w-0" data-testid="margin-test">
+                <input type="hidden" name={d.sides.name} value={String(d.sides.value ?? "2")} />
+                <span className="mb-1 block">Test</span>
+                <p className="hint">{marginTest}</p>
+              </div>
+            ) : (
+              <Choice meta={d.sides} label="Test" options={SIDES} />
+            )}
             <Text meta={d.power} label="Target power" hint="e.g. 0.80 or 80%" />
             {design !== "one-mean" ? <Text meta={d.allocationRatio} label="Allocation ratio (n2 / n1)" /> : null}
             {means ? (

@@ -403,13 +403,22 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
 
 /** What an edited justification no longer matches, in one sentence; null when it holds (or is generated). */
 function justificationMismatch(row: NonNullable<Row>): string | null {
-  if (row.justification === null) return null;
+  if (row.justification === null && row.budget_justification === null) return null;
   const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
   const results = JSON.parse(row.results_json) as ScenarioResults;
-  const check = checkJustification(true, parseFigures(row.justification_figures_json), justificationFigures(inputs, results, studyContext(row)));
-  if (check.status === "changed") return `The justification no longer matches the scenario's figures (${check.changes.map(describeChange).join("; ")}).`;
-  if (check.status === "unrecorded") return "The justification was edited before its figures were recorded, so it cannot be checked against the scenario's figures.";
-  return null;
+  // Both edited texts are checked: the sample-size justification and the budget justification.
+  const texts = [
+    { name: "The justification", edited: row.justification !== null, stored: row.justification_figures_json, now: () => justificationFigures(inputs, results, studyContext(row)) },
+    { name: "The budget justification", edited: row.budget_justification !== null, stored: row.budget_justification_figures_json, now: () => budgetJustificationFigures(inputs, results) },
+  ];
+  const parts: string[] = [];
+  for (const t of texts) {
+    if (!t.edited) continue;
+    const check = checkJustification(true, parseFigures(t.stored), t.now());
+    if (check.status === "changed") parts.push(`${t.name} no longer matches the scenario's figures (${check.changes.map(describeChange).join("; ")}).`);
+    if (check.status === "unrecorded") parts.push(`${t.name} was edited before its figures were recorded, so it cannot be checked against the scenario's figures.`);
+  }
+  return parts.length ? parts.join(" ") : null;
 }
 
 /** Scenarios of one study for the comparison (2 to 4), each one the actor may see. */

@@ -132,6 +132,15 @@ export function mismatchLines(check: JustificationCheck): string[] | null {
   return null;
 }
 
+/** Both edited texts' mismatches for the submit and clear questions, each line saying which text it is about. */
+export function combinedMismatch(sampleSize: JustificationCheck, budget: JustificationCheck): string[] | null {
+  const lines = [
+    ...(mismatchLines(sampleSize) ?? []).map((l) => `Sample-size justification: ${l}`),
+    ...(mismatchLines(budget) ?? []).map((l) => `Budget justification: ${l}`),
+  ];
+  return lines.length ? lines : null;
+}
+
 /** The warning, in one paragraph, for places that have no room for a list (the workbook, a confirmation); null when the text holds. */
 export function justificationWarning(check: JustificationCheck): string | null {
   if (check.status === "changed") {

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import * as sessionRoute from "@/app/api/v1/session/route";
 import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
-import { cloneScenario, getScenario, updateScenario } from "@/db/queries/scenarios";
+import { cloneScenario, getScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { HttpError } from "@/lib/auth/errors";
 import type { ScenarioInputs } from "@/lib/planning/schema";
@@ -73,6 +73,24 @@ describe("the budget justification", () => {
     const back = await edit(id, { budgetJustification: null });
     expect(back.budgetJustificationCheck.status).toBe("generated");
     expect(back.budgetJustification).toBe(back.generatedBudgetJustification);
+  });
+
+  it("submitting with only the budget justification out of date asks first, and says which figures moved", async () => {
+    const id = ids["Three sites, longer enrolment"]!;
+    const s = await getScenario(pi, id);
+    expect(s.justificationEdited).toBe(false);
+    await edit(id, { budgetJustification: `${s.budgetJustification}\n\nWritten before the screen failure was revised.` });
+    await edit(id, { inputs: withScreenFailure(s.inputs, 0.2) });
+    const refused = await reviewScenario(pi, id, "submit").catch((e) => e as HttpError);
+    expect(refused).toBeInstanceOf(HttpError);
+    expect((refused as HttpError).status).toBe(409);
+    expect((refused as HttpError).code).toBe("justification-mismatch");
+    expect((refused as HttpError).message).toMatch(/^The budget justification no longer matches the scenario's figures \(.*Screened: written for \d+, now \d+/);
+    expect((await getScenario(pi, id)).state).toBe("draft");
+    const sent = await reviewScenario(pi, id, "submit", undefined, { acceptJustificationMismatch: true });
+    expect(sent.state).toBe("in-review");
+    await reviewScenario(pi, id, "withdraw", "the budget text is rewritten first");
+    await edit(id, { budgetJustification: null, inputs: s.inputs });
   });
 
   it("only the investigator of a draft may change it", async () => {

@@ -19,7 +19,7 @@ import { reviewHistory } from "@/db/queries/review";
 import { getScenario, scenarioHistory } from "@/db/queries/scenarios";
 import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
-import { mismatchLines } from "@/lib/planning/justification-figures";
+import { combinedMismatch } from "@/lib/planning/justification-figures";
 import { givenPrior } from "@/lib/planning/schema";
 import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
@@ -83,7 +83,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           ) : null}
           <ScenarioActions
           ids={ids}
-          mismatch={mismatchLines(s.justificationCheck)}
+          mismatch={combinedMismatch(s.justificationCheck, s.budgetJustificationCheck)}
           can={{
             submit: can(user, "scenario.submit", ctx) && (s.state === "draft" || s.state === "returned"),
             withdraw: can(user, "scenario.submit", ctx) && s.state === "in-review",
