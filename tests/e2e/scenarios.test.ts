@@ -61,6 +61,14 @@ describe("the investigator's scenario workspace", () => {
     const table = page.getByTestId("comparison");
     await table.waitFor();
     expect(await table.locator("[data-differs]").count()).toBeGreaterThan(3);
+    // Three of the six sites are subawards with their own indirects; the three-site plan has none. Both bill the
+    // metabolic panel to insurance (the demo rate book's routine-care procedure), outside the budget.
+    const cells = async (label: string) => (await table.getByRole("row", { name: label }).getByRole("cell").allTextContents()).map((t) => t.trim());
+    const [sixSub, threeSub] = await cells("of which subawards' own F&A");
+    expect(sixSub).toMatch(/^\$[1-9][\d,]*$/);
+    expect(threeSub).toBe("$0");
+    const care = await cells("Routine care, outside the budget");
+    for (const c of care) expect(c).toMatch(/^\$[1-9][\d,]*$/);
     await screenshot(page, "comparison");
   });
 

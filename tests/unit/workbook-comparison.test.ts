@@ -51,4 +51,34 @@ describe("comparison workbook", () => {
     const wb = await load(buffer);
     expect(wb.getWorksheet("Comparison")!.getCell("A3").value).toBeNull();
   });
+
+  it("sets the subawards' own F&A and routine care beside the totals, each read from its scenario's budget sheet", async () => {
+    const rates = demoRateBook(2);
+    const pick = (name: string): WorkbookScenario => {
+      const inputs = DEMO_SCENARIOS.find((d) => d.name === name)!.inputs;
+      return { name, state: "draft", inputs, results: computeScenario(inputs, rates, { startDate: "2027-01-01", sponsorCap: null }), justification: "", rates };
+    };
+    const six = pick("Six sites, 90% power"); // three of its six sites are subawards
+    const three = pick("Three sites, longer enrolment"); // all internal
+    expect(Number(six.results.ledger.totals.consortiumFa)).toBeGreaterThan(0);
+    expect(Number(three.results.ledger.totals.consortiumFa)).toBe(0);
+    const { buffer } = await buildWorkbook(study, [six, three], "2026-12-02");
+    const ws = (await load(buffer)).getWorksheet("Comparison")!;
+    const rowOf = (label: string) => {
+      let found = 0;
+      ws.eachRow((row, n) => void (row.getCell(1).value === label && (found = n)));
+      return found;
+    };
+    const subRow = rowOf("Of direct costs: subawards' own F&A");
+    expect(subRow).toBeGreaterThan(0);
+    const a = ws.getCell(subRow, 2).value as { formula: string; result: number };
+    expect(a.formula).toMatch(/^'A Budget · Six sites, 90% power'!/);
+    expect(a.result).toBe(Number(six.results.ledger.totals.consortiumFa));
+    expect(ws.getCell(subRow, 3).value).toBe(0);
+    const careRow = rowOf("Routine care, outside the budget");
+    // The metabolic panel is billed to insurance in both (the demo rate book's routine-care class).
+    expect((ws.getCell(careRow, 2).value as { result: number }).result).toBe(Number(six.results.ledger.routineCare.total));
+    expect((ws.getCell(careRow, 3).value as { result: number }).result).toBe(Number(three.results.ledger.routineCare.total));
+    expect(Number(three.results.ledger.routineCare.total)).toBeGreaterThan(0);
+  });
 });

@@ -4,7 +4,18 @@ import { col, quoteSheet, safeText } from "../text";
 import { categoryWords } from "@/lib/sponsor/categories";
 import { defineName, escalationCell, finish, fx, humanDate, MONEY, name, REVIEW_FILL, title, type Ctx, type LineRef, type WorkbookScenario } from "../cells";
 
-export type BudgetLayout = { sheet: string; periods: number; rows: Record<"direct" | "base" | "fa" | "total", number>; lineRows: Map<string, number>; subtotalRows: Record<string, number>; firstCol: number; grandTotal: string };
+/** Where a scenario's budget sheet put its rows; consortiumFa and routineCare are the total rows of those blocks, when the ledger has them. */
+export type BudgetLayout = {
+  sheet: string;
+  periods: number;
+  rows: Record<"direct" | "base" | "fa" | "total", number>;
+  lineRows: Map<string, number>;
+  subtotalRows: Record<string, number>;
+  firstCol: number;
+  grandTotal: string;
+  consortiumFaRow?: number;
+  routineCareRow?: number;
+};
 
 const GROUP_TITLES: Record<string, string> = { personnel: "Personnel", participants: "Participants", sites: "Sites", other: "Other direct costs" };
 
@@ -110,6 +121,8 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   }
   defineName(ctx, ws, `${col(first + P)}${rows.total}`, name(ctx, "GRAND_TOTAL"));
   let extra = rows.total + 2;
+  let consortiumFaRow: number | undefined;
+  let routineCareRow: number | undefined;
   // The subawards' own indirects, inside direct costs: sponsors apply some limits to direct costs less these (NOT-OD-05-004).
   const consortium = ledger.lines.filter((l) => l.consortiumFa);
   if (consortium.length) {
@@ -121,6 +134,7 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
     }
     ws.getCell(extra, first + P).value = fx(`SUM(${col(first)}${extra}:${col(first + P - 1)}${extra})`, Number(ledger.totals.consortiumFa));
     ws.getCell(extra, first + P).numFmt = MONEY;
+    consortiumFaRow = extra;
     extra += 2;
   }
   // Routine care billed to insurance: priced for the coverage decision, outside the budget and every total above.
@@ -142,6 +156,7 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
       extra++;
     }
     ws.getCell(`B${extra}`).value = "Total billed as routine care";
+    routineCareRow = extra;
     ws.getRow(extra).font = { bold: true };
     for (let p = 0; p <= P; p++) {
       ws.getCell(extra, first + p).value = fx(`SUM(${col(first + p)}${start}:${col(first + p)}${extra - 1})`, p < P ? routine.reduce((a, l) => a + Number(l.amounts[p]), 0) : Number(ledger.routineCare!.total));
@@ -151,7 +166,7 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 20 : i === 1 ? 46 : i === 2 ? 12 : 16));
   finish(ws, ctx.footer, { x: 2, y: 4 }, "1:4");
 
-  return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}` };
+  return { sheet: ws.name, periods: P, rows, lineRows, subtotalRows, firstCol: first, grandTotal: `${quoteSheet(ws.name)}!${col(first + P)}${rows.total}`, consortiumFaRow, routineCareRow };
 }
 
 /** The year's amount an "other:i" line was given, as typed in the scenario (null for any other line). */

@@ -79,6 +79,23 @@ export function comparisonSheet(wb: ExcelJS.Workbook, study: WorkbookStudy, list
     });
     r++;
   }
+  // Two amounts a reviewer compares beside the totals, each from its own budget sheet's block (0 where a scenario has none):
+  // the subawards' own F&A inside direct costs, and routine care billed to insurance outside the budget.
+  const extras: [string, keyof Pick<BudgetLayout, "consortiumFaRow" | "routineCareRow">, (s: WorkbookScenario) => string | undefined][] = [
+    ["Of direct costs: subawards' own F&A", "consortiumFaRow", (s) => s.results.ledger.totals.consortiumFa],
+    ["Routine care, outside the budget", "routineCareRow", (s) => s.results.ledger.routineCare?.total],
+  ];
+  for (const [label, key, amount] of extras) {
+    if (!layouts.some((l) => l[key] !== undefined)) continue;
+    ws.getCell(`A${r}`).value = label;
+    layouts.forEach((l, k) => {
+      const cell = ws.getCell(r, 2 + k);
+      const row = l[key];
+      cell.value = row === undefined ? 0 : fx(`${quoteSheet(l.sheet)}!${col(l.firstCol + l.periods)}${row}`, Number(amount(list[k]!) ?? 0));
+      cell.numFmt = MONEY;
+    });
+    r++;
+  }
   ws.columns.forEach((c, i) => (c.width = i === 0 ? 34 : 26));
   finish(ws, footer, { x: 1, y: 4 }, "1:4");
 }

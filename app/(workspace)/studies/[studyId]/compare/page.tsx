@@ -100,8 +100,12 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
     rows: [
       ...Array.from({ length: periods }, (_, p) => ({ label: `Period ${p + 1}`, values: (s: ScenarioDetail) => { const v = s.results.ledger.byPeriod.total[p]; return v === undefined ? "—" : formatMoney(v, { cents: false }); } })),
       { label: "Direct costs", values: (s) => formatMoney(s.results.ledger.totals.direct, { cents: false }) },
+      // Subawards carry their own indirects inside direct costs; some sponsor limits subtract them.
+      { label: "of which subawards' own F&A", values: (s) => formatMoney(s.results.ledger.totals.consortiumFa ?? "0", { cents: false }), onlyIf: (s) => Number(s.results.ledger.totals.consortiumFa ?? 0) > 0 },
       { label: "F&A", values: (s) => formatMoney(s.results.ledger.totals.fa, { cents: false }) },
       { label: "Total", values: (s) => formatMoney(s.results.ledger.totals.total, { cents: false }) },
+      // Billed to participants' insurance: not in the total, but a reviewer compares it too.
+      { label: "Routine care, outside the budget", values: (s) => formatMoney(s.results.ledger.routineCare?.total ?? "0", { cents: false }), onlyIf: (s) => Number(s.results.ledger.routineCare?.total ?? 0) > 0 },
     ],
   };
   // The sponsor's checks, one row per check any of the scenarios has (older ledgers may lack some).
