@@ -2,6 +2,7 @@ import { analysisWords } from "@/lib/planning/analysis-words";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
 import { ONE_OFF_MARK } from "@/lib/costing/types";
+import { classOverridesOf } from "@/lib/costing/procedure-class";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
 import { ScrollRegion } from "@/components/scroll-region";
@@ -77,9 +78,7 @@ function RoutineCare({ ledger }: { ledger: ScenarioResults["ledger"] }) {
 
 /** Procedures this scenario classes differently from the rate book, with the investigator's reasons, for the grants office. */
 function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
-  // Results stored before the ledger listed them: the lines that carry one.
-  const changed =
-    ledger.classOverrides ?? [...ledger.lines, ...(ledger.routineCare?.lines ?? [])].filter((x) => x.classOverride).map((x) => ({ label: x.label, ...x.classOverride! }));
+  const changed = classOverridesOf(ledger);
   if (!changed.length) return null;
   return (
     <div className="notice" data-testid="class-overrides">

@@ -28,3 +28,17 @@ export const PROCEDURE_CLASS_LABELS: Record<ProcedureClass, string> = {
   "patient-care": "patient care",
   "routine-care": "routine care billed to insurance",
 };
+
+/**
+ * The procedures a scenario classes differently from the rate book, in words, with the investigator's reasons.
+ * Results stored before the ledger listed them carry the override on their lines instead.
+ */
+export function classOverridesOf(ledger: {
+  classOverrides?: { label: string; from: string; to: string; reason: string }[];
+  lines: { label: string; classOverride?: { from: string; to: string; reason: string } }[];
+  routineCare?: { lines: { label: string; classOverride?: { from: string; to: string; reason: string } }[] };
+}): { label: string; from: string; to: string; reason: string }[] {
+  const raw = ledger.classOverrides ?? [...ledger.lines, ...(ledger.routineCare?.lines ?? [])].filter((x) => x.classOverride).map((x) => ({ label: x.label, ...x.classOverride! }));
+  const words = (c: string) => PROCEDURE_CLASS_LABELS[c as ProcedureClass] ?? c;
+  return raw.map((o) => ({ ...o, from: words(o.from), to: words(o.to) }));
+}

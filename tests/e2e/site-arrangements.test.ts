@@ -114,7 +114,7 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     await grants.goto(copyUrl);
     const note = grants.getByTestId("class-overrides");
     await note.waitFor();
-    expect(await note.textContent()).toContain("patient-care → research");
+    expect(await note.textContent()).toContain("patient care → research cost");
     expect(await note.textContent()).toContain("Two extra views for the study's own reading; not standard of care");
     await grants.getByTestId("consortium-fa").waitFor();
     await grants.close();

@@ -3,6 +3,7 @@ import { analysisWords } from "@/lib/planning/analysis-words";
 import type ExcelJS from "exceljs";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
+import { classOverridesOf } from "@/lib/costing/procedure-class";
 import { safeText } from "../text";
 import { DATE, dateCell, defineName, finish, fringeName, humanDate, MONEY, name, RATE, title, type Ctx, type WorkbookScenario } from "../cells";
 
@@ -47,7 +48,9 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   add("Design", designName(d.design), undefined, undefined, entered);
   add("Primary outcome", d.outcome, undefined, undefined, entered);
   add("Alpha", d.alpha, undefined, undefined, entered);
-  add("Test", d.sides === 2 ? "two-sided" : "one-sided", undefined, undefined, entered);
+  // Under a margin the claim fixes the test, whatever the stored choice.
+  const test = d.hypothesis === "non-inferiority" ? "one-sided (non-inferiority)" : d.hypothesis === "equivalence" ? "two one-sided tests (equivalence)" : d.sides === 2 ? "two-sided" : "one-sided";
+  add("Test", test, undefined, undefined, entered);
   add("Target power", d.power, "0%", undefined, entered);
   add("Analysis", analysisWords(s.results.power), undefined, undefined, d.marginRationale || d.correlationSource || entered);
   add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
@@ -60,6 +63,15 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   add("Start-up months per site", rc.startupMonths, undefined, undefined, entered);
   add("Months between site activations", rc.staggerMonths, undefined, undefined, entered);
   add("Share of visits a dropout attends", rc.dropoutVisitShare, RATE, undefined, entered);
+  // Procedures the investigator classed differently from the rate book: the grants office reviews each reason.
+  const overrides = classOverridesOf(s.results.ledger);
+  if (overrides.length) {
+    r++;
+    ws.getCell(`A${r}`).value = "Procedures classed differently from the rate book";
+    ws.getCell(`A${r}`).font = { bold: true };
+    r++;
+    for (const o of overrides) add(o.label, `${o.from} → ${o.to}`, undefined, undefined, `Investigator's reason: ${o.reason}`);
+  }
   finish(ws, ctx.footer, { x: 1, y: 4 }, "1:4", "portrait");
   return ws;
 }

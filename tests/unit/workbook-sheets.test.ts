@@ -1,4 +1,4 @@
-/** The comparison workbook: a flag where scenarios were costed with different editions, and distinct, readable sheet names within 31 characters. */
+/** Workbook sheets read as a grants office reads them: the comparison (edition flag, sheet names, subawards and routine care beside the totals) and the assumptions (procedures reclassed, with reasons). */
 import ExcelJS from "exceljs";
 import { describe, expect, it } from "vitest";
 import { computeScenario } from "@/lib/planning/compute";
@@ -21,7 +21,7 @@ async function load(buffer: Buffer) {
   return wb;
 }
 
-describe("comparison workbook", () => {
+describe("workbook sheets", () => {
   it("keeps sheet names distinct and within 31 characters, cut at a word", () => {
     expect(comparisonSheetName("A", "Budget", "Pupil-randomised, four schools")).toBe("A Budget · Pupil-randomised…");
     expect(comparisonSheetName("A", "Sponsor format", "Pupil-randomised, four schools")).toBe("A Sponsor format · Pupil…");
@@ -80,5 +80,20 @@ describe("comparison workbook", () => {
     expect((ws.getCell(careRow, 2).value as { result: number }).result).toBe(Number(six.results.ledger.routineCare.total));
     expect((ws.getCell(careRow, 3).value as { result: number }).result).toBe(Number(three.results.ledger.routineCare.total));
     expect(Number(three.results.ledger.routineCare.total)).toBeGreaterThan(0);
+  });
+
+  it("lists procedures classed differently from the rate book, in words, with the investigator's reason, on the assumptions sheet", async () => {
+    const rates = demoRateBook(2);
+    const base = DEMO_SCENARIOS.find((d) => d.name === "Three sites, longer enrolment")!.inputs;
+    // The metabolic panel is routine care in the demo rate book; this plan prices it as a research cost.
+    const inputs = { ...base, procedureClasses: [{ code: "LAB-PANEL", class: "research" as const, reason: "a research-only panel at month 6" }] };
+    const s: WorkbookScenario = { name: "Reclassed", state: "draft", inputs, results: computeScenario(inputs, rates, { startDate: "2027-01-01", sponsorCap: null }), justification: "", rates };
+    const { buffer } = await buildWorkbook(study, [s], "2026-12-02");
+    const ws = (await load(buffer)).worksheets.find((w) => w.name.startsWith("Assumptions"))!;
+    const rows: string[][] = [];
+    ws.eachRow((row) => rows.push([1, 2, 3, 4].map((c) => String(row.getCell(c).value ?? ""))));
+    const head = rows.findIndex((r) => r[0] === "Procedures classed differently from the rate book");
+    expect(head).toBeGreaterThan(0);
+    expect(rows[head + 1]).toEqual(["Metabolic panel", "", "routine care billed to insurance → research cost", "Investigator's reason: a research-only panel at month 6"]);
   });
 });
