@@ -29,7 +29,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
   const target =
     r.effectName === "effectSize"
       ? d.meanDifference !== undefined && p.sdUsed !== undefined
-        ? `a difference of ${f(d.meanDifference)} units (standard deviation ${f(p.sdUsed)}, standardized effect d = ${f(r.targetEffect)})`
+        ? `a difference of ${f(d.meanDifference)} ${Math.abs(d.meanDifference) === 1 ? "unit" : "units"} on the outcome's scale (standard deviation ${f(p.sdUsed)}, standardized effect d = ${f(r.targetEffect)})`
         : `a standardized effect of d = ${f(r.targetEffect)}`
       : r.effectName === "p2"
         ? `a change from ${f(p.p1 ?? 0)} to ${f(r.targetEffect)} in the proportion with the outcome`
