@@ -723,7 +723,7 @@ export function ScenarioForm({
               : preview.error
                 ? `Out of date: these figures (and the chart) are for earlier inputs. ${preview.error}`
                 : saved
-                  ? `Saved as version ${version}.`
+                  ? `These are the saved figures (the record's version ${version}; each save or review step adds one).`
                   : scenarioId
                     ? `Preview of unsaved changes to version ${version}: save to keep them.`
                     : "Preview: not saved yet. Create the scenario to keep it."}

@@ -48,7 +48,7 @@ async function openStudy(url = studyUrl) {
 
 async function waitForSaved(version: number) {
   await page.getByText(`· version ${version}`).waitFor();
-  await page.getByTestId("results-status").filter({ hasText: `Saved as version ${version}.` }).waitFor();
+  await page.getByTestId("results-status").filter({ hasText: `These are the saved figures (the record's version ${version};` }).waitFor();
 }
 
 /** A cluster design's preview: k + k clusters of m̄, k·m̄ evaluable per arm, costed at 2k sites. */
