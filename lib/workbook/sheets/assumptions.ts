@@ -53,7 +53,7 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
   add("Test", test, undefined, undefined, entered);
   add("Target power", d.power, "0%", undefined, entered);
   add("Analysis", analysisWords(s.results.power), undefined, undefined, d.marginRationale || d.correlationSource || entered);
-  add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, undefined, undefined, d.targetRationale || entered);
+  add(`Target effect (${effectUnit(s.results.effectName).noun})`, s.results.targetEffect, "0.0##", undefined, d.targetRationale || entered);
   if (s.results.power.sdUsed !== undefined) add("Planning SD", s.results.power.sdUsed, undefined, undefined, s.inputs.pilot ? `Pilot data (${s.inputs.pilot.fileName})` : d.sdSource || entered);
   if (d.p1 !== undefined) add("Control proportion", d.p1, undefined, undefined, d.sdSource || entered);
   const rc = s.inputs.recruitment;

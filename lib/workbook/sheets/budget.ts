@@ -25,6 +25,8 @@ export function budgetSheet(ctx: Ctx, s: WorkbookScenario, refs: Map<string, Lin
   title(ws, `Budget by period: ${s.name}`, "Lines rounded to cents per period; subtotals and totals are sums of the rounded lines; F&A = ROUND(base × F&A rate, 2).");
   const first = 4;
   ws.getRow(4).values = ["Category", "Line", "In the F&A base", ...ledger.periods.map((p) => `Period ${p.index + 1}\n${humanDate(p.startDate)} – ${humanDate(p.endDate)}`), "Total"];
+  // Three lines (the period, its dates wrapped): set, since a viewer that does not size rows would clip them.
+  ws.getRow(4).height = 45;
   ws.getRow(4).font = { bold: true };
   ws.getRow(4).alignment = { wrapText: true, vertical: "bottom" };
   let r = 5;

@@ -19,6 +19,8 @@ export function sponsorSheet(ctx: Ctx, s: WorkbookScenario, layout: BudgetLayout
   title(ws, "Budget in the sponsor's format (whole dollars)", "Each line is rounded once to whole dollars from the cents ledger (budget sheet); section and period totals are sums of the rounded lines; the rounding difference to the cents ledger is shown per period.");
   const first = 3;
   ws.getRow(4).values = ["Category", "Line", ...sb.periods.map((p, k) => `Period ${k + 1}\n${humanDate(p.startDate)} – ${humanDate(p.endDate)}`), "Cumulative"];
+  // Three lines (the period, its dates wrapped): set, since a viewer that does not size rows would clip them.
+  ws.getRow(4).height = 45;
   ws.getRow(4).font = { bold: true };
   ws.getRow(4).alignment = { wrapText: true, vertical: "bottom" };
   const budget = quoteSheet(layout.sheet);

@@ -18,7 +18,7 @@ export function summarySheet(ctx: Ctx, study: WorkbookStudy, s: WorkbookScenario
   ws.getCell("A2").alignment = { wrapText: true, vertical: "top" };
   ws.mergeCells("A2:D2");
   ws.getRow(2).height = 30;
-  ws.columns = [{ width: 36 }, { width: 22 }, { width: 22 }, { width: 22 }];
+  ws.columns = [{ width: 56 }, { width: 22 }, { width: 22 }, { width: 22 }];
   const p = s.results.power;
   const l = s.results.ledger;
   const rows: [string, ExcelJS.CellValue, string?][] = [
