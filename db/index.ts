@@ -47,4 +47,10 @@ export async function serializeOn(trx: Transaction<Database>, key: string): Prom
   await sql`select pg_advisory_xact_lock(hashtextextended(${key}, 0))`.execute(trx);
 }
 
+/** The database's disk is full: SQLite's SQLITE_FULL, PostgreSQL's SQLSTATE 53100 (disk_full). */
+export function isStorageFull(err: unknown): boolean {
+  const code = (err as { code?: unknown } | null)?.code;
+  return code === "SQLITE_FULL" || code === "53100";
+}
+
 export type { Database } from "./types";
