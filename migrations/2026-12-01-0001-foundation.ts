@@ -1,17 +1,19 @@
 import { type Kysely, sql } from "kysely";
+import { autoId, nowText } from "./portable";
 
 // Migrations take Kysely<any>: they must keep working when the app's types move on.
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("institutions")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("name", "text", (c) => c.notNull())
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .execute();
 
   await db.schema
     .createTable("users")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("institution_id", "integer", (c) => c.notNull().references("institutions.id"))
     .addColumn("email", "text", (c) => c.notNull().unique())
     .addColumn("name", "text", (c) => c.notNull())
@@ -20,7 +22,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     )
     .addColumn("password_hash", "text", (c) => c.notNull())
     .addColumn("active", "integer", (c) => c.notNull().defaultTo(1).check(sql`active in (0,1)`))
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .addColumn("updated_at", "text", (c) => c.notNull())
     .execute();
 
@@ -28,14 +30,14 @@ export async function up(db: Kysely<any>): Promise<void> {
     .createTable("sessions")
     .addColumn("id", "text", (c) => c.primaryKey())
     .addColumn("user_id", "integer", (c) => c.notNull().references("users.id").onDelete("cascade"))
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .addColumn("expires_at", "text", (c) => c.notNull())
     .execute();
   await db.schema.createIndex("sessions_user").on("sessions").column("user_id").execute();
 
   await db.schema
     .createTable("login_failures")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("email", "text", (c) => c.notNull())
     .addColumn("at", "text", (c) => c.notNull())
     .execute();
@@ -43,7 +45,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await db.schema
     .createTable("studies")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("institution_id", "integer", (c) => c.notNull().references("institutions.id"))
     .addColumn("code", "text", (c) => c.notNull().unique())
     .addColumn("title", "text", (c) => c.notNull())
@@ -51,7 +53,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("sponsor_cap", "text")
     .addColumn("start_date", "text", (c) => c.notNull())
     .addColumn("owner_id", "integer", (c) => c.notNull().references("users.id"))
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .addColumn("updated_at", "text", (c) => c.notNull())
     .execute();
 
@@ -60,14 +62,14 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("study_id", "integer", (c) => c.notNull().references("studies.id").onDelete("cascade"))
     .addColumn("user_id", "integer", (c) => c.notNull().references("users.id").onDelete("cascade"))
     .addColumn("study_role", "text", (c) => c.notNull().check(sql`study_role in ('investigator','co-investigator')`))
-    .addColumn("added_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("added_at", "text", (c) => c.notNull().defaultTo(now))
     .addPrimaryKeyConstraint("study_members_pk", ["study_id", "user_id"])
     .execute();
   await db.schema.createIndex("study_members_user").on("study_members").column("user_id").execute();
 
   await db.schema
     .createTable("audit_log")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("at", "text", (c) => c.notNull())
     .addColumn("user_id", "integer", (c) => c.references("users.id"))
     .addColumn("action", "text", (c) => c.notNull())

@@ -1,11 +1,11 @@
 import { type Kysely, sql } from "kysely";
-
-const now = sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`;
+import { autoId, nowText } from "./portable";
 
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("rate_book_editions")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("institution_id", "integer", (c) => c.notNull().references("institutions.id"))
     .addColumn("label", "text", (c) => c.notNull())
     .addColumn("effective_date", "text", (c) => c.notNull())
@@ -38,7 +38,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await db.schema
     .createTable("rate_book_fringe")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("edition_id", "integer", (c) => c.notNull().references("rate_book_editions.id").onDelete("cascade"))
     .addColumn("category", "text", (c) => c.notNull())
     .addColumn("rate", "text", (c) => c.notNull())
@@ -48,7 +48,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await db.schema
     .createTable("rate_book_procedures")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("edition_id", "integer", (c) => c.notNull().references("rate_book_editions.id").onDelete("cascade"))
     .addColumn("code", "text", (c) => c.notNull())
     .addColumn("name", "text", (c) => c.notNull())
@@ -61,7 +61,7 @@ export async function up(db: Kysely<any>): Promise<void> {
   // A parsed rate sheet waiting for the grants officer to commit or cancel it.
   await db.schema
     .createTable("rate_book_imports")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("edition_id", "integer", (c) => c.notNull().references("rate_book_editions.id").onDelete("cascade"))
     .addColumn("user_id", "integer", (c) => c.notNull().references("users.id"))
     .addColumn("file_name", "text", (c) => c.notNull())

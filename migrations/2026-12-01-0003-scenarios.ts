@@ -1,11 +1,11 @@
 import { type Kysely, sql } from "kysely";
-
-const now = sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`;
+import { autoId, nowText } from "./portable";
 
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("scenarios")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("study_id", "integer", (c) => c.notNull().references("studies.id").onDelete("cascade"))
     .addColumn("name", "text", (c) => c.notNull())
     .addColumn("state", "text", (c) => c.notNull().defaultTo("draft").check(sql`state in ('draft','in-review','returned','cleared')`))

@@ -1,11 +1,11 @@
 import { type Kysely, sql } from "kysely";
-
-const now = sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`;
+import { autoId, nowText } from "./portable";
 
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("comments")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("scenario_id", "integer", (c) => c.notNull().references("scenarios.id").onDelete("cascade"))
     .addColumn("author_id", "integer", (c) => c.notNull().references("users.id"))
     .addColumn("parent_id", "integer", (c) => c.references("comments.id"))
@@ -20,7 +20,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await db.schema
     .createTable("invitations")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("study_id", "integer", (c) => c.notNull().references("studies.id").onDelete("cascade"))
     .addColumn("email", "text", (c) => c.notNull())
     // Only a hash of the token is kept: a leaked database does not leak working links.
@@ -35,7 +35,7 @@ export async function up(db: Kysely<any>): Promise<void> {
   // Messages written in the same transaction as their event, delivered afterwards with retries.
   await db.schema
     .createTable("outbox")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("kind", "text", (c) => c.notNull())
     .addColumn("to_address", "text", (c) => c.notNull())
     .addColumn("subject", "text", (c) => c.notNull())

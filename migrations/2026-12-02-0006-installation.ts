@@ -1,5 +1,6 @@
 import { randomBytes } from "node:crypto";
 import { sql, type Kysely } from "kysely";
+import { nowText } from "./portable";
 
 /**
  * One row naming this installation with a random id, made once when the database is created. Mail
@@ -7,11 +8,12 @@ import { sql, type Kysely } from "kysely";
  * messages a mail store would take for one another.
  */
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("installation")
     .addColumn("id", "integer", (c) => c.primaryKey().check(sql`id = 1`))
     .addColumn("installation_id", "text", (c) => c.notNull())
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .execute();
   await db.insertInto("installation").values({ id: 1, installation_id: randomBytes(12).toString("hex") }).execute();
 }

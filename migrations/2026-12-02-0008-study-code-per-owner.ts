@@ -1,4 +1,5 @@
 import { sql, type Kysely } from "kysely";
+import { isPostgres } from "./portable";
 
 /**
  * Study codes are unique per investigator, not institution-wide: a code taken by another
@@ -30,7 +31,22 @@ async function rebuild(db: Kysely<any>, change: (createSql: string) => string): 
   }
 }
 
+/**
+ * PostgreSQL drops and adds constraints in place, so it needs none of the rebuild: its own statements.
+ * `studies_code_key` is the name PostgreSQL gives the column's UNIQUE constraint (table_column_key).
+ */
+async function moveUniqueOnPostgres(db: Kysely<any>, toOwner: boolean): Promise<void> {
+  if (toOwner) {
+    await db.schema.alterTable("studies").dropConstraint("studies_code_key").execute();
+    await db.schema.alterTable("studies").addUniqueConstraint("studies_owner_code_unique", ["owner_id", "code"]).execute();
+  } else {
+    await db.schema.alterTable("studies").dropConstraint("studies_owner_code_unique").execute();
+    await db.schema.alterTable("studies").addUniqueConstraint("studies_code_key", ["code"]).execute();
+  }
+}
+
 export async function up(db: Kysely<any>): Promise<void> {
+  if (isPostgres(db)) return moveUniqueOnPostgres(db, true);
   await rebuild(db, (create) => {
     if (!CODE_UNIQUE.test(create)) throw new Error("The studies table does not have the expected unique code column.");
     return create.replace(CODE_UNIQUE, '"code" text not null').replace(/\)\s*$/, OWNER_CODE);
@@ -38,5 +54,6 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
+  if (isPostgres(db)) return moveUniqueOnPostgres(db, false);
   await rebuild(db, (create) => create.replace(OWNER_CODE, ")").replace(/"code" text not null/i, '"code" text not null unique'));
 }

@@ -1,4 +1,5 @@
 import { sql, type Kysely } from "kysely";
+import { autoId } from "./portable";
 
 /**
  * A scenario's review history: each submission, withdrawal, return, clearance and recompute, with who,
@@ -9,7 +10,7 @@ import { sql, type Kysely } from "kysely";
 export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .createTable("review_events")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("scenario_id", "integer", (c) => c.notNull().references("scenarios.id").onDelete("cascade"))
     .addColumn("user_id", "integer", (c) => c.references("users.id"))
     .addColumn("at", "text", (c) => c.notNull())

@@ -1,4 +1,5 @@
 import { type Kysely, sql } from "kysely";
+import { autoId, nowText } from "./portable";
 
 /**
  * Password links and e-mail settings.
@@ -8,14 +9,15 @@ import { type Kysely, sql } from "kysely";
  * - `mail_opt_outs`: the kinds of notification e-mail each person has turned off.
  */
 export async function up(db: Kysely<any>): Promise<void> {
+  const now = nowText(db);
   await db.schema
     .createTable("password_links")
-    .addColumn("id", "integer", (c) => c.primaryKey().autoIncrement())
+    .addColumn("id", "integer", autoId(db))
     .addColumn("user_id", "integer", (c) => c.notNull().references("users.id").onDelete("cascade"))
     .addColumn("purpose", "text", (c) => c.notNull().check(sql`purpose in ('welcome','reset')`))
     .addColumn("token_hash", "text", (c) => c.notNull().unique())
     .addColumn("created_by", "integer", (c) => c.references("users.id"))
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .addColumn("expires_at", "text", (c) => c.notNull())
     .addColumn("used_at", "text")
     .addColumn("revoked_at", "text")
@@ -26,7 +28,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .createTable("mail_opt_outs")
     .addColumn("user_id", "integer", (c) => c.notNull().references("users.id").onDelete("cascade"))
     .addColumn("kind", "text", (c) => c.notNull())
-    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn("created_at", "text", (c) => c.notNull().defaultTo(now))
     .addPrimaryKeyConstraint("mail_opt_outs_pk", ["user_id", "kind"])
     .execute();
 }

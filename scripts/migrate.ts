@@ -1,8 +1,8 @@
-import { createKysely, defaultDatabasePath } from "../db/connection";
+import { createKysely, defaultDatabaseTarget } from "../db/connection";
 import { migrateToLatest } from "../db/migrate";
 
-export async function migrate(file = defaultDatabasePath()): Promise<void> {
-  const db = createKysely(file);
+export async function migrate(target = defaultDatabaseTarget()): Promise<void> {
+  const db = createKysely(target);
   try {
     const { results } = await migrateToLatest(db);
     for (const r of results ?? []) console.log(`migration ${r.migrationName}: ${r.status}`);

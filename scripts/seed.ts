@@ -1,5 +1,5 @@
 import type { Kysely } from "kysely";
-import { createKysely, defaultDatabasePath } from "../db/connection";
+import { createKysely, defaultDatabaseTarget } from "../db/connection";
 import type { Database } from "../db/types";
 import { hashPassword } from "../lib/auth/password";
 import type { AccountRole } from "../lib/auth/roles";
@@ -131,9 +131,9 @@ export function assertSeedAllowed(env: NodeJS.ProcessEnv = process.env): void {
   }
 }
 
-export async function seed(file = defaultDatabasePath()): Promise<void> {
+export async function seed(target = defaultDatabaseTarget()): Promise<void> {
   assertSeedAllowed();
-  const db = createKysely(file);
+  const db = createKysely(target);
   try {
     const { seeded } = await seedDemo(db);
     console.log(seeded ? "demo data seeded (invented institution, study and people)" : "database already has accounts; nothing seeded");

@@ -1,21 +1,49 @@
+import { createHash, randomBytes } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import pg from "pg";
 import { closeDb, getDb } from "@/db";
+import { createPostgresKysely } from "@/db/connection";
 import { migrateToLatest } from "@/db/migrate";
+import { migrations } from "@/migrations";
 import { seedDemo } from "@/scripts/seed";
 
 /**
- * A real SQLite file, migrated to the latest schema and seeded with the demo data: one per test file.
- * The app's own getDb() is pointed at it through DATABASE_PATH, exactly as in production.
+ * A real database, migrated to the latest schema and (unless told otherwise) seeded with the demo
+ * data: one per test file. The app's own getDb() is pointed at it exactly as in production.
+ *
+ * - SQLite (the default): a new file in a temporary folder, through DATABASE_PATH.
+ * - PostgreSQL, when the suite runs with TEST_POSTGRES_ADMIN_URL (scripts/pg-cluster.sh run sets it):
+ *   a new database on that server, through DATABASE_URL, dropped after the file. It is cloned from a
+ *   template database migrated and seeded once per schema (CREATE DATABASE … TEMPLATE copies files,
+ *   far quicker than migrating and hashing the demo passwords again for every file).
+ *
+ * Either way `dir` is a temporary folder the test may write files into.
  */
+export const testDatabaseKind = (): "sqlite" | "postgres" => (process.env.TEST_POSTGRES_ADMIN_URL ? "postgres" : "sqlite");
+
+const postgresDatabases = new Map<string, string>();
+
 export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{ file: string; dir: string }> {
   await closeDb();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-test-"));
-  const file = path.join(dir, "test.sqlite");
-  process.env.DATABASE_PATH = file;
   process.env.SESSION_SECRET ??= "test-secret-that-is-long-enough-0123456789";
   process.env.MAIL_AUTOSEND = "0";
+  const admin = process.env.TEST_POSTGRES_ADMIN_URL;
+  if (admin) {
+    const name = `dl_test_${process.pid}_${randomBytes(4).toString("hex")}`;
+    const template = await ensureTemplate(admin, opts.seed !== false);
+    await adminQuery(admin, `create database ${name} template ${template}`);
+    postgresDatabases.set(dir, name);
+    process.env.DATABASE_URL = withDatabase(admin, name);
+    delete process.env.DATABASE_PATH;
+    // Each installation names itself at random (migration 0006); a clone must not share its template's name.
+    await getDb().updateTable("installation").set({ installation_id: randomBytes(12).toString("hex") }).where("id", "=", 1).execute();
+    return { file: "", dir };
+  }
+  const file = path.join(dir, "test.sqlite");
+  process.env.DATABASE_PATH = file;
   const db = getDb();
   await migrateToLatest(db);
   if (opts.seed !== false) await seedDemo(db);
@@ -25,4 +53,58 @@ export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{
 export async function dropDatabase(dir: string): Promise<void> {
   await closeDb();
   fs.rmSync(dir, { recursive: true, force: true });
+  const name = postgresDatabases.get(dir);
+  const admin = process.env.TEST_POSTGRES_ADMIN_URL;
+  if (name && admin) {
+    postgresDatabases.delete(dir);
+    await adminQuery(admin, `drop database if exists ${name} with (force)`);
+  }
+}
+
+function withDatabase(url: string, name: string): string {
+  const u = new URL(url);
+  u.pathname = `/${name}`;
+  return u.toString();
+}
+
+async function adminQuery(admin: string, text: string, values: unknown[] = []): Promise<pg.QueryResult> {
+  const client = new pg.Client({ connectionString: admin });
+  await client.connect();
+  try {
+    return await client.query(text, values);
+  } finally {
+    await client.end();
+  }
+}
+
+/**
+ * The template for this schema (its name carries a hash of the migration list, so a new migration
+ * makes a new template), made once under an advisory lock so that concurrent runs do not race.
+ */
+async function ensureTemplate(admin: string, seeded: boolean): Promise<string> {
+  const schema = createHash("sha256").update(Object.keys(migrations).join("\n")).digest("hex").slice(0, 12);
+  const name = `dl_template_${schema}_${seeded ? "seeded" : "empty"}`;
+  const client = new pg.Client({ connectionString: admin });
+  await client.connect();
+  try {
+    await client.query("select pg_advisory_lock(hashtextextended('delta-ledger-test-template', 0))");
+    const { rowCount } = await client.query("select 1 from pg_database where datname = $1", [name]);
+    if (!rowCount) {
+      const building = `${name}_building`;
+      await client.query(`drop database if exists ${building} with (force)`);
+      await client.query(`create database ${building}`);
+      const db = createPostgresKysely(withDatabase(admin, building), 2);
+      try {
+        await migrateToLatest(db);
+        if (seeded) await seedDemo(db);
+      } finally {
+        await db.destroy();
+      }
+      // Renamed only once complete: a run that died half-way leaves no template that looks ready.
+      await client.query(`alter database ${building} rename to ${name}`);
+    }
+    return name;
+  } finally {
+    await client.end();
+  }
 }
