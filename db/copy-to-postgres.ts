@@ -28,6 +28,10 @@ export type CopyReport = {
   scenarios: number;
   /** Scenarios whose totals were recomputed on both sides and agree (all of them, or the copy is rolled back). */
   totalsAgree: number;
+  /** Of those, the ids of scenarios that no longer compute (their study changed since), failing alike on both sides. */
+  uncomputable: number[];
+  /** Each scenario's recomputed total, as both sides gave it. */
+  totals: { id: number; total: string }[];
 };
 
 export class CopyRefused extends Error {}
@@ -135,7 +139,7 @@ export async function copySqliteToPostgres(sourceFile: string, target: Kysely<Da
       );
     }
     const tables = tablesInOrder(raw);
-    const report: CopyReport = { tables: [], scenarios: 0, totalsAgree: 0 };
+    const report: CopyReport = { tables: [], scenarios: 0, totalsAgree: 0, uncomputable: [], totals: [] };
     await target.transaction().execute(async (trx) => {
       for (const table of tables) {
         const columns = await targetColumns(trx, table);
@@ -176,6 +180,8 @@ export async function copySqliteToPostgres(sourceFile: string, target: Kysely<Da
         const [from, to] = [await recomputedTotal(source, id), await recomputedTotal(trx, id)];
         if (from !== to) throw new Error(`Scenario ${id}'s total recomputes to ${from} from SQLite but ${to} from PostgreSQL; nothing was kept.`);
         report.totalsAgree += 1;
+        if (from.startsWith("cannot compute")) report.uncomputable.push(id);
+        else report.totals.push({ id, total: to });
       }
       report.scenarios = ids.length;
     });

@@ -18,6 +18,7 @@ async function main(): Promise<void> {
     const report = await copySqliteToPostgres(file, target);
     for (const t of report.tables) console.log(`${t.table.padEnd(28)} ${String(t.rows).padStart(8)} rows, same count on both sides`);
     console.log(`${report.scenarios} scenarios: every total recomputed from each side's rows, and they agree (${report.totalsAgree} of ${report.scenarios}).`);
+    if (report.uncomputable.length) console.log(`Scenarios ${report.uncomputable.join(", ")} no longer compute (their study changed since they were saved), alike on both sides.`);
     console.log(`Copied ${file} into PostgreSQL. Point the app at it with DATABASE_URL, and keep the SQLite file until you have checked the app.`);
   } finally {
     await target.destroy();

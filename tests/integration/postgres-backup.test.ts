@@ -11,6 +11,7 @@ import path from "node:path";
 import { promisify } from "node:util";
 import { sql, type Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { restoreDatabase } from "@/db/backup";
 import { backupPostgres, checkArchive, restorePostgres } from "@/db/backup-postgres";
 import { createPostgresKysely, createSqliteKysely } from "@/db/connection";
 import { migrateToLatest } from "@/db/migrate";
@@ -142,6 +143,10 @@ describe.skipIf(skip)(`backups on PostgreSQL${skip ? ` (skipped: ${skip})` : ""}
     await expect(restorePostgres(cut, live.url)).rejects.toThrow(/not touched/);
 
     await expect(restorePostgres(path.join(dir, "missing.pgdump"), live.url)).rejects.toThrow(/No such backup/);
+    // The other way round: a SQLite installation's restore names a PostgreSQL dump for what it is, and keeps its file.
+    const liteBefore = fs.readFileSync(sqliteFile);
+    expect(() => restoreDatabase(good, sqliteFile)).toThrow(/PostgreSQL backup and the database is SQLite.*not touched/);
+    expect(fs.readFileSync(sqliteFile).equals(liteBefore)).toBe(true);
     expect(await counts(db)).toEqual(before);
   }, 120_000);
 });
