@@ -12,13 +12,15 @@ import type { Database } from "./types";
  */
 export type DatabaseKind = "sqlite" | "postgres";
 
+type Env = Record<string, string | undefined>;
+
 const POSTGRES_URL = /^postgres(ql)?:\/\//i;
 
 export function isPostgresUrl(target: string): boolean {
   return POSTGRES_URL.test(target);
 }
 
-export function databaseKind(env: NodeJS.ProcessEnv = process.env): DatabaseKind {
+export function databaseKind(env: Env = process.env): DatabaseKind {
   return env.DATABASE_URL && isPostgresUrl(env.DATABASE_URL) ? "postgres" : "sqlite";
 }
 
@@ -28,14 +30,14 @@ export function kindOf(db: Kysely<any>): DatabaseKind {
 }
 
 /** Where the data lives: the PostgreSQL URL, or the SQLite file. */
-export function defaultDatabaseTarget(env: NodeJS.ProcessEnv = process.env): string {
+export function defaultDatabaseTarget(env: Env = process.env): string {
   return databaseKind(env) === "postgres" ? env.DATABASE_URL! : defaultDatabasePath();
 }
 
 export const DEFAULT_POOL_SIZE = 10;
 
 /** Connections each server process keeps to PostgreSQL (DATABASE_POOL_SIZE, 1 to 100; 10 when unset). */
-export function databasePoolSize(env: NodeJS.ProcessEnv = process.env): number {
+export function databasePoolSize(env: Env = process.env): number {
   const raw = env.DATABASE_POOL_SIZE;
   if (raw === undefined || raw.trim() === "") return DEFAULT_POOL_SIZE;
   const n = Number(raw);

@@ -1,5 +1,5 @@
 import "server-only";
-import { getDb } from "@/db";
+import { getDb, serializeOn } from "@/db";
 import { enforce } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import { mailKindsFor, type OptionalMailKind } from "@/lib/mail/settings";
@@ -26,6 +26,8 @@ export async function saveMailSettings(actor: Actor, on: string[]): Promise<Mail
   const kinds = mailKindsFor(user.role).map((k) => k.kind);
   const turnedOff = kinds.filter((k) => !on.includes(k));
   await db.transaction().execute(async (trx) => {
+    // Two saves at once (two tabs) take turns, as under SQLite's write lock: no duplicate opt-out row.
+    await serializeOn(trx, `mail-settings:${actor.id}`);
     const before = new Set((await trx.selectFrom("mail_opt_outs").select("kind").where("user_id", "=", actor.id).execute()).map((r) => r.kind));
     await trx.deleteFrom("mail_opt_outs").where("user_id", "=", actor.id).where("kind", "in", kinds).execute();
     if (turnedOff.length) await trx.insertInto("mail_opt_outs").values(turnedOff.map((kind) => ({ user_id: actor.id, kind }))).execute();

@@ -1,7 +1,7 @@
 import "server-only";
-import type { Kysely, Transaction } from "kysely";
-import { getDb } from "@/db";
-import type { Database } from "@/db/types";
+import type { Kysely, Selectable, Transaction } from "kysely";
+import { getDb, lockSkippingLocked } from "@/db";
+import type { Database, OutboxTable } from "@/db/types";
 import { enforce } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
 import { outboxMessageId } from "@/lib/mail/message-id";
@@ -52,40 +52,52 @@ const CLAIM_SECONDS = 60;
 const backoffSeconds = (attempts: number) => Math.min(600, 5 * 2 ** Math.max(0, attempts - 1));
 
 /**
- * Delivers due messages. Each is claimed first (so two senders never send one message), sent with a
- * Message-ID fixed by its outbox row and this installation's id (`outboxMessageId`: a receiver drops a
- * repeat after a crash between sending and marking, and never another installation's message), then
- * marked sent; a failure waits with backoff and is tried again.
+ * Claims the oldest due message for CLAIM_SECONDS, or returns null when none is due. The select and the
+ * claim are one transaction: on SQLite it holds the only write lock; on PostgreSQL the row is read
+ * `for update skip locked`, so a sender on another machine passes over a message being claimed and
+ * takes the next one, and never the same one.
+ */
+async function claimNext(db: Kysely<Database>, now: string): Promise<Selectable<OutboxTable> | null> {
+  const claimUntil = new Date(Date.parse(now) + CLAIM_SECONDS * 1000).toISOString();
+  return db.transaction().execute(async (trx) => {
+    const row = await lockSkippingLocked(
+      trx,
+      trx
+        .selectFrom("outbox")
+        .selectAll()
+        .where("sent_at", "is", null)
+        .where("next_attempt_at", "<=", now)
+        .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
+        .orderBy("id")
+        .limit(1),
+    ).executeTakeFirst();
+    if (!row) return null;
+    await trx.updateTable("outbox").set({ claimed_until: claimUntil }).where("id", "=", row.id).execute();
+    return { ...row, claimed_until: claimUntil };
+  });
+}
+
+/**
+ * Delivers due messages. Each is claimed first (so two senders never send one message, claimNext), sent
+ * with a Message-ID fixed by its outbox row and this installation's id (`outboxMessageId`: a receiver
+ * drops a repeat after a crash between sending and marking, and never another installation's message),
+ * then marked sent; a failure waits with backoff and is tried again.
  */
 export async function deliverPending(opts: { now?: Date; limit?: number } = {}): Promise<{ sent: number; failed: number }> {
   const db = getDb();
   const now = (opts.now ?? new Date()).toISOString();
-  const due = await db
-    .selectFrom("outbox")
-    .selectAll()
-    .where("sent_at", "is", null)
-    .where("next_attempt_at", "<=", now)
-    .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
-    .orderBy("id")
-    .limit(opts.limit ?? 50)
-    .execute()
-    .then((rows) => rows.map(revealed));
-  if (!due.length) return { sent: 0, failed: 0 };
+  const limit = opts.limit ?? 50;
+  const first = await claimNext(db, now);
+  if (!first) return { sent: 0, failed: 0 };
   const { installation_id: installationId } = await db.selectFrom("installation").select("installation_id").where("id", "=", 1).executeTakeFirstOrThrow();
   const { transporter, from } = createTransport();
   let sent = 0;
   let failed = 0;
   try {
-    for (const m of due) {
-      const claimUntil = new Date(Date.parse(now) + CLAIM_SECONDS * 1000).toISOString();
-      const claim = await db
-        .updateTable("outbox")
-        .set({ claimed_until: claimUntil })
-        .where("id", "=", m.id)
-        .where("sent_at", "is", null)
-        .where((eb) => eb.or([eb("claimed_until", "is", null), eb("claimed_until", "<", now)]))
-        .executeTakeFirst();
-      if (Number(claim.numUpdatedRows) !== 1) continue;
+    for (let k = 0; k < limit; k++) {
+      const claimed = k === 0 ? first : await claimNext(db, now);
+      if (!claimed) break;
+      const m = revealed(claimed);
       try {
         await transporter.sendMail({ from, to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body, messageId: outboxMessageId(installationId, m) });
         await db.updateTable("outbox").set({ sent_at: new Date().toISOString(), claimed_until: null, attempts: m.attempts + 1, last_error: null, secret: null }).where("id", "=", m.id).execute();

@@ -1,6 +1,6 @@
 import "server-only";
 import type { Kysely, Transaction } from "kysely";
-import { getDb } from "@/db";
+import { getDb, serializeOn } from "@/db";
 import type { Database } from "@/db/types";
 import { enforce, HttpError, notFound } from "@/lib/auth/errors";
 import { decide, type Actor } from "@/lib/auth/permissions";
@@ -202,7 +202,11 @@ export async function createDraft(actor: Actor, input: { label: string; effectiv
 
 async function draftForEdit(trx: Transaction<Database>, actor: Actor, id: number): Promise<EditionDetail> {
   enforce(decide(actor, "ratebook.edit"));
-  const e = Number.isSafeInteger(id) ? await loadEdition(trx, id, await institutionOf(actor, trx)) : null;
+  const inst = await institutionOf(actor, trx);
+  // Edits of one institution's rate book take turns (SQLite's write lock does this already): an edit's
+  // version checks and a publication's look at the other editions stay true until it commits.
+  await serializeOn(trx, `rate-book:${inst}`);
+  const e = Number.isSafeInteger(id) ? await loadEdition(trx, id, inst) : null;
   if (!e) throw notFound("That rate-book edition was not found.");
   if (e.status !== "draft") throw conflict("This edition is published and read-only; start a new draft to change rates.");
   return e;

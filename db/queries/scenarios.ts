@@ -285,7 +285,7 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
   await getDb()
     .transaction()
     .execute(async (trx) => {
-      await trx
+      const saved = await trx
         .updateTable("scenarios")
         .set({
           ...(patch.name !== undefined ? { name: patch.name } : {}),
@@ -302,7 +302,17 @@ export async function updateScenario(actor: Actor, id: number, patch: ScenarioPa
           updated_at: new Date().toISOString(),
         })
         .where("id", "=", id)
-        .execute();
+        // The version read above is checked again by the write itself: of two edits made against one
+        // version, on one server or two, exactly one matches; the other changes nothing and gets a 409.
+        .where("version", "=", row.version)
+        .where("state", "in", EDITABLE)
+        .executeTakeFirst();
+      if (Number(saved.numUpdatedRows) !== 1) {
+        const current = await trx.selectFrom("scenarios").select(["version", "state"]).where("id", "=", id).executeTakeFirst();
+        throw new HttpError(409, "conflict", `This scenario was changed since you opened it${current ? ` (now version ${current.version})` : ""}. Nothing was saved; reload to see the current assumptions.`, undefined, {
+          current: { version: current?.version ?? row.version },
+        });
+      }
       await writeAudit(trx, audit);
       if (editionId !== row.rate_edition_id && results) {
         const was = (JSON.parse(row.results_json) as ScenarioResults).edition.label;
@@ -385,8 +395,10 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
         })
         .where("id", "=", id)
         .where("state", "=", from)
+        // The history records the total and inputs read above: an edit saved in between refuses the step too.
+        .where("version", "=", row.version)
         .executeTakeFirst();
-      // Someone else moved it first (the grants office cleared it as the investigator withdrew it).
+      // Someone else moved or changed it first (the grants office cleared it as the investigator withdrew it).
       if (Number(changed.numUpdatedRows) !== 1) throw new HttpError(409, "wrong-state", `This scenario changed state while you were looking at it; nothing was ${REVIEW_VERB[action]}. Reload to see where it stands.`);
       await writeAudit(trx, [
         { userId: actor.id, action, entity: "scenario", entityId: id, field: "state", oldValue: from, newValue: to },

@@ -1,5 +1,5 @@
 import "server-only";
-import { getDb } from "@/db";
+import { getDb, serializeOn } from "@/db";
 import { dummyPasswordHash, verifyPassword } from "@/lib/auth/password";
 import { LOGIN_MAX_FAILURES, LOGIN_WINDOW_MINUTES } from "@/lib/auth/session-options";
 import { createSession, type SessionUser } from "./sessions";
@@ -11,15 +11,18 @@ export type SignInResult =
 
 /**
  * Counts the attempts in the window and, if there is room, records this one, in one write
- * transaction. Write transactions begin immediate (db/connection.ts), so across every server worker
- * no two attempts count at once: a burst of parallel attempts gets at most LOGIN_MAX_FAILURES
- * password checks, however many it sends. The row stays as a failure unless the password is right.
+ * transaction. On SQLite write transactions begin immediate (db/connection.ts); on PostgreSQL the
+ * transaction first takes a lock named by the e-mail (serializeOn). Either way, across every server
+ * worker and machine no two attempts for one e-mail count at once: a burst of parallel attempts gets
+ * at most LOGIN_MAX_FAILURES password checks, however many it sends. The row stays as a failure
+ * unless the password is right.
  */
 export async function reserveAttempt(email: string, now: Date): Promise<{ ok: true } | { ok: false; retryAfterSeconds: number }> {
   const windowStart = new Date(now.getTime() - LOGIN_WINDOW_MINUTES * 60_000).toISOString();
   return getDb()
     .transaction()
     .execute(async (trx) => {
+      await serializeOn(trx, `sign-in:${email}`);
       const attempts = await trx
         .selectFrom("login_failures")
         .select(["at"])

@@ -1,5 +1,5 @@
 import "server-only";
-import { getDb } from "@/db";
+import { getDb, serializeOn } from "@/db";
 import { enforce, forbidden, HttpError } from "@/lib/auth/errors";
 import { decide, roleMay, type Actor, type Membership } from "@/lib/auth/permissions";
 import type { StudyCreateInput } from "@/lib/studies/schema";
@@ -100,7 +100,9 @@ export async function createStudy(actor: Actor, input: StudyCreateInput): Promis
   const db = getDb();
   return db.transaction().execute(async (trx) => {
     // Codes are unique per investigator (migration 0008): only the user's own studies can conflict,
-    // so the answer says nothing about studies the user cannot see.
+    // so the answer says nothing about studies the user cannot see. One investigator's creations take
+    // turns, so two at once with one code give a 409, not a unique-constraint error.
+    await serializeOn(trx, `study-code:${actor.id}`);
     const taken = await trx.selectFrom("studies").select("id").where("owner_id", "=", actor.id).where("code", "=", input.code).executeTakeFirst();
     if (taken) throw new HttpError(409, "conflict", "You already have a study with that code; choose another.", { code: ["You already have a study with that code; choose another."] });
     const { institution_id } = await trx.selectFrom("users").select("institution_id").where("id", "=", actor.id).executeTakeFirstOrThrow();

@@ -25,14 +25,14 @@ import { ORIGIN, params, request, signInAs } from "../support/http";
 import { deflatedPart, deflatedSpaces, zipOfParts, type RawPart } from "../support/zip";
 
 let dir = "";
-let file = "";
+let target = "";
 const root = path.resolve(import.meta.dirname, "../..");
 const c: Record<string, string> = {};
 let studyId = 0;
 let scenarioId = 0;
 let draftId = 0;
 beforeAll(async () => {
-  ({ dir, file } = await useFreshDatabase());
+  ({ dir, target } = await useFreshDatabase());
   for (const who of ["pi", "grants"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
   studyId = (await getDb().selectFrom("studies").select("id").executeTakeFirstOrThrow()).id;
   scenarioId = (await getDb().selectFrom("scenarios").select("id").where("state", "=", "draft").executeTakeFirstOrThrow()).id;
@@ -159,7 +159,7 @@ describe("sign-in bursts", () => {
   it("two processes (as two server workers) bursting at one account get at most ten checks between them", async () => {
     const burst = () =>
       new Promise<{ invalid: number; throttled: number }>((resolve, reject) => {
-        const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/sign-in-burst.ts"), file, "coi@demo.test", "15"], {
+        const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/sign-in-burst.ts"), target, "coi@demo.test", "15"], {
           cwd: root,
           stdio: ["ignore", "pipe", "inherit"],
         });

@@ -1,4 +1,9 @@
-/** Data that is never lost: backups that restore, crash safety, a full disk, and migrations that keep rows. */
+/**
+ * Data that is never lost: backups that restore, crash safety, a full disk, and migrations that keep rows.
+ * All of it is about SQLite itself (its files, WAL, the write lock across workers, a file system that
+ * fills up), so it runs only in the SQLite pass; PostgreSQL's backups, restores and two-process tests
+ * are in their own files.
+ */
 import { spawn } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -22,9 +27,10 @@ import { migrateToLatest } from "@/db/migrate";
 import { scenarioInputsSchema } from "@/lib/planning/schema";
 import { migrations } from "@/migrations";
 import { seedDemo } from "@/scripts/seed";
-import { dropDatabase, useFreshDatabase } from "../support/db";
+import { dropDatabase, testDatabaseKind, useFreshDatabase } from "../support/db";
 
 const root = path.resolve(import.meta.dirname, "../..");
+const onPostgres = testDatabaseKind() === "postgres";
 let dir = "";
 let file = "";
 beforeAll(async () => {
@@ -46,7 +52,7 @@ const count = (f: string, table: string) => {
   return n;
 };
 
-describe("backups", () => {
+describe.skipIf(onPostgres)("backups", () => {
   it("a backup taken while the app writes is consistent, checked, dated, and restores", async () => {
     const writer = new SQLite(file);
     writer.pragma("journal_mode = WAL");
@@ -88,7 +94,7 @@ describe("backups", () => {
   });
 });
 
-describe("crash safety", () => {
+describe.skipIf(onPostgres)("crash safety", () => {
   it("a writer creating scenarios through createScenario, killed with SIGKILL at random moments, leaves a sound database with whole scenarios only", async () => {
     const crashDb = path.join(dir, "crash.sqlite");
     await copyDb(file, crashDb);
@@ -127,7 +133,7 @@ describe("crash safety", () => {
   }, 120_000);
 });
 
-describe("two server workers on one file", () => {
+describe.skipIf(onPostgres)("two server workers on one file", () => {
   it("read-then-write transactions from two processes neither fail nor lose an update", async () => {
     const shared = path.join(dir, "shared.sqlite");
     await copyDb(file, shared);
@@ -150,7 +156,7 @@ describe("two server workers on one file", () => {
   }, 60_000);
 });
 
-describe("two outbox senders in two processes (as two server workers run them)", () => {
+describe.skipIf(onPostgres)("two outbox senders in two processes (as two server workers run them)", () => {
   it("deliver each queued message exactly once", async () => {
     const shared = path.join(dir, "senders.sqlite");
     await copyDb(file, shared);
@@ -199,7 +205,7 @@ describe("two outbox senders in two processes (as two server workers run them)",
   }, 60_000);
 });
 
-describe("a full disk", () => {
+describe.skipIf(onPostgres)("a full disk", () => {
   it("creating a scenario that does not fit, through the API and through createScenario, fails clearly, rolls back, and leaves the database intact", async () => {
     const small = path.join(dir, "small.sqlite");
     await copyDb(file, small);
@@ -254,7 +260,7 @@ describe("a full disk", () => {
   });
 });
 
-describe("migrations keep every row", () => {
+describe.skipIf(onPostgres)("migrations keep every row", () => {
   const names = Object.keys(migrations);
   for (let k = 1; k < names.length; k++) {
     it(`from ${names[k - 1]} to the latest`, async () => {

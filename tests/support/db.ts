@@ -25,7 +25,11 @@ export const testDatabaseKind = (): "sqlite" | "postgres" => (process.env.TEST_P
 
 const postgresDatabases = new Map<string, string>();
 
-export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{ file: string; dir: string }> {
+/**
+ * `file` is the SQLite file ("" on PostgreSQL); `target` names the database either way (the file, or
+ * the PostgreSQL URL), for a child process that should open the same one (db/connection.ts, createKysely).
+ */
+export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{ file: string; dir: string; target: string }> {
   await closeDb();
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-test-"));
   process.env.SESSION_SECRET ??= "test-secret-that-is-long-enough-0123456789";
@@ -36,18 +40,19 @@ export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{
     const template = await ensureTemplate(admin, opts.seed !== false);
     await adminQuery(admin, `create database ${name} template ${template}`);
     postgresDatabases.set(dir, name);
-    process.env.DATABASE_URL = withDatabase(admin, name);
+    const url = withDatabase(admin, name);
+    process.env.DATABASE_URL = url;
     delete process.env.DATABASE_PATH;
     // Each installation names itself at random (migration 0006); a clone must not share its template's name.
     await getDb().updateTable("installation").set({ installation_id: randomBytes(12).toString("hex") }).where("id", "=", 1).execute();
-    return { file: "", dir };
+    return { file: "", dir, target: url };
   }
   const file = path.join(dir, "test.sqlite");
   process.env.DATABASE_PATH = file;
   const db = getDb();
   await migrateToLatest(db);
   if (opts.seed !== false) await seedDemo(db);
-  return { file, dir };
+  return { file, dir, target: file };
 }
 
 export async function dropDatabase(dir: string): Promise<void> {
@@ -107,4 +112,13 @@ async function ensureTemplate(admin: string, seeded: boolean): Promise<string> {
   } finally {
     await client.end();
   }
+}
+
+/** An empty PostgreSQL database on the test server (for migration tests), and a way to drop it. */
+export async function scratchPostgresDatabase(): Promise<{ url: string; drop: () => Promise<void> }> {
+  const admin = process.env.TEST_POSTGRES_ADMIN_URL;
+  if (!admin) throw new Error("scratchPostgresDatabase needs TEST_POSTGRES_ADMIN_URL (scripts/pg-cluster.sh run sets it).");
+  const name = `dl_scratch_${process.pid}_${randomBytes(4).toString("hex")}`;
+  await adminQuery(admin, `create database ${name}`);
+  return { url: withDatabase(admin, name), drop: () => adminQuery(admin, `drop database if exists ${name} with (force)`).then(() => undefined) };
 }
