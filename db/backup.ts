@@ -10,7 +10,7 @@ import fs from "node:fs";
 import path from "node:path";
 import SQLite from "better-sqlite3";
 import { backupPostgres, describeUrl, restorePostgres } from "./backup-postgres";
-import { defaultDatabasePath } from "./connection";
+import { databaseKind, defaultDatabasePath } from "./connection";
 
 export function integrityOk(file: string): { ok: boolean; detail: string } {
   const db = new SQLite(file, { readonly: true, fileMustExist: true });
@@ -77,8 +77,7 @@ export function restoreDatabase(backup: string, target: string): void {
 
 /** The PostgreSQL URL when the app runs on PostgreSQL, else undefined (SQLite). */
 function postgresUrl(): string | undefined {
-  const url = process.env.DATABASE_URL;
-  return url && /^postgres(ql)?:\/\//.test(url) ? url : undefined;
+  return databaseKind() === "postgres" ? process.env.DATABASE_URL : undefined;
 }
 
 /** `npm run db:backup`: the live database, whichever it is, into DIR; returns the backup's path. */
