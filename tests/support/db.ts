@@ -48,6 +48,8 @@ export async function useFreshDatabase(opts: { seed?: boolean } = {}): Promise<{
     return { file: "", dir, target: url };
   }
   const file = path.join(dir, "test.sqlite");
+  // A DATABASE_URL left in the shell would win over the test file (db/connection.ts): never test against it.
+  delete process.env.DATABASE_URL;
   process.env.DATABASE_PATH = file;
   const db = getDb();
   await migrateToLatest(db);
