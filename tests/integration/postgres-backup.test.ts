@@ -21,7 +21,7 @@ import { postgresSkipReason, scratchDatabase } from "../support/postgres";
 
 const run = promisify(execFile);
 const root = path.resolve(import.meta.dirname, "../..");
-const skip = postgresSkipReason();
+const skip = postgresSkipReason("backups on PostgreSQL");
 
 async function counts(db: Kysely<Database>): Promise<Record<string, number>> {
   const out: Record<string, number> = {};

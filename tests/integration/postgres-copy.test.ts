@@ -24,7 +24,7 @@ import { postgresSkipReason, scratchDatabase } from "../support/postgres";
 
 const run = promisify(execFile);
 const root = path.resolve(import.meta.dirname, "../..");
-const skip = postgresSkipReason();
+const skip = postgresSkipReason("the copy from SQLite to PostgreSQL");
 
 describe.skipIf(skip)(`copying an installation from SQLite to PostgreSQL${skip ? ` (skipped: ${skip})` : ""}`, () => {
   let dir = "";

@@ -23,11 +23,13 @@ import { commentMail } from "@/lib/mail/templates";
 import { readMailbox, startMailServer } from "@/scripts/mail-server";
 import { migrate } from "@/scripts/migrate";
 import { DEMO_PASSWORD, seed } from "@/scripts/seed";
-import { buildIsStale, buildProduction, freeLoopbackPort, startProductionServer, type RunningServer } from "@/scripts/serve";
-import { startOwnCluster, type OwnCluster } from "../support/pg-cluster";
+import { buildIsStale, buildProduction, freeLoopbackPort, root, startProductionServer, type RunningServer } from "@/scripts/serve";
+import { canStartCluster, startOwnCluster, type OwnCluster } from "../support/pg-cluster";
 import { postgresSkipReason } from "../support/postgres";
 
-const skip = postgresSkipReason();
+const skip =
+  postgresSkipReason("two servers on one PostgreSQL database") ??
+  (canStartCluster() ? undefined : (console.log("Skipped two servers on one PostgreSQL database: it stops and starts a cluster of its own, and PostgreSQL's server binaries are not installed."), "no PostgreSQL server binaries"));
 
 async function until<T>(what: string, probe: () => Promise<T | undefined>, ms = 30_000): Promise<T> {
   const end = Date.now() + ms;
@@ -53,7 +55,9 @@ describe.skipIf(skip)(`two application servers on one PostgreSQL database${skip 
   const logs: string[] = [];
 
   beforeAll(async () => {
-    if (buildIsStale()) buildProduction();
+    // As the browser tests do: E2E_REUSE_BUILD=1 keeps an existing build even when sources are newer.
+    const reuse = process.env.E2E_REUSE_BUILD === "1" && fs.existsSync(path.join(root, ".next", "BUILD_ID"));
+    if (!reuse && buildIsStale()) buildProduction();
     tmp = fs.mkdtempSync(path.join(os.tmpdir(), "delta-ledger-two-servers-"));
     cluster = startOwnCluster(Number(process.env.TEST_PG_OWN_PORT) || (await freeLoopbackPort()));
     const admin = createPostgresKysely(cluster.adminUrl, 1);

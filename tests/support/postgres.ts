@@ -12,9 +12,12 @@ export function postgresAdminUrl(): string | undefined {
   return process.env.TEST_POSTGRES_ADMIN_URL || undefined;
 }
 
-/** Why the PostgreSQL tests cannot run here, or undefined when they can. */
-export function postgresSkipReason(): string | undefined {
-  return postgresAdminUrl() ? undefined : "needs PostgreSQL; run the suite's PostgreSQL pass (npm test starts one when PostgreSQL is installed)";
+/** Why the PostgreSQL tests cannot run here (said once on the console), or undefined when they can. */
+export function postgresSkipReason(what = "these tests"): string | undefined {
+  if (postgresAdminUrl()) return undefined;
+  const reason = "needs PostgreSQL; they run in the suite's PostgreSQL pass (npm run test:integration:postgres)";
+  console.log(`Skipped ${what}: ${reason}.`);
+  return reason;
 }
 
 export function urlForDatabase(adminUrl: string, database: string): string {
