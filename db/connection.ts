@@ -119,8 +119,7 @@ const pgTypes = {
 
 /**
  * A pool of DATABASE_POOL_SIZE connections. Unlike SQLite, PostgreSQL runs writers side by side: each
- * read-then-write transaction in db/queries locks what it reads (see db/index.ts, lockForUpdate and
- * serializeOn). A connection the server drops (a restart, a failover) is discarded by the pool, and
+ * read-then-write transaction in db/queries guards what it read (db/index.ts says how). A connection the server drops (a restart, a failover) is discarded by the pool, and
  * the next query opens a new one, so the application reconnects by itself.
  */
 export function createPostgresPool(url: string, max = databasePoolSize()): pg.Pool {

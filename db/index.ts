@@ -22,16 +22,13 @@ export { databaseKind, kindOf, type DatabaseKind };
 /*
  * Read-then-write transactions. On SQLite every write transaction begins immediate (db/connection.ts):
  * it holds the database's only write lock from its first statement, so what it read cannot change
- * before it writes. PostgreSQL lets writers run side by side (read committed), so there a transaction
- * locks what it reads: the rows themselves (lockForUpdate), or, where the thing to protect is the
- * absence or the number of rows (a sign-in throttle's count), a named lock held until commit
- * (serializeOn). Both are no-ops on SQLite, where the write lock already does their work.
+ * before it writes. PostgreSQL lets writers run side by side (read committed), so there each such
+ * transaction gets its own guard: an UPDATE that re-checks what was read (`where version = …`, which
+ * PostgreSQL re-evaluates after waiting for a concurrent writer), rows claimed `for update skip locked`
+ * (lockSkippingLocked), or, where the thing to protect is the absence or the number of rows (a sign-in
+ * throttle's count), a named lock held until commit (serializeOn). The last two are no-ops on SQLite,
+ * where the write lock already does their work.
  */
-
-/** `select … for update` on PostgreSQL: the rows read stay as read until the transaction ends. */
-export function lockForUpdate<DB, TB extends keyof DB, O>(trx: Kysely<any>, qb: SelectQueryBuilder<DB, TB, O>): SelectQueryBuilder<DB, TB, O> {
-  return kindOf(trx) === "postgres" ? qb.forUpdate() : qb;
-}
 
 /** `for update skip locked` on PostgreSQL: each of several concurrent claimers gets different rows. */
 export function lockSkippingLocked<DB, TB extends keyof DB, O>(trx: Kysely<any>, qb: SelectQueryBuilder<DB, TB, O>): SelectQueryBuilder<DB, TB, O> {
@@ -45,6 +42,12 @@ export function lockSkippingLocked<DB, TB extends keyof DB, O>(trx: Kysely<any>,
 export async function serializeOn(trx: Transaction<Database>, key: string): Promise<void> {
   if (kindOf(trx) !== "postgres") return;
   await sql`select pg_advisory_xact_lock(hashtextextended(${key}, 0))`.execute(trx);
+}
+
+/** The database's disk is full: SQLite's SQLITE_FULL, PostgreSQL's SQLSTATE 53100 (disk_full). */
+export function isStorageFull(err: unknown): boolean {
+  const code = (err as { code?: unknown } | null)?.code;
+  return code === "SQLITE_FULL" || code === "53100";
 }
 
 export type { Database } from "./types";

@@ -20,7 +20,7 @@ export interface UsersTable {
   name: string;
   role: AccountRole;
   password_hash: string;
-  /** 1 active, 0 deactivated (SQLite has no boolean). */
+  /** 1 active, 0 deactivated: an integer on both databases (SQLite has no boolean type). */
   active: ColumnType<number, number | undefined, number>;
   created_at: CreatedAt;
   updated_at: string;

@@ -36,7 +36,7 @@ start() {
   # Speed over durability: the cluster is thrown away after the run, so it never waits for the disk.
   as_owner "$bindir/pg_ctl" -D "$dir/data" -l "$dir/server.log" -w -t 60 \
     -o "-c listen_addresses=127.0.0.1 -c port=$port -c unix_socket_directories=$dir -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=200 -c shared_buffers=64MB" \
-    start >/dev/null || { cat "$dir/server.log" >&2; return 1; }
+    start >/dev/null 2>&1 || { cat "$dir/server.log" >&2; return 1; }
   echo "postgres://postgres@127.0.0.1:$port/postgres"
 }
 

@@ -29,7 +29,8 @@ export async function saveMailSettings(actor: Actor, on: string[]): Promise<Mail
     // Two saves at once (two tabs) take turns, as under SQLite's write lock: no duplicate opt-out row.
     await serializeOn(trx, `mail-settings:${actor.id}`);
     const before = new Set((await trx.selectFrom("mail_opt_outs").select("kind").where("user_id", "=", actor.id).execute()).map((r) => r.kind));
-    await trx.deleteFrom("mail_opt_outs").where("user_id", "=", actor.id).where("kind", "in", kinds).execute();
+    // `in ()` is an error on PostgreSQL (SQLite accepts it): a role with no optional kinds deletes nothing.
+    if (kinds.length) await trx.deleteFrom("mail_opt_outs").where("user_id", "=", actor.id).where("kind", "in", kinds).execute();
     if (turnedOff.length) await trx.insertInto("mail_opt_outs").values(turnedOff.map((kind) => ({ user_id: actor.id, kind }))).execute();
     const changed = kinds.filter((k) => before.has(k) !== turnedOff.includes(k));
     await writeAudit(

@@ -1,5 +1,6 @@
 import "server-only";
 import type { z } from "zod";
+import { isStorageFull } from "@/db";
 import { startMailSender } from "@/db/queries/outbox";
 import { findSessionUser, type SessionUser } from "@/db/queries/sessions";
 import { HttpError } from "@/lib/auth/errors";
@@ -31,7 +32,7 @@ export function errorResponse(err: unknown): Response {
     const body = errorBody(err.code, err.message, err.fields);
     return json(err.details ? { error: { ...body.error, ...err.details } } : body, { status: err.status });
   }
-  if ((err as { code?: string })?.code === "SQLITE_FULL") {
+  if (isStorageFull(err)) {
     return jsonError(507, "storage-full", "The server's storage is full, so nothing was saved. Tell your administrator.");
   }
   const id = crypto.randomUUID();
