@@ -1,9 +1,11 @@
-/** `npm run db:backup [DIR]`: a consistent, checked, dated copy of the live database (default ./backups). */
+/**
+ * `npm run db:backup [DIR]`: a consistent, checked, dated copy of the live database (default
+ * ./backups): a SQLite file, or a pg_dump custom-format file when DATABASE_URL names PostgreSQL.
+ */
 import path from "node:path";
-import { backupDatabase } from "../db/backup";
-import { defaultDatabasePath } from "../db/connection";
+import { backupLiveDatabase } from "../db/backup";
 
-backupDatabase(defaultDatabasePath(), process.argv[2] ?? path.join(process.cwd(), "backups"))
+backupLiveDatabase(process.argv[2] ?? path.join(process.cwd(), "backups"))
   .then((file) => console.log(`backup written and checked: ${file}`))
   .catch((err) => {
     console.error(err instanceof Error ? err.message : err);
