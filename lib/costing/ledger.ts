@@ -96,7 +96,15 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     const bySite = enrolledBySite(tl);
     const internal = terms.filter((t) => t.arrangement === "internal");
     const groups = [internal.map((t) => t.index), ...apart.map((t) => [t.index])];
-    const cohorts = groups.map((g) => tl.enrolledByMonth.map((_, m) => g.reduce((a, s) => a + bySite[s]![m]!, 0)));
+    const cohorts = groups.map((g) => {
+      const row: number[] = [];
+      for (let m = 0; m < tl.enrolledByMonth.length; m++) {
+        let n = 0;
+        for (const s of g) n += bySite[s]![m]!;
+        row.push(n);
+      }
+      return row;
+    });
     const failuresBy = splitByMonth(failures, cohorts);
     const completersBy = splitByMonth(completers, cohorts);
     const add = (v: number[]) => v.forEach((x, p) => (attendance[p]! += x));

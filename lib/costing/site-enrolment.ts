@@ -10,26 +10,36 @@ export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "en
   // Cluster designs: each site enrols what its clusters recruit.
   if (tl.clusterEnrolment) return tl.clusterEnrolment.bySite;
   const S = tl.activationMonths.length;
-  const out = tl.activationMonths.map(() => tl.enrolledByMonth.map(() => 0));
+  const M = tl.enrolledByMonth.length;
+  const out = tl.activationMonths.map(() => {
+    const row: number[] = [];
+    for (let m = 0; m < M; m++) row.push(0);
+    return row;
+  });
+  const active: number[] = [];
   let turn = 0;
-  tl.enrolledByMonth.forEach((n, m) => {
-    const active = tl.activationMonths.map((a, s) => (a <= m ? s : -1)).filter((s) => s >= 0);
-    if (!active.length || n === 0) return;
+  for (let m = 0; m < M; m++) {
+    const n = tl.enrolledByMonth[m]!;
+    active.length = 0;
+    for (let s = 0; s < S; s++) if (tl.activationMonths[s]! <= m) active.push(s);
+    if (!active.length || n === 0) continue;
     const each = Math.floor(n / active.length);
     let rest = n - each * active.length;
     for (const s of active) out[s]![m] = each;
     for (let k = 0; rest > 0; k++, rest--) out[active[(turn + k) % active.length]!]![m]! += 1;
     turn = (turn + (n - each * active.length)) % S;
-  });
+  }
   return out;
 }
 
 /** Split a per-month count (failures, completers) among groups in proportion to each group's enrolment that month. */
 export function splitByMonth(counts: number[], cohortsByGroup: number[][]): number[][] {
   const out = cohortsByGroup.map(() => counts.map(() => 0));
-  counts.forEach((c, m) => {
-    const parts = allocate(c, cohortsByGroup.map((g) => g[m] ?? 0));
-    parts.forEach((x, g) => (out[g]![m] = x));
-  });
+  const weights = cohortsByGroup.map(() => 0);
+  for (let m = 0; m < counts.length; m++) {
+    for (let g = 0; g < cohortsByGroup.length; g++) weights[g] = cohortsByGroup[g]![m] ?? 0;
+    const parts = allocate(counts[m]!, weights);
+    for (let g = 0; g < parts.length; g++) out[g]![m] = parts[g]!;
+  }
   return out;
 }

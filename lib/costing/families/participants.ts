@@ -28,15 +28,17 @@ export type Cohorts = { enrolled: number[]; failures: number[]; completers: numb
 export function dropoutAttendance(share: number, visits: number): number[] {
   if (visits === 0) return [];
   const expected = Math.max(1, share * visits);
-  return Array.from({ length: visits }, (_, i) => Math.min(1, Math.max(0, expected - i)));
+  const out: number[] = [];
+  for (let i = 0; i < visits; i++) out.push(Math.min(1, Math.max(0, expected - i)));
+  return out;
 }
 
 /** Adds the participant lines for one group to `lines`; returns the visits attended per period (for the counts). */
 export function participantLines({ inputs, rates, visits, routine }: FamilyContext, lines: LineList, c: Cohorts, keyPrefix = ""): number[] {
   const screenedQ = lines.zeros();
   const failureQ = lines.zeros();
-  c.enrolled.forEach((n, m) => (screenedQ[periodOfMonth(m)]! += n + c.failures[m]!));
-  c.failures.forEach((n, m) => (failureQ[periodOfMonth(m)]! += n));
+  for (let m = 0; m < c.enrolled.length; m++) screenedQ[periodOfMonth(m)]! += c.enrolled[m]! + c.failures[m]!;
+  for (let m = 0; m < c.failures.length; m++) failureQ[periodOfMonth(m)]! += c.failures[m]!;
   lines.quantity(`${keyPrefix}screening`, "participants", "procedures", "Screening, per person screened", inputs.screeningCost ?? rates.participant.screeningCost, screenedQ);
   lines.quantity(`${keyPrefix}screen-failure-payments`, "participants", "participant", "Payments to screen failures", inputs.screenFailurePayment ?? rates.participant.screenFailurePayment, failureQ);
 
@@ -50,18 +52,18 @@ export function participantLines({ inputs, rates, visits, routine }: FamilyConte
   // cost, counting each visit attended in the period it happens, escalated and rounded like any quantity line.
   const count = (key: string, entry: Entry, byPeriod: number[]) => {
     if (!procedureUnit.has(key)) procedureUnit.set(key, entry);
-    const q = procedureQ.get(key) ?? lines.zeros();
-    byPeriod.forEach((n, p) => (q[p]! += n));
-    procedureQ.set(key, q);
+    let q = procedureQ.get(key);
+    if (!q) procedureQ.set(key, (q = lines.zeros()));
+    for (let p = 0; p < byPeriod.length; p++) q[p]! += byPeriod[p]!;
   };
   visits.forEach((visit, i) => {
     const byPeriod = lines.zeros();
-    c.enrolled.forEach((n, m) => {
+    const share = dropoutShare[i]!;
+    for (let m = 0; m < c.enrolled.length; m++) {
       const completers = c.completers[m]!;
-      const attendees = completers + (n - completers) * dropoutShare[i]!;
-      byPeriod[periodOfMonth(m + visit.month)]! += attendees;
-    });
-    byPeriod.forEach((q, p) => (attendance[p]! += q));
+      byPeriod[periodOfMonth(m + visit.month)]! += completers + (c.enrolled[m]! - completers) * share;
+    }
+    for (let p = 0; p < byPeriod.length; p++) attendance[p]! += byPeriod[p]!;
     for (const proc of visit.procedures) {
       const entry = catalogue.get(proc.code);
       if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
