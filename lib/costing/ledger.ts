@@ -160,7 +160,7 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
 
 /** The rate book's base rules with the study's F&A terms: its rate, and the categories the sponsor pays no F&A on. */
 function faRules(structure: CostStructure, rates: RateBook) {
-  return { ...rates, faRate: structure.fa.rate, faExcluded: structure.fa.excluded };
+  return { faBase: rates.faBase, mtdcSubawardThreshold: rates.mtdcSubawardThreshold, faRate: structure.fa.rate, faExcluded: structure.fa.excluded };
 }
 
 export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs, "caps">, rates: RateBook): Ledger {
