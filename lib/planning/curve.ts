@@ -7,7 +7,7 @@
 import { approximateTotals, buildCostStructure, type RateBook } from "@/lib/costing";
 import { solveParsed } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
-import { effectOf, powerInput, studyAt, withN, type StudyContext } from "./compute";
+import { costInputsAt, effectOf, powerInput, studyAt, withN, type StudyContext } from "./compute";
 import type { ScenarioInputs } from "./schema";
 
 export type CurvePoint = {
@@ -24,12 +24,13 @@ export type CurvePoint = {
 
 export type ReachCurve = { points: CurvePoint[]; effectName: string; minBudget: number | null; maxBudget: number };
 
-type Parsed = { power: ParsedPowerInput; effect: ParsedPowerInput };
+/** What every point of one curve shares: the parsed power inputs and the n-independent cost inputs. */
+type Shared = { power: ParsedPowerInput; effect: ParsedPowerInput; costAt: ReturnType<typeof costInputsAt> };
 
 /** The study at n priced, without its MDES: all the search for the largest affordable n needs. */
-function priceAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed) {
+function priceAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, shared: Shared) {
   try {
-    const at = studyAt(i, study, n, parsed.power);
+    const at = studyAt(i, study, n, shared.power, shared.costAt);
     if (!at) return null;
     const structure = buildCostStructure(at.cost, rates);
     return { at, structure, totals: approximateTotals(structure, rates) };
@@ -38,12 +39,13 @@ function priceAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: num
   }
 }
 
-function pointAt(i: ScenarioInputs, rates: RateBook, study: StudyContext, n: number, parsed: Parsed): CurvePoint | null {
-  const priced = priceAt(i, rates, study, n, parsed);
+type Priced = ReturnType<typeof priceAt>;
+
+function pointAt(priced: Priced, n: number, shared: Shared): CurvePoint | null {
   if (!priced) return null;
   const { at, structure, totals: t } = priced;
   try {
-    const mdes = effectOf(solveParsed(withN(parsed.effect, n)));
+    const mdes = effectOf(solveParsed(withN(shared.effect, n)));
     return {
       budget: t.total,
       direct: t.direct,
@@ -81,8 +83,18 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const cap = study.sponsorCap ? Number(study.sponsorCap) : null;
   const maxBudget = opts.maxBudget ?? 1.5 * Math.max(cap ?? 0, opts.referenceTotal ?? 0, 1);
   const nMin = 2;
-  const parsed: Parsed = { power: powerInput(i, "power", nMin), effect: powerInput(i, "effect", nMin) };
-  const at = (n: number) => pointAt(i, rates, study, n, parsed);
+  const shared: Shared = { power: powerInput(i, "power", nMin), effect: powerInput(i, "effect", nMin), costAt: costInputsAt(i, study) };
+  // Each size is priced once: the search for the largest affordable n and the points meet at some sizes (n = 2 always).
+  const priced = new Map<number, Priced>();
+  const priceOnce = (n: number) => {
+    if (!priced.has(n)) priced.set(n, priceAt(i, rates, study, n, shared));
+    return priced.get(n)!;
+  };
+  const at = (n: number) => {
+    const p = priceOnce(n);
+    priced.delete(n);
+    return pointAt(p, n, shared);
+  };
   const first = at(nMin);
   const names = powerInput(i, "n");
   // With a margin, each point's figure is the smallest margin that budget can support.
@@ -90,7 +102,7 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const effectName = margined ? "margin" : names.design === "time-to-event" ? "hazardRatio" : names.design.endsWith("proportions") ? "p2" : "effectSize";
   if (!first) return { points: [], effectName, minBudget: null, maxBudget };
   // The largest n within the largest budget: gallop, then bisect on the approximate cost (no MDES needed).
-  const budgetAt = (n: number) => priceAt(i, rates, study, n, parsed)?.totals.total ?? null;
+  const budgetAt = (n: number) => priceOnce(n)?.totals.total ?? null;
   let lo = nMin;
   let hi = nMin * 2;
   let hiBudget = budgetAt(hi);
@@ -116,7 +128,7 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const points: CurvePoint[] = [];
   for (const n of [...ns].sort((x, y) => x - y)) {
     yield;
-    const p = at(n);
+    const p = n === nMin ? first : at(n);
     if (p) points.push(p);
   }
   points.sort((x, y) => x.budget - y.budget);
