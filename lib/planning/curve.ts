@@ -4,7 +4,7 @@
  * buys; each is priced with the approximate arithmetic (lib/costing/arith.ts explains why) and its
  * MDES solved at the scenario's alpha, sides and power.
  */
-import { approximateTotals, buildCostStructure, type RateBook } from "@/lib/costing";
+import { approximateTotals, buildCostStructure, type CostInputs, type RateBook } from "@/lib/costing";
 import { solveParsed } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { costInputsAt, effectOf, powerInput, studyAt, withN, type StudyContext } from "./compute";
@@ -23,6 +23,23 @@ export type CurvePoint = {
 };
 
 export type ReachCurve = { points: CurvePoint[]; effectName: string; minBudget: number | null; maxBudget: number };
+
+/** The study behind each point: what the power engine sized at that n, as the cost inputs and the count enrolled. */
+export type PointStudy = { cost: CostInputs; enrolled: number };
+
+/**
+ * Each curve's points' studies, kept beside the curve (not in it: the curve is served as JSON), so that
+ * lines drawn along it (curve-slow.ts) need not size each point again. With the inputs and study it was computed for.
+ */
+const pointStudies = new WeakMap<ReachCurve, { inputs: ScenarioInputs; study: StudyContext; byN: Map<number, PointStudy> }>();
+
+/** The studies of a curve's points, when the curve was computed here for these inputs and this study. */
+export function curvePointStudies(curve: ReachCurve, inputs: ScenarioInputs, study: StudyContext): Map<number, PointStudy> | null {
+  const kept = pointStudies.get(curve);
+  if (!kept) return null;
+  const same = (a: unknown, b: unknown) => a === b || JSON.stringify(a) === JSON.stringify(b);
+  return same(kept.inputs, inputs) && same(kept.study, study) ? kept.byN : null;
+}
 
 /** What every point of one curve shares: the parsed power inputs and the n-independent cost inputs. */
 type Shared = { power: ParsedPowerInput; effect: ParsedPowerInput; costAt: ReturnType<typeof costInputsAt> };
@@ -93,9 +110,10 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const at = (n: number) => {
     const p = priceOnce(n);
     priced.delete(n);
-    return pointAt(p, n, shared);
+    return { priced: p, point: pointAt(p, n, shared) };
   };
-  const first = at(nMin);
+  const firstAt = at(nMin);
+  const first = firstAt.point;
   const names = powerInput(i, "n");
   // With a margin, each point's figure is the smallest margin that budget can support.
   const margined = "hypothesis" in names && (names.hypothesis === "non-inferiority" || names.hypothesis === "equivalence");
@@ -126,11 +144,17 @@ export function* reachCurveSteps(i: ScenarioInputs, rates: RateBook, study: Stud
   const b = Math.sqrt(nMax);
   for (let k = 0; k < count; k++) ns.add(Math.round((a + ((b - a) * k) / Math.max(1, count - 1)) ** 2));
   const points: CurvePoint[] = [];
+  const byN = new Map<number, PointStudy>();
   for (const n of [...ns].sort((x, y) => x - y)) {
     yield;
-    const p = n === nMin ? first : at(n);
-    if (p) points.push(p);
+    const { priced: sized, point: p } = n === nMin ? firstAt : at(n);
+    if (p && sized) {
+      points.push(p);
+      byN.set(n, { cost: sized.at.cost, enrolled: sized.at.power.funnel.total.enrolled });
+    }
   }
   points.sort((x, y) => x.budget - y.budget);
-  return { points, effectName, minBudget: first.budget, maxBudget };
+  const curve = { points, effectName, minBudget: first.budget, maxBudget };
+  pointStudies.set(curve, { inputs: i, study, byN });
+  return curve;
 }
