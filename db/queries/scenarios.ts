@@ -469,17 +469,18 @@ export async function studyContextFor(actor: Actor, studyId: number): Promise<{ 
 export async function workbookData(actor: Actor, ids: number[], studyId?: number) {
   const list = [];
   for (const id of ids) {
-    const detail = await getScenario(actor, id, "workbook.download");
+    const { row, membership } = await access(actor, id, "workbook.download");
+    const detail = await detailOf(actor, row, membership);
     if (studyId !== undefined && detail.studyId !== studyId) throw notFound("Those scenarios are not all in this study.");
     const edition = await getEdition(actor, detail.editionId).catch(() => null);
     if (!edition) throw notFound("That scenario's rate-book edition is not available.");
-    list.push({ detail, rates: editionToRateBook(edition) });
+    list.push({ detail, rates: editionToRateBook(edition), settings: studyContext(row) });
   }
   const first = list[0]!.detail;
   const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
   return {
     study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
-    scenarios: list.map(({ detail, rates }) => ({
+    scenarios: list.map(({ detail, rates, settings }) => ({
       name: detail.name,
       state: detail.state,
       inputs: detail.inputs,
@@ -490,6 +491,8 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
       budgetJustificationCheck: detail.budgetJustificationCheck,
       enrolmentPlan: detail.enrolmentPlan,
       rates,
+      /** The study's settings the scenario is computed under: what its page's forecast is keyed by. */
+      settings,
     })),
   };
 }
