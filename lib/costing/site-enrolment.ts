@@ -3,7 +3,7 @@
  * a remainder goes to the sites in turn (a rotating start), so that no site is favoured over the study.
  * Common practice for a plan with one enrolment rate per site.
  */
-import { allocate, type TimelineResult } from "./timeline";
+import type { TimelineResult } from "./timeline";
 
 /** Enrolled per site per month (site × month); rows sum to each site's enrolment, columns to the month's. */
 export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment">): number[][] {
@@ -32,14 +32,28 @@ export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "en
   return out;
 }
 
-/** Split a per-month count (failures, completers) among groups in proportion to each group's enrolment that month. */
+/**
+ * Split a per-month count (failures, completers) among groups in proportion to each group's enrolment
+ * that month: allocate() month by month, its arithmetic written out here to fill the table in place
+ * (an array per month was a twentieth of the reach curve's time, measured).
+ */
 export function splitByMonth(counts: number[], cohortsByGroup: number[][]): number[][] {
+  const G = cohortsByGroup.length;
   const out = cohortsByGroup.map(() => counts.map(() => 0));
-  const weights = cohortsByGroup.map(() => 0);
   for (let m = 0; m < counts.length; m++) {
-    for (let g = 0; g < cohortsByGroup.length; g++) weights[g] = cohortsByGroup[g]![m] ?? 0;
-    const parts = allocate(counts[m]!, weights);
-    for (let g = 0; g < parts.length; g++) out[g]![m] = parts[g]!;
+    const total = counts[m]!;
+    let sumW = 0;
+    for (let g = 0; g < G; g++) sumW += cohortsByGroup[g]![m] ?? 0;
+    if (total === 0 || sumW === 0) continue;
+    let cum = 0;
+    let given = 0;
+    for (let g = 0; g < G; g++) {
+      cum += cohortsByGroup[g]![m] ?? 0;
+      const target = Math.floor((total * cum) / sumW + 1e-9);
+      out[g]![m] = target - given;
+      given = target;
+    }
+    if (G > 0) out[G - 1]![m]! += total - given;
   }
   return out;
 }
