@@ -33,6 +33,18 @@ export function dropoutAttendance(share: number, visits: number): number[] {
   return out;
 }
 
+type Catalogue = Map<string, RateBook["procedures"][number]>;
+const catalogues = new WeakMap<RateBook["procedures"], { length: number; byCode: Catalogue }>();
+
+/** The rate book's procedures by code, built once per list (the reach curve prices hundreds of studies with one edition); rebuilt if the list grows or shrinks. */
+function catalogueOf(rates: RateBook): Catalogue {
+  const hit = catalogues.get(rates.procedures);
+  if (hit && hit.length === rates.procedures.length) return hit.byCode;
+  const byCode: Catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
+  catalogues.set(rates.procedures, { length: rates.procedures.length, byCode });
+  return byCode;
+}
+
 /** Adds the participant lines for one group to `lines`; returns the visits attended per period (for the counts). */
 export function participantLines({ inputs, rates, visits, routine }: FamilyContext, lines: LineList, c: Cohorts, keyPrefix = ""): number[] {
   const screenedQ = lines.zeros();
@@ -45,7 +57,7 @@ export function participantLines({ inputs, rates, visits, routine }: FamilyConte
   const dropoutShare = dropoutAttendance(inputs.dropoutVisitShare, visits.length);
   const attendance = lines.zeros();
   const procedureQ = new Map<string, number[]>();
-  const catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
+  const catalogue = catalogueOf(rates);
   type Entry = { unit: string; name: string; oneOff: boolean; code?: string };
   const procedureUnit = new Map<string, Entry>();
   // Rate-book procedures and one-off procedures are priced alike: a quantity line per procedure and unit
@@ -68,7 +80,9 @@ export function participantLines({ inputs, rates, visits, routine }: FamilyConte
       const entry = catalogue.get(proc.code);
       if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
       const unit = proc.unitCost ?? entry!.unitCost;
-      count(`${proc.code}@${unit}`, { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, oneOff: false, code: proc.code }, byPeriod);
+      const key = `${proc.code}@${unit}`;
+      // The line's name is built once per line, not once per visit (the reach curve prices hundreds of studies).
+      count(key, procedureUnit.get(key) ?? { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, oneOff: false, code: proc.code }, byPeriod);
     }
     for (const extra of visit.oneOff ?? []) {
       const name = extra.name.trim();
