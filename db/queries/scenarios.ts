@@ -151,6 +151,11 @@ export async function listScenarios(actor: Actor, studyId: number): Promise<Scen
 
 export async function getScenario(actor: Actor, id: number, action: Parameters<typeof decide>[1] = "scenario.view"): Promise<ScenarioDetail> {
   const { row, membership } = await access(actor, id, action);
+  return detailOf(actor, row, membership);
+}
+
+/** A scenario's detail from its row, once the actor's right to it is checked. */
+async function detailOf(actor: Actor, row: NonNullable<Row>, membership: Membership): Promise<ScenarioDetail> {
   const inputs = JSON.parse(row.inputs_json) as ScenarioInputs;
   const results = JSON.parse(row.results_json) as ScenarioResults;
   // The recompute offer: the edition in force on the costing date, when it is not the one the scenario keeps.
@@ -433,12 +438,29 @@ function justificationMismatch(row: NonNullable<Row>): string | null {
   return parts.length ? parts.join(" ") : null;
 }
 
-/** Scenarios of one study for the comparison (2 to 4), each one the actor may see. */
-export async function scenariosForComparison(actor: Actor, studyId: number, ids: number[]): Promise<ScenarioDetail[]> {
+export type ComparedScenario = ScenarioDetail & { rates: ReturnType<typeof editionToRateBook>; settings: StudyContext };
+
+/**
+ * Scenarios of one study for the comparison (2 to 4), each one the actor may see, each loaded once with
+ * what its forecast needs (its rate-book edition and the study's settings); editions shared are read once.
+ */
+export async function scenariosForComparison(actor: Actor, studyId: number, ids: number[]): Promise<ComparedScenario[]> {
   if (ids.length < 2 || ids.length > 4) throw new HttpError(400, "invalid", "Choose two to four scenarios to compare.", { scenarios: ["Choose two to four scenarios."] });
-  const details = await Promise.all(ids.map((id) => getScenario(actor, id)));
-  if (details.some((d) => d.studyId !== studyId)) throw notFound("Those scenarios are not all in this study.");
-  return details;
+  const editions = new Map<number, Promise<ReturnType<typeof editionToRateBook> | null>>();
+  const rateBook = (editionId: number) => {
+    if (!editions.has(editionId)) editions.set(editionId, getEdition(actor, editionId).then(editionToRateBook, () => null));
+    return editions.get(editionId)!;
+  };
+  const compared = await Promise.all(
+    ids.map(async (id) => {
+      const { row, membership } = await access(actor, id);
+      const rates = await rateBook(row.rate_edition_id);
+      if (!rates) throw notFound("That scenario's rate-book edition is not available.");
+      return { ...(await detailOf(actor, row, membership)), rates, settings: studyContext(row) };
+    }),
+  );
+  if (compared.some((d) => d.studyId !== studyId)) throw notFound("Those scenarios are not all in this study.");
+  return compared;
 }
 
 export async function scenarioContext(
@@ -468,17 +490,18 @@ export async function studyContextFor(actor: Actor, studyId: number): Promise<{ 
 export async function workbookData(actor: Actor, ids: number[], studyId?: number) {
   const list = [];
   for (const id of ids) {
-    const detail = await getScenario(actor, id, "workbook.download");
+    const { row, membership } = await access(actor, id, "workbook.download");
+    const detail = await detailOf(actor, row, membership);
     if (studyId !== undefined && detail.studyId !== studyId) throw notFound("Those scenarios are not all in this study.");
     const edition = await getEdition(actor, detail.editionId).catch(() => null);
     if (!edition) throw notFound("That scenario's rate-book edition is not available.");
-    list.push({ detail, rates: editionToRateBook(edition) });
+    list.push({ detail, rates: editionToRateBook(edition), settings: studyContext(row) });
   }
   const first = list[0]!.detail;
   const study = await getDb().selectFrom("studies").select(["code", "title", "sponsor", "sponsor_cap"]).where("id", "=", first.studyId).executeTakeFirstOrThrow();
   return {
     study: { code: study.code, title: study.title, sponsor: study.sponsor, sponsorCap: study.sponsor_cap },
-    scenarios: list.map(({ detail, rates }) => ({
+    scenarios: list.map(({ detail, rates, settings }) => ({
       name: detail.name,
       state: detail.state,
       inputs: detail.inputs,
@@ -489,6 +512,8 @@ export async function workbookData(actor: Actor, ids: number[], studyId?: number
       budgetJustificationCheck: detail.budgetJustificationCheck,
       enrolmentPlan: detail.enrolmentPlan,
       rates,
+      /** The study's settings the scenario is computed under: what its page's forecast is keyed by. */
+      settings,
     })),
   };
 }

@@ -49,6 +49,9 @@ export const exact: Arith<Money> = {
   zero: new D(0),
 };
 
+// (1 + rate)^p by rate and period: the curve asks for the same few rates in every line of every point.
+const approximateGrowth = new Map<string, number[]>();
+
 export const approximate: Arith<number> = {
   of: (v) => Number(v),
   add: (a, b) => a + b,
@@ -59,6 +62,15 @@ export const approximate: Arith<number> = {
   max: Math.max,
   lte: (a, b) => a <= b,
   round: (a) => Math.round(a * 100 + 1e-7) / 100,
-  growth: (rate, p) => (1 + Number(rate)) ** p,
+  growth: (rate, p) => {
+    let byPeriod = approximateGrowth.get(rate);
+    if (!byPeriod) {
+      if (approximateGrowth.size > 1000) approximateGrowth.clear();
+      approximateGrowth.set(rate, (byPeriod = []));
+    }
+    let g = byPeriod[p];
+    if (g === undefined) g = byPeriod[p] = (1 + Number(rate)) ** p;
+    return g;
+  },
   zero: 0,
 };

@@ -96,7 +96,15 @@ export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStr
     const bySite = enrolledBySite(tl);
     const internal = terms.filter((t) => t.arrangement === "internal");
     const groups = [internal.map((t) => t.index), ...apart.map((t) => [t.index])];
-    const cohorts = groups.map((g) => tl.enrolledByMonth.map((_, m) => g.reduce((a, s) => a + bySite[s]![m]!, 0)));
+    const cohorts = groups.map((g) => {
+      const row: number[] = [];
+      for (let m = 0; m < tl.enrolledByMonth.length; m++) {
+        let n = 0;
+        for (const s of g) n += bySite[s]![m]!;
+        row.push(n);
+      }
+      return row;
+    });
     const failuresBy = splitByMonth(failures, cohorts);
     const completersBy = splitByMonth(completers, cohorts);
     const add = (v: number[]) => v.forEach((x, p) => (attendance[p]! += x));
@@ -152,7 +160,7 @@ export function computeLedger(inputs: CostInputs, rates: RateBook): Ledger {
 
 /** The rate book's base rules with the study's F&A terms: its rate, and the categories the sponsor pays no F&A on. */
 function faRules(structure: CostStructure, rates: RateBook) {
-  return { ...rates, faRate: structure.fa.rate, faExcluded: structure.fa.excluded };
+  return { faBase: rates.faBase, mtdcSubawardThreshold: rates.mtdcSubawardThreshold, faRate: structure.fa.rate, faExcluded: structure.fa.excluded };
 }
 
 export function priceStructure(structure: CostStructure, inputs: Pick<CostInputs, "caps">, rates: RateBook): Ledger {

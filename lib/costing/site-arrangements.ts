@@ -8,6 +8,18 @@ import { D } from "./money";
 
 export type SiteTermsResolved = { index: number; arrangement: SiteArrangement; indirectRate: string; foreign: boolean };
 
+// rate > limit in exact decimals, remembered: the reach curve asks the same for every point it prices.
+const aboveMemo = new Map<string, boolean>();
+function above(rate: string, limit: string): boolean {
+  const key = `${rate}|${limit}`;
+  let v = aboveMemo.get(key);
+  if (v === undefined) {
+    if (aboveMemo.size > 1000) aboveMemo.clear();
+    aboveMemo.set(key, (v = new D(rate).greaterThan(limit)));
+  }
+  return v;
+}
+
 /** Each enrolling site's terms: its own, else the study's default arrangement (internal when none). */
 export function siteTerms(inputs: Pick<CostInputs, "siteArrangement" | "sites" | "foreignFaLimit">, sites: number): SiteTermsResolved[] {
   const limit = inputs.foreignFaLimit === undefined ? FOREIGN_FA_LIMIT : inputs.foreignFaLimit;
@@ -17,7 +29,7 @@ export function siteTerms(inputs: Pick<CostInputs, "siteArrangement" | "sites" |
     const foreign = own?.foreign === true;
     let rate = own?.indirectRate ?? DE_MINIMIS_RATE;
     // NIH Grants Policy Statement 16.6: a foreign subaward's indirects at most 8% of its own base, where the sponsor says so.
-    if (foreign && limit !== null && new D(rate).greaterThan(limit)) rate = limit;
+    if (foreign && limit !== null && above(rate, limit)) rate = limit;
     return { index, arrangement, indirectRate: arrangement === "subaward" ? rate : "0", foreign };
   });
 }

@@ -34,13 +34,14 @@ export type TimelineResult = {
 
 /** Whole numbers in proportion to weights, summing exactly to total (cumulative rounding). */
 export function allocate(total: number, weights: number[]): number[] {
-  const sumW = weights.reduce((a, b) => a + b, 0);
+  let sumW = 0;
+  for (let i = 0; i < weights.length; i++) sumW += weights[i]!;
   if (total === 0 || sumW === 0) return weights.map(() => 0);
   const out: number[] = [];
   let cum = 0;
   let given = 0;
-  for (const w of weights) {
-    cum += w;
+  for (let i = 0; i < weights.length; i++) {
+    cum += weights[i]!;
     const target = Math.floor((total * cum) / sumW + 1e-9);
     out.push(target - given);
     given = target;

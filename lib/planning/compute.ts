@@ -128,18 +128,16 @@ export function nOf(r: PowerResult): number {
 
 /** `clusters`: a cluster design's randomised clusters (both arms), held clustersPerSite to a site. */
 export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInputs["arms"], sites: number, clusters?: number): CostInputs {
-  return {
-    startDate: study.startDate,
-    arms,
-    timeline: {
-      sites,
-      startupMonths: i.recruitment.startupMonths,
-      staggerMonths: i.recruitment.staggerMonths,
-      ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
-      closeoutMonths: i.recruitment.closeoutMonths,
-      ...(clusters !== undefined ? { clusters: { count: clusters, perSite: i.recruitment.clustersPerSite ?? 1 } } : {}),
-    },
-    ...(clusters !== undefined ? { cluster: { setupCost: i.recruitment.clusterSetupCost, annualFee: i.recruitment.clusterAnnualFee } } : {}),
+  return costInputsAt(i, study)(arms, sites, clusters);
+}
+
+/**
+ * The cost inputs for any sample size: what does not depend on it (visits, personnel, other costs, the
+ * sponsor's rules, the sites' terms) is built once, and each size adds its arms and timeline. The reach
+ * curve prices hundreds of sizes of one scenario.
+ */
+export function costInputsAt(i: ScenarioInputs, study: StudyContext): (arms: CostInputs["arms"], sites: number, clusters?: number) => CostInputs {
+  const fixed = {
     visits: i.visits.map((v) => ({
       name: v.name,
       month: v.month,
@@ -159,6 +157,20 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
     ...(i.sites?.length ? { sites: i.sites.map((t) => ({ arrangement: t.arrangement, ...(t.indirectRate !== undefined ? { indirectRate: String(t.indirectRate) } : {}), foreign: t.foreign })) } : {}),
     ...(i.procedureClasses?.length ? { procedureClasses: i.procedureClasses } : {}),
   };
+  return (arms, sites, clusters) => ({
+    startDate: study.startDate,
+    arms,
+    timeline: {
+      sites,
+      startupMonths: i.recruitment.startupMonths,
+      staggerMonths: i.recruitment.staggerMonths,
+      ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
+      closeoutMonths: i.recruitment.closeoutMonths,
+      ...(clusters !== undefined ? { clusters: { count: clusters, perSite: i.recruitment.clustersPerSite ?? 1 } } : {}),
+    },
+    ...(clusters !== undefined ? { cluster: { setupCost: i.recruitment.clusterSetupCost, annualFee: i.recruitment.clusterAnnualFee } } : {}),
+    ...fixed,
+  });
 }
 
 /**
@@ -182,13 +194,22 @@ export function withN(parsed: ParsedPowerInput, n: number): ParsedPowerInput {
   return { ...parsed, [quantityNames(parsed.design).n]: n } as ParsedPowerInput;
 }
 
-/** The study at a given sample size (participants per arm, or clusters per arm): its power result and its cost structure inputs. */
-export function studyAt(i: ScenarioInputs, study: StudyContext, n: number, atN?: ParsedPowerInput): { power: PowerResult; cost: CostInputs } | null {
+/**
+ * The study at a given sample size (participants per arm, or clusters per arm): its power result and its
+ * cost structure inputs. A caller that asks at many sizes passes the parsed input and costInputsAt's builder.
+ */
+export function studyAt(
+  i: ScenarioInputs,
+  study: StudyContext,
+  n: number,
+  atN?: ParsedPowerInput,
+  costAt: ReturnType<typeof costInputsAt> = costInputsAt(i, study),
+): { power: PowerResult; cost: CostInputs } | null {
   const power = solveParsed(atN ? withN(atN, n) : powerInput(i, "power", n));
   const clusters = power.clusters1 !== undefined ? power.clusters1 + (power.clusters2 ?? 0) : null;
   const sites = sitesFor(i, power.funnel.total.enrolled, clusters);
   if (sites === null) return null;
-  return { power, cost: costInputs(i, study, power.funnel.arms, sites, clusters ?? undefined) };
+  return { power, cost: costAt(power.funnel.arms, sites, clusters ?? undefined) };
 }
 
 export type CapBuys = {

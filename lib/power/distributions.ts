@@ -173,12 +173,121 @@ export function noncentralTUpper(t: number, df: number, delta: number): number {
 }
 
 /**
+ * F(t; δ) and F(t; −δ) for t > 0 in one pass: a two-sided power needs both, and they share the
+ * Poisson weights, the incomplete betas and their recurrences (only the sign of the δ-companion terms
+ * differs), so one pass costs little more than one call. Each sum is stepped exactly as
+ * noncentralTCdfNonNegative steps it, term for term, and stops where that would stop, so both results are
+ * bit for bit the two separate calls' (tests/unit/power-distributions.test.ts checks this).
+ */
+const pair = new Float64Array(2);
+function noncentralTCdfPair(t: number, df: number, delta: number): Float64Array {
+  const x = (t * t) / (t * t + df);
+  const b = df / 2;
+  const lambda = (delta * delta) / 2;
+  const baseP = normalCdf(-delta);
+  const baseM = normalCdf(delta);
+  if (lambda === 0) {
+    const half = 0.5 * betaRegularized(x, 0.5, b);
+    pair[0] = Math.min(1, baseP + half);
+    pair[1] = Math.min(1, baseM + half);
+    return pair;
+  }
+  const k = Math.floor(lambda);
+  const logLambda = Math.log(lambda);
+  const logX = Math.log(x);
+  const log1mX = Math.log1p(-x);
+  const pK = Math.exp(-lambda + k * logLambda - lgamma(k + 1));
+  const qK = (delta / Math.SQRT2) * Math.exp(-lambda + k * logLambda - lgamma(k + 1.5));
+  const aP = k + 0.5;
+  const aQ = k + 1;
+  const iP = betaRegularized(x, aP, b);
+  const iQ = betaRegularized(x, aQ, b);
+  const gP = Math.exp(aP * logX + b * log1mX - lbeta(aP, b) - Math.log(aP));
+  const gQ = Math.exp(aQ * logX + b * log1mX - lbeta(aQ, b) - Math.log(aQ));
+
+  // With −δ every q-weight is the negation of δ's, exactly: its term p·I − q·I.
+  let sumP = pK * iP + qK * iQ;
+  let sumM = pK * iP - qK * iQ;
+  let massP = pK;
+  {
+    let p = pK;
+    let q = qK;
+    let ip = iP;
+    let iq = iQ;
+    let gp = gP;
+    let gq = gQ;
+    let liveP = true;
+    let liveM = true;
+    for (let j = k + 1; j < k + MAX_TERMS; j++) {
+      ip -= gp;
+      iq -= gq;
+      gp *= (x * (j - 0.5 + b)) / (j + 0.5);
+      gq *= (x * (j + b)) / (j + 1);
+      p *= lambda / j;
+      q *= lambda / (j + 0.5);
+      if (ip < 0) ip = 0;
+      if (iq < 0) iq = 0;
+      const tp = p * ip;
+      const tq = q * iq;
+      if (liveP) sumP += tp + tq;
+      if (liveM) sumM += tp - tq;
+      massP += p;
+      if (j > lambda && 2 * Math.max(0, 1 - massP) * Math.max(ip, iq) < SUM_EPS) break;
+      if (j > lambda + 10 * Math.sqrt(lambda) + 10) {
+        if (liveP && tp + tq < SUM_EPS * 1e-3 * Math.abs(sumP)) liveP = false;
+        if (liveM && tp - tq < SUM_EPS * 1e-3 * Math.abs(sumM)) liveM = false;
+        if (!liveP && !liveM) break;
+      }
+    }
+  }
+  {
+    let p = pK;
+    let q = qK;
+    let ip = iP;
+    let iq = iQ;
+    let gp = gP;
+    let gq = gQ;
+    for (let j = k - 1; j >= 0; j--) {
+      gp *= (j + 1.5) / (x * (j + 0.5 + b));
+      gq *= (j + 2) / (x * (j + 1 + b));
+      ip += gp;
+      iq += gq;
+      if (ip > 1) ip = 1;
+      if (iq > 1) iq = 1;
+      p *= (j + 1) / lambda;
+      q *= (j + 1.5) / lambda;
+      const tp = p * ip;
+      const tq = q * iq;
+      sumP += tp + tq;
+      sumM += tp - tq;
+      if (p < SUM_EPS * 1e-2 && Math.abs(q) < SUM_EPS * 1e-2) break;
+    }
+  }
+  const FP = baseP + 0.5 * sumP;
+  const FM = baseM + 0.5 * sumM;
+  pair[0] = FP < 0 ? 0 : FP > 1 ? 1 : FP;
+  pair[1] = FM < 0 ? 0 : FM > 1 ? 1 : FM;
+  return pair;
+}
+
+/**
  * Exact power of a t test whose statistic is noncentral t (df, δ): one-sided rejects above the
  * upper critical value; two-sided counts both tails.
  */
 export function tTestPower(delta: number, df: number, alpha: number, sides: 1 | 2): number {
   const crit = studentQuantile(1 - alpha / sides, df);
+  if (sides === 2 && crit > 0 && Number.isFinite(crit) && Math.abs(delta) <= LARGE_DELTA) {
+    // P(T' > c) + P(T' < −c) = (1 − F(c; δ)) + (1 − F(c; −δ)), as noncentralTCdf answers each.
+    const both = noncentralTCdfPair(crit, df, delta);
+    return 1 - both[0]! + (1 - both[1]!);
+  }
   const upper = 1 - noncentralTCdf(crit, df, delta);
   if (sides === 1) return upper;
   return upper + noncentralTCdf(-crit, df, delta);
+}
+
+/** The two-sided power by the two separate calls, as it was computed before the one-pass pair: kept for the test that they agree bit for bit. */
+export function tTestPowerTwoCalls(delta: number, df: number, alpha: number): number {
+  const crit = studentQuantile(1 - alpha / 2, df);
+  return 1 - noncentralTCdf(crit, df, delta) + noncentralTCdf(-crit, df, delta);
 }

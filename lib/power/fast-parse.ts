@@ -44,7 +44,6 @@ const cluster: Record<string, Field> = {
 };
 const P = R(0, false, 1, false);
 
-// Key order follows the schema's, so that the output matches zod's key for key.
 const FIELDS: Record<string, Record<string, Field>> = {
   "two-means": { ...common, ...twoGroup, ...effect, ...claim, ...planned, n1: { range: COUNT(2) }, n2: { range: COUNT(1) } },
   "one-mean": { ...common, ...effect, ...claim, n1: { range: COUNT(2) } },
@@ -80,9 +79,14 @@ const REQUIRED: Record<string, string[]> = {
   "cluster-two-proportions": ["clusterSize", "icc", "p1"],
   "time-to-event": ["controlMedian", "accrualMonths", "followUpMonths"],
 };
-type Compiled = { keys: string[]; specs: Field[]; known: Set<string>; required: string[] };
+type Compiled = { keys: string[]; specs: Field[]; index: Map<string, number>; required: string[]; templates: Map<number, Record<string, unknown>> };
 const COMPILED = new Map<string, Compiled>(
-  Object.entries(FIELDS).map(([d, f]) => [d, { keys: Object.keys(f), specs: Object.values(f), known: new Set(["design", ...Object.keys(f)]), required: REQUIRED[d] ?? [] }]),
+  Object.entries(FIELDS).map(([d, f]) => {
+    const keys = Object.keys(f);
+    // Which keys were given is kept as bits of one number.
+    if (keys.length > 30) throw new Error(`fast-parse: ${d} has more fields than a bit mask holds`);
+    return [d, { keys, specs: Object.values(f), index: new Map(keys.map((k, i) => [k, i])), required: REQUIRED[d] ?? [], templates: new Map() }];
+  }),
 );
 
 function inRange(x: unknown, r: Range): boolean {
@@ -92,6 +96,20 @@ function inRange(x: unknown, r: Range): boolean {
   return !r[4] || Number.isInteger(x);
 }
 
+/** The output's keys in the schema's order for one set of given keys: the defaults, and a place for each given value. */
+function templateFor(c: Compiled, design: string, given: number): Record<string, unknown> {
+  let t = c.templates.get(given);
+  if (!t) {
+    t = { design };
+    for (let i = 0; i < c.keys.length; i++) {
+      if (given & (1 << i)) t[c.keys[i]!] = null;
+      else if (c.specs[i]!.fallback !== undefined) t[c.keys[i]!] = c.specs[i]!.fallback;
+    }
+    if (c.templates.size < 1024) c.templates.set(given, t);
+  }
+  return t;
+}
+
 let rejected = false;
 const sink = {
   addIssue() {
@@ -99,7 +117,13 @@ const sink = {
   },
 };
 
-/** The parsed input when this path can vouch for it; undefined means "ask zod". */
+/**
+ * The parsed input when this path can vouch for it; undefined means "ask zod". The keys given are read
+ * and checked first, and only they are read again to build the output in the schema's order (reading
+ * each of the schema's twenty-odd keys, most of them absent, was a fifth of solve()'s time, measured).
+ * Key order follows the schema's, so that the output matches zod's key for key and every parsed input of
+ * a design has one shape.
+ */
 export function fastParse(input: unknown): ParsedPowerInput | undefined {
   if (typeof input !== "object" || input === null || Array.isArray(input)) return undefined;
   const raw = input as Record<string, unknown>;
@@ -108,26 +132,20 @@ export function fastParse(input: unknown): ParsedPowerInput | undefined {
   const c = COMPILED.get(design);
   if (!c) return undefined;
   let given = 0;
-  for (const k in raw) {
-    if (!c.known.has(k)) return undefined;
-    given++;
-  }
-  const out: Record<string, unknown> = { design };
-  let seen = 1;
-  for (let i = 0; i < c.keys.length; i++) {
-    const key = c.keys[i]!;
-    const f = c.specs[i]!;
+  for (const key in raw) {
+    if (key === "design") continue;
+    const i = c.index.get(key);
+    if (i === undefined) return undefined;
     const x = raw[key];
-    if (x === undefined) {
-      if (f.fallback !== undefined) out[key] = f.fallback;
-      continue;
-    }
-    seen++;
+    // A key present with the value undefined: zod's business.
+    if (x === undefined) return undefined;
+    const f = c.specs[i]!;
     if (f.range ? !inRange(x, f.range) : !f.values!.includes(x)) return undefined;
-    out[key] = x;
+    given |= 1 << i;
   }
-  // A key present with the value undefined: zod's business.
-  if (seen !== given) return undefined;
+  // A copy of the output's shape for this set of given keys (defaults filled in), then the given values.
+  const out: Record<string, unknown> = { ...templateFor(c, design, given) };
+  for (let i = 0; i < c.keys.length; i++) if (given & (1 << i)) out[c.keys[i]!] = raw[c.keys[i]!];
   for (const key of c.required) if (out[key] === undefined) return undefined;
   rejected = false;
   crossChecks(out as Base, sink);

@@ -24,11 +24,15 @@ export function funnelArm(evaluable: number, attrition: number, screenFailure: n
 }
 
 export function buildFunnel(arms: number[], attrition: number, screenFailure: number): Funnel {
-  const rows = arms.map((n) => funnelArm(n, attrition, screenFailure));
-  const total = rows.reduce((t, a) => ({ evaluable: t.evaluable + a.evaluable, enrolled: t.enrolled + a.enrolled, screened: t.screened + a.screened }), {
-    evaluable: 0,
-    enrolled: 0,
-    screened: 0,
-  });
+  // Plain loops: every solve() result carries a funnel, and solve() is a hot path.
+  const rows: FunnelArm[] = [];
+  const total = { evaluable: 0, enrolled: 0, screened: 0 };
+  for (let i = 0; i < arms.length; i++) {
+    const a = funnelArm(arms[i]!, attrition, screenFailure);
+    rows.push(a);
+    total.evaluable += a.evaluable;
+    total.enrolled += a.enrolled;
+    total.screened += a.screened;
+  }
   return { attrition, screenFailure, arms: rows, total };
 }

@@ -9,7 +9,7 @@ import { scenarioAssurance, type ScenarioAssurance } from "@/lib/planning/assura
 import { assuranceAlongCurve, type CurvePointAssurance } from "@/lib/planning/curve-assurance";
 import { slowBudgetsAlongCurve, type SlowPoint } from "@/lib/planning/curve-slow";
 import type { ScenarioResults, StudyContext } from "@/lib/planning/compute";
-import type { ScenarioInputs } from "@/lib/planning/schema";
+import { givenPrior, type ScenarioInputs } from "@/lib/planning/schema";
 import type { RateBook } from "@/lib/costing";
 
 /**
@@ -44,6 +44,11 @@ export function outlookCached(
     outlooks.set(key, answer);
   }
   return answer;
+}
+
+/** The outlook a saved scenario's page shows (its own uncertainty and prior): what the comparison, the report and the workbook reuse. */
+export function savedOutlook(inputs: ScenarioInputs, results: ScenarioResults, rates: RateBook, study: StudyContext): Outlook {
+  return outlookCached(inputs, results, rates, study, { rateSpread: inputs.uncertainty?.rateSpread, prior: givenPrior(inputs.uncertainty) });
 }
 
 const curveAssurances = new LRUCache<string, CurvePointAssurance[]>({ max: 200 });

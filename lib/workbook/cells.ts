@@ -5,6 +5,8 @@ import type { ScenarioResults } from "@/lib/planning/compute";
 import type { JustificationCheck } from "@/lib/planning/justification-figures";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import type { EnrolmentPlan } from "@/lib/sponsor/enrolment";
+// A type only (erased): the workbook builder itself stays free of the server's cache.
+import type { Outlook } from "@/lib/server/planning-cache";
 import { quoteSheet, safeText } from "./text";
 
 export type WorkbookScenario = {
@@ -21,6 +23,11 @@ export type WorkbookScenario = {
   /** The investigator's planned enrolment proportions; absent or null: none given, no table. */
   enrolmentPlan?: EnrolmentPlan | null;
   rates: RateBook;
+  /**
+   * The forecast and assurance the scenario's page shows (lib/server/planning-cache.ts outlookCached), so that a
+   * download does not simulate again and the sheet says what the page says; absent: computed here.
+   */
+  outlook?: Outlook;
 };
 
 export type WorkbookStudy = { code: string; title: string; sponsor: string; sponsorCap: string | null };

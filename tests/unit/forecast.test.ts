@@ -12,6 +12,8 @@ import { DEFAULT_RATE_SHAPE, forecastRecruitment, ForecastInputError, PUBLISHED_
 import { assurance, assuranceWithSd } from "@/lib/forecast/assurance";
 import { favourablePower } from "@/lib/forecast/favourable-power";
 import { seededRandom } from "@/lib/forecast/random";
+import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
+import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 
 /** mulberry32: a small seeded generator, independent of the product's. */
 function testRandom(seed: number) {
@@ -311,5 +313,20 @@ describe("assurance in the scenario: stored with its prior, quoted in the justif
     const a = justificationFigures(loud, r, study).find((x) => x.key === "assurance")!;
     const wider = justificationFigures(withPrior(true, 0.3), r, study).find((x) => x.key === "assurance")!;
     expect(a.value).not.toBe(wider.value);
+  });
+});
+
+describe("the product's uniforms are pure-rand's", () => {
+  // lib/forecast/random.ts inlines xoroshiro128+ and uniformFloat64 for speed: the stream must stay pure-rand's, bit for bit.
+  it("equals xoroshiro128plus with uniformFloat64, draw for draw, for several seeds", () => {
+    for (const seed of [0, 1, 3, 20071, -5, 2 ** 31 - 1]) {
+      const ours = seededRandom(seed);
+      const rng = xoroshiro128plus(seed);
+      for (let i = 0; i < 20000; i++) {
+        let u = uniformFloat64(rng);
+        while (u === 0) u = uniformFloat64(rng);
+        expect(ours.uniform()).toBe(u);
+      }
+    }
   });
 });

@@ -28,45 +28,74 @@ export type Cohorts = { enrolled: number[]; failures: number[]; completers: numb
 export function dropoutAttendance(share: number, visits: number): number[] {
   if (visits === 0) return [];
   const expected = Math.max(1, share * visits);
-  return Array.from({ length: visits }, (_, i) => Math.min(1, Math.max(0, expected - i)));
+  const out: number[] = [];
+  for (let i = 0; i < visits; i++) out.push(Math.min(1, Math.max(0, expected - i)));
+  return out;
+}
+
+type Catalogue = Map<string, RateBook["procedures"][number]>;
+const catalogues = new WeakMap<RateBook["procedures"], { length: number; byCode: Catalogue }>();
+
+/** The rate book's procedures by code, built once per list (the reach curve prices hundreds of studies with one edition); rebuilt if the list grows or shrinks. */
+function catalogueOf(rates: RateBook): Catalogue {
+  const hit = catalogues.get(rates.procedures);
+  if (hit && hit.length === rates.procedures.length) return hit.byCode;
+  const byCode: Catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
+  catalogues.set(rates.procedures, { length: rates.procedures.length, byCode });
+  return byCode;
+}
+
+// "CODE@unit", remembered by code and unit: joining and hashing a new string for every procedure at every visit was a twentieth of pricing a study (measured).
+const procedureKeys = new Map<string, Map<string, string>>();
+function procedureKey(code: string, unit: string): string {
+  let byUnit = procedureKeys.get(code);
+  if (!byUnit) {
+    if (procedureKeys.size > 10000) procedureKeys.clear();
+    procedureKeys.set(code, (byUnit = new Map()));
+  }
+  let key = byUnit.get(unit);
+  if (key === undefined) byUnit.set(unit, (key = `${code}@${unit}`));
+  return key;
 }
 
 /** Adds the participant lines for one group to `lines`; returns the visits attended per period (for the counts). */
 export function participantLines({ inputs, rates, visits, routine }: FamilyContext, lines: LineList, c: Cohorts, keyPrefix = ""): number[] {
   const screenedQ = lines.zeros();
   const failureQ = lines.zeros();
-  c.enrolled.forEach((n, m) => (screenedQ[periodOfMonth(m)]! += n + c.failures[m]!));
-  c.failures.forEach((n, m) => (failureQ[periodOfMonth(m)]! += n));
+  for (let m = 0; m < c.enrolled.length; m++) screenedQ[periodOfMonth(m)]! += c.enrolled[m]! + c.failures[m]!;
+  for (let m = 0; m < c.failures.length; m++) failureQ[periodOfMonth(m)]! += c.failures[m]!;
   lines.quantity(`${keyPrefix}screening`, "participants", "procedures", "Screening, per person screened", inputs.screeningCost ?? rates.participant.screeningCost, screenedQ);
   lines.quantity(`${keyPrefix}screen-failure-payments`, "participants", "participant", "Payments to screen failures", inputs.screenFailurePayment ?? rates.participant.screenFailurePayment, failureQ);
 
   const dropoutShare = dropoutAttendance(inputs.dropoutVisitShare, visits.length);
   const attendance = lines.zeros();
   const procedureQ = new Map<string, number[]>();
-  const catalogue = new Map(rates.procedures.map((p) => [p.code, p]));
+  const catalogue = catalogueOf(rates);
   type Entry = { unit: string; name: string; oneOff: boolean; code?: string };
   const procedureUnit = new Map<string, Entry>();
   // Rate-book procedures and one-off procedures are priced alike: a quantity line per procedure and unit
   // cost, counting each visit attended in the period it happens, escalated and rounded like any quantity line.
   const count = (key: string, entry: Entry, byPeriod: number[]) => {
     if (!procedureUnit.has(key)) procedureUnit.set(key, entry);
-    const q = procedureQ.get(key) ?? lines.zeros();
-    byPeriod.forEach((n, p) => (q[p]! += n));
-    procedureQ.set(key, q);
+    let q = procedureQ.get(key);
+    if (!q) procedureQ.set(key, (q = lines.zeros()));
+    for (let p = 0; p < byPeriod.length; p++) q[p]! += byPeriod[p]!;
   };
   visits.forEach((visit, i) => {
     const byPeriod = lines.zeros();
-    c.enrolled.forEach((n, m) => {
+    const share = dropoutShare[i]!;
+    for (let m = 0; m < c.enrolled.length; m++) {
       const completers = c.completers[m]!;
-      const attendees = completers + (n - completers) * dropoutShare[i]!;
-      byPeriod[periodOfMonth(m + visit.month)]! += attendees;
-    });
-    byPeriod.forEach((q, p) => (attendance[p]! += q));
+      byPeriod[periodOfMonth(m + visit.month)]! += completers + (c.enrolled[m]! - completers) * share;
+    }
+    for (let p = 0; p < byPeriod.length; p++) attendance[p]! += byPeriod[p]!;
     for (const proc of visit.procedures) {
       const entry = catalogue.get(proc.code);
       if (!entry && proc.unitCost === undefined) throw new CostingError(unknownProcedure(visit.name, proc.code, rates), `inputs.visits.${inputs.visits.indexOf(visit)}.procedures`);
       const unit = proc.unitCost ?? entry!.unitCost;
-      count(`${proc.code}@${unit}`, { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, oneOff: false, code: proc.code }, byPeriod);
+      const key = procedureKey(proc.code, unit);
+      // The line's name is built once per line, not once per visit (the reach curve prices hundreds of studies).
+      count(key, procedureUnit.get(key) ?? { unit, name: `${entry?.name ?? proc.code}${proc.unitCost !== undefined && entry ? " (cost overridden)" : ""}`, oneOff: false, code: proc.code }, byPeriod);
     }
     for (const extra of visit.oneOff ?? []) {
       const name = extra.name.trim();

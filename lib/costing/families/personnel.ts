@@ -7,6 +7,18 @@ import { describeSpan, monthsByPeriod, spanMonths } from "../effort-span";
 import { CostingError } from "../errors";
 import type { FamilyContext } from "./context";
 
+// Person-months to 4 decimals, remembered by value: toFixed is slow, and the reach curve prices the
+// same few effort × months products for every point.
+const personMonthsMemo = new Map<number, number>();
+function personMonthsOf(product: number): number {
+  let v = personMonthsMemo.get(product);
+  if (v === undefined) {
+    if (personMonthsMemo.size > 10000) personMonthsMemo.clear();
+    personMonthsMemo.set(product, (v = Number(product.toFixed(4))));
+  }
+  return v;
+}
+
 export function personnelLines({ inputs, rates, tl, lines }: FamilyContext): void {
   const fringeRates = new Map(rates.fringe.map((f) => [f.category, f.rate]));
   inputs.personnel.forEach((person, i) => {
@@ -25,7 +37,7 @@ export function personnelLines({ inputs, rates, tl, lines }: FamilyContext): voi
       capped,
       effort,
       months,
-      personMonths: effort.map((ef, p) => Number((ef * months[p]!).toFixed(4))),
+      personMonths: effort.map((ef, p) => personMonthsOf(ef * months[p]!)),
       fringeCategory: person.fringeCategory,
       fringeRate,
       span: describeSpan(span),

@@ -13,9 +13,10 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   const ledger = s.results.ledger;
   // The study's start is the first budget period's; the forecast re-costs the plan from it.
   const study = { startDate: ledger.periods[0]!.startDate, sponsorCap };
-  const f = forecastScenario(s.inputs, s.results, s.rates, study, { rateSpread: s.inputs.uncertainty?.rateSpread });
   const prior = givenPrior(s.inputs.uncertainty);
-  const a = prior ? scenarioAssurance(s.results.power, prior) : null;
+  // The page's own forecast when the caller has it (a download then simulates nothing); else computed here.
+  const f = s.outlook?.forecast ?? forecastScenario(s.inputs, s.results, s.rates, study, { rateSpread: s.inputs.uncertainty?.rateSpread });
+  const a = s.outlook ? s.outlook.assurance : prior ? scenarioAssurance(s.results.power, prior) : null;
   const ws = ctx.wb.addWorksheet(ctx.sheet("Forecast"));
   title(ws, "How likely the plan is", "A model of recruitment, not a promise: how much the plan depends on sites enrolling at the planned rate.");
   ws.columns = [{ width: 44 }, { width: 16 }, { width: 16 }, { width: 16 }, { width: 16 }];

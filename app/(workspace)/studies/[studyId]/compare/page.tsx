@@ -1,7 +1,7 @@
 import { analysisWords } from "@/lib/planning/analysis-words";
 import type { Metadata } from "next";
 import Link from "next/link";
-import { scenarioContext, scenariosForComparison, type ScenarioDetail } from "@/db/queries/scenarios";
+import { scenariosForComparison, type ComparedScenario, type ScenarioDetail } from "@/db/queries/scenarios";
 import { givenPrior } from "@/lib/planning/schema";
 import { outlookCached, type Outlook } from "@/lib/server/planning-cache";
 import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
@@ -60,7 +60,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
   const { studyId } = await params;
   const q = await searchParams;
   const ids = (Array.isArray(q.ids) ? q.ids : (q.ids ?? "").split(",")).map(Number).filter((n) => Number.isInteger(n) && n > 0);
-  let list: ScenarioDetail[] | null = null;
+  let list: ComparedScenario[] | null = null;
   let problem: string | null = null;
   try {
     list = await loadOr404(() => scenariosForComparison(user, Number(studyId), ids));
@@ -79,11 +79,10 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
       </div>
     );
   }
-  // The forecast and assurance each scenario's page shows, with what is saved with it.
+  // The forecast and assurance each scenario's page shows, with what is saved with it (loaded with the list).
   const outlooks = new Map<number, Outlook>();
   for (const s of list) {
-    const ctx = await scenarioContext(user, s.id);
-    outlooks.set(s.id, outlookCached(ctx.inputs, ctx.results, ctx.rates, ctx.study, { rateSpread: ctx.inputs.uncertainty?.rateSpread, prior: givenPrior(ctx.inputs.uncertainty) }));
+    outlooks.set(s.id, outlookCached(s.inputs, s.results, s.rates, s.settings, { rateSpread: s.inputs.uncertainty?.rateSpread, prior: givenPrior(s.inputs.uncertainty) }));
   }
   const likely: { section: string; rows: Row[] } = {
     section: "How likely the plan is",

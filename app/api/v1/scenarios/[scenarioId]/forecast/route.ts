@@ -1,15 +1,20 @@
 import { z } from "zod";
 import { scenarioContext } from "@/db/queries/scenarios";
 import { HttpError } from "@/lib/auth/errors";
-import { effectPriorSchema, givenPrior, uncertaintySchema } from "@/lib/planning/schema";
+import { givenPrior, uncertaintySchema } from "@/lib/planning/schema";
 import { json, parseId, withUser } from "@/lib/server/api";
 import { outlookCached } from "@/lib/server/planning-cache";
 
-/** Query overrides, so the page can redraw as the user types before anything is saved. */
+/**
+ * Query overrides, so the page can redraw as the user types before anything is saved: the saved
+ * Uncertainty section's own fields (uncertaintySchema), under the query's flat names, so that their
+ * bounds and messages cannot drift from the form's.
+ */
+const priorFields = uncertaintySchema.shape.effectPrior.unwrap().shape;
 const querySchema = z.object({
   rateSpread: uncertaintySchema.shape.rateSpread,
-  priorMean: effectPriorSchema.shape.mean,
-  priorSd: effectPriorSchema.shape.sd,
+  priorMean: priorFields.mean,
+  priorSd: priorFields.sd,
 });
 
 /**

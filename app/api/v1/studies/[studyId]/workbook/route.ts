@@ -4,6 +4,7 @@ import { roleMay } from "@/lib/auth/permissions";
 import { buildWorkbook } from "@/lib/workbook/build";
 import { workbookFileName, XLSX_TYPE } from "@/lib/workbook/file-name";
 import { parseId, withUser } from "@/lib/server/api";
+import { savedOutlook } from "@/lib/server/planning-cache";
 
 /** GET ?scenarios=a,b,c: a comparison workbook of two to four scenarios of the study. */
 export const GET = withUser<{ studyId: string }>(async ({ req, user, params }) => {
@@ -16,7 +17,9 @@ export const GET = withUser<{ studyId: string }>(async ({ req, user, params }) =
   }
   const data = await workbookData(user, ids, studyId);
   const date = new Date().toISOString().slice(0, 10);
-  const { buffer } = await buildWorkbook(data.study, data.scenarios, date);
+  // The Forecast sheet shows the page's own (cached) forecast rather than simulating again.
+  const scenarios = data.scenarios.map((s) => ({ ...s, outlook: savedOutlook(s.inputs, s.results, s.rates, s.settings) }));
+  const { buffer } = await buildWorkbook(data.study, scenarios, date);
   return new Response(new Uint8Array(buffer), {
     headers: {
       "content-type": XLSX_TYPE,
