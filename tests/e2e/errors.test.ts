@@ -6,7 +6,7 @@ import fs from "node:fs";
 import Database from "better-sqlite3";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { useBrowser, screenshot, signIn } from "./browser";
+import { expectConsoleErrors, useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -34,6 +34,8 @@ describe("error pages", () => {
   it("say what happened and what to do, show a reference, and the server logs it with the detail", async () => {
     const page = await browser.newPage();
     await signIn(page, baseUrl, "pi@demo.test");
+    // The page fails on purpose: the browser may log the failed render (production React keeps only its digest).
+    expectConsoleErrors(/An error occurred in the Server Components render/, /status of 500/);
     // The layout has already streamed when the page fails, so the status stays 200; the boundary takes over.
     await page.goto(`${baseUrl}/studies/1/scenarios/${brokenId}`);
     const alert = page.getByRole("alert").filter({ hasText: "could not be shown" });
