@@ -157,6 +157,9 @@ export async function sessionPage(browser: Browser, baseUrl: string, email: stri
   if (!state) {
     await signIn(page, baseUrl, email);
     sessions.set(email, await context.storageState());
+  } else {
+    // As after a sign-in, the page is on the app (a blank page could not fetch the API with its cookie).
+    await page.goto(`${baseUrl}/studies`);
   }
   return page;
 }
