@@ -13,10 +13,40 @@ export const SCREENSHOT_DIR = path.resolve(import.meta.dirname, "../../test-resu
  */
 export const pageErrors: string[] = [];
 
+/**
+ * Errors the browser wrote to the console in every page this test file opened (a failed fetch, a
+ * refused request's 4xx, React's warnings in production, a CSP violation). `page-errors.setup.ts` fails
+ * the test in which one happened unless the test itself said it expects it (`expectConsoleErrors`).
+ */
+export const consoleErrors: string[] = [];
+
+/** The console errors the running test provokes on purpose; `page-errors.setup.ts` clears them after each test. */
+export const expectedConsoleErrors: RegExp[] = [];
+
+/**
+ * Allows console errors matching `patterns` in the running test only (a 404 page it visits on purpose,
+ * a 409 it provokes): the shared setup forgets them after the test, so no other test is excused.
+ * Each pattern is matched against "<message> (on <page url>)"; a request's failure reads
+ * "Failed to load resource: the server responded with a status of 404 (Not Found) (on …)".
+ */
+export function expectConsoleErrors(...patterns: RegExp[]): void {
+  expectedConsoleErrors.push(...patterns);
+}
+
+/** The console errors of the running test that it did not say it expects. */
+export function unexpectedConsoleErrors(errors: string[]): string[] {
+  return errors.filter((e) => !expectedConsoleErrors.some((p) => p.test(e)));
+}
+
 function watch(context: BrowserContext): BrowserContext {
   context.on("weberror", (e) => {
     const page = e.page();
     pageErrors.push(`${e.error().message}${page ? ` (on ${page.url()})` : ""}`);
+  });
+  context.on("console", (m) => {
+    if (m.type() !== "error") return;
+    const where = m.location().url || m.page()?.url() || "";
+    consoleErrors.push(`${m.text()}${where ? ` (on ${where})` : ""}`);
   });
   return context;
 }
@@ -85,6 +115,52 @@ export async function pageAs(browser: Browser, baseUrl: string, email: string | 
   const context = await browser.newContext({ viewport: { width: opts.width ?? 1280, height: 900 }, bypassCSP: opts.bypassCSP ?? false });
   const page = await context.newPage();
   if (email) await signIn(page, baseUrl, email);
+  return page;
+}
+
+/**
+ * Signs several people in, each in their own browser context (so their cookies stay apart), as the
+ * journeys with two or three roles begin: `const { pi, grants } = await signedInPages(browser, baseUrl,
+ * { pi: "pi@demo.test", grants: "grants@demo.test" })`. Desktop size unless told. The sign-ins run side
+ * by side (each costs the server one scrypt hash).
+ */
+export async function signedInPages<K extends string>(
+  browser: Browser,
+  baseUrl: string,
+  people: Record<K, string>,
+  viewport: { width: number; height: number } = { width: 1440, height: 1000 },
+): Promise<Record<K, Page>> {
+  const entries = await Promise.all(
+    (Object.entries(people) as [K, string][]).map(async ([key, email]) => {
+      const page = await browser.newPage({ viewport });
+      await signIn(page, baseUrl, email);
+      return [key, page] as const;
+    }),
+  );
+  return Object.fromEntries(entries) as Record<K, Page>;
+}
+
+/** Signed-in sessions of this test file, by e-mail: cookies only (see `sessionPage`). */
+const sessions = new Map<string, Awaited<ReturnType<BrowserContext["storageState"]>>>();
+
+/**
+ * A fresh context already signed in as `email`: the first call of a test file signs in through the
+ * form; later calls reuse that session's cookie (playwright's storage state), so a file that opens many
+ * pages as one role pays for one sign-in (scrypt at N = 2^17 on the server) instead of one per page.
+ * Only for files that never sign that person out or change their password (that would end the session).
+ */
+export async function sessionPage(browser: Browser, baseUrl: string, email: string, opts: { bypassCSP?: boolean; width?: number } = {}): Promise<Page> {
+  const state = sessions.get(email);
+  const context = await browser.newContext({ viewport: { width: opts.width ?? 1280, height: 900 }, bypassCSP: opts.bypassCSP ?? false, storageState: state });
+  const page = await context.newPage();
+  page.on("close", () => void context.close().catch(() => {}));
+  if (!state) {
+    await signIn(page, baseUrl, email);
+    sessions.set(email, await context.storageState());
+  } else {
+    // As after a sign-in, the page is on the app (a blank page could not fetch the API with its cookie).
+    await page.goto(`${baseUrl}/studies`);
+  }
   return page;
 }
 

@@ -4,7 +4,7 @@
  */
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { useBrowser, screenshot, signIn } from "./browser";
+import { useBrowser, screenshot, signIn, expectConsoleErrors } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -76,6 +76,9 @@ describe("the power calculator inside a study", () => {
   });
 
   it("bad or missing input is named beside its field in plain words, with what to type, and what was typed is kept", async () => {
+    // The calculator asks the server, which refuses alpha 0.9 and "lots" with 400 and the field's message:
+    // the browser logs each refused request.
+    expectConsoleErrors(/status of 400 \(Bad Request\) \(on http:\/\/[^ ]+\/api\/v1\/power\)$/);
     await field("Alpha").fill("0.9");
     await page.getByTestId("calc-alpha-error").filter({ hasText: "Alpha: enter a number above 0 and at most 0.5, like 0.05." }).waitFor();
     // The summary at the top links to the field.

@@ -6,7 +6,7 @@ import fs from "node:fs";
 import Database from "better-sqlite3";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { useBrowser, screenshot, signIn } from "./browser";
+import { expectConsoleErrors, useBrowser, screenshot, signIn } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -34,6 +34,9 @@ describe("error pages", () => {
   it("say what happened and what to do, show a reference, and the server logs it with the detail", async () => {
     const page = await browser.newPage();
     await signIn(page, baseUrl, "pi@demo.test");
+    // The page fails on purpose: React logs the failed server render it caught (production React's error
+    // #441, "An error occurred in the Server Components render", keeping only a digest); no other error is allowed.
+    expectConsoleErrors(/^Error: Minified React error #441;/, /An error occurred in the Server Components render/);
     // The layout has already streamed when the page fails, so the status stays 200; the boundary takes over.
     await page.goto(`${baseUrl}/studies/1/scenarios/${brokenId}`);
     const alert = page.getByRole("alert").filter({ hasText: "could not be shown" });

@@ -36,6 +36,9 @@ describe("security headers", () => {
     }
     const html = await (await fetch(`${baseUrl}/sign-in`)).text();
     expect(html).toContain('rel="apple-touch-icon" href="/apple-touch-icon.png"');
+    // The tab's icon is linked, so no browser falls back to asking for /favicon.ico (there is none: a 404).
+    expect(html).toMatch(/rel="icon" href="\/icon\.svg" type="image\/svg\+xml"/);
+    expect((await fetch(`${baseUrl}/icon.svg`)).headers.get("content-type")).toContain("image/svg+xml");
     expect(html).toContain('rel="manifest" href="/manifest.webmanifest"');
   });
   it("server actions from another site, or with neither Origin nor Sec-Fetch-Site, get a clean 403 (never a 500) and change nothing", async () => {

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, useBrowser, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario } from "./browser";
+import { clickAndConfirm, createStudyFromPage, useBrowser, screenshotWidths, textField, waitForText, createHandWorkedScenario, signedInPages } from "./browser";
 
 /**
  * The grants officer's review, with the investigator's side in a second browser context: return with a
@@ -20,10 +20,7 @@ const REASON = "Attrition of 20% is low for a 6-month follow-up in this populati
 
 useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  await signIn(pi, baseUrl, "pi@demo.test");
-  await signIn(grants, baseUrl, "grants@demo.test");
+  ({ pi, grants } = await signedInPages(browser, baseUrl, { pi: "pi@demo.test", grants: "grants@demo.test" }));
 });
 
 describe("the grants officer's journey", () => {

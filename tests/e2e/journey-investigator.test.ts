@@ -4,7 +4,7 @@ import path from "node:path";
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { readMailbox } from "@/scripts/mail-server";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, useBrowser, screenshotWidths, signIn, textField, waitForText, workbookValue } from "./browser";
 
 /**
  * The investigator's whole job through the pages, as a person clicks and types: a study, scenarios
@@ -180,6 +180,42 @@ describe("the investigator's journey", () => {
     expect(await row("Design")).toContain("Two independent means");
     expect(await row("Design")).not.toContain("two-means");
     await screenshotWidths(pi, "journey-pi-compare");
+
+    // The comparison workbook, downloaded from the comparison as a person does: a column per scenario whose
+    // grand total (a formula over that scenario's budget sheet, evaluated here) is its hand-worked total.
+    const [download] = await Promise.all([pi.waitForEvent("download"), pi.getByRole("link", { name: "Download the comparison workbook" }).click()]);
+    expect(download.suggestedFilename()).toMatch(/\.xlsx$/);
+    const { default: ExcelJS } = await import("exceljs");
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.readFile((await download.path())!);
+    const cmp = wb.getWorksheet("Comparison")!;
+    const rowNumber = (label: string) => {
+      let found = 0;
+      cmp.eachRow((r, n) => {
+        if (r.getCell(1).value === label) found = n;
+      });
+      expect(found, `the comparison sheet's row "${label}"`).toBeGreaterThan(0);
+      return found;
+    };
+    const heads = [2, 3].map((c) => String(cmp.getCell(4, c).value));
+    const column = (name: string) => {
+      const k = heads.findIndex((h) => h.endsWith(`: ${name}`));
+      expect(k, `a column for ${name} in ${heads.join(" | ")}`).toBeGreaterThanOrEqual(0);
+      return String.fromCharCode(66 + k);
+    };
+    const grand = rowNumber("Grand total");
+    const evaluable = rowNumber("Evaluable, total");
+    // $86,714.04: the edited hand-worked plan (attrition 0.36), worked at the top of this file.
+    expect(workbookValue(wb, `'Comparison'!${column("Hand-worked, one site")}${grand}`)).toBeCloseTo(86_714.04, 2);
+    expect(cmp.getCell(`${column("Hand-worked, one site")}${evaluable}`).value).toBe(128);
+    // The pilot plan, worked by hand as above: 41 per arm → 52 enrolled (41 / 0.8 = 51.25, up) and 65 screened per
+    // arm → 104 / 130; 104 at 20 a month is 6 months (0–5), close-out month 6, 7 months in one period.
+    // Screening 130 × 85 = 11,050; failures 26 × 25 = 650; incentives 104 × 40 = 4,160; start-up 12,000;
+    // annual fee 3,500 × 7/12 = 2,041.67; monitoring ⌈4 × 6/12⌉ = 2 × 1,800 = 3,600; close-out 2,500.
+    // Direct 36,001.67; F&A 36,001.67 × 56.5% = 20,340.94 (20,340.943…); total $56,342.61.
+    expect(workbookValue(wb, `'Comparison'!${column("From the pilot SD")}${grand}`)).toBeCloseTo(56_342.61, 2);
+    expect(cmp.getCell(`${column("From the pilot SD")}${evaluable}`).value).toBe(82);
+    expect(await row("Total")).toContain("$56,343");
   }, 150_000);
 
   it("clones a scenario into a new draft, then deletes that draft", async () => {

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser, signedInPages } from "./browser";
 
 /**
  * What each role reaches for first (issue 18): the investigator withdraws a submission, reads the review
@@ -33,10 +33,7 @@ const within = (text: string) => new RegExp(text.replace(/[.*+?^${}()|[\]\\]/g, 
 
 useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  await signIn(pi, baseUrl, "pi@demo.test");
-  await signIn(grants, baseUrl, "grants@demo.test");
+  ({ pi, grants } = await signedInPages(browser, baseUrl, { pi: "pi@demo.test", grants: "grants@demo.test" }));
 });
 
 async function newHandWorked(name: string): Promise<string> {

@@ -240,8 +240,16 @@ describe("the review's e-mails", () => {
     await waitForText(finance.getByTestId("result-total"), "$73,437.63");
     await finance.close();
 
-    // The person who turned "cleared" off got none: wait past two sender rounds, then look.
-    await new Promise((r) => setTimeout(r, 5000));
+    // The person who turned "cleared" off got none. The clearance's messages are queued together, and the two
+    // above were delivered: so none was queued for them (the outbox, which keeps every message the app sends,
+    // has none), and none arrived. (This used to wait a fixed 5 s past two sender rounds instead.)
+    const db = new Database(databasePath, { readonly: true });
+    try {
+      expect(db.prepare("select subject from outbox where to_address = ? and subject like '%cleared%'").all(PERSON.email)).toEqual([]);
+      expect(db.prepare("select count(*) as n from outbox where to_address in ('pi@demo.test', 'finance@demo.test') and subject like '%Reminder letters cleared%'").get()).toEqual({ n: 2 });
+    } finally {
+      db.close();
+    }
     expect(readMailbox(mailboxDir).filter((m) => m.to.includes(PERSON.email) && /cleared/.test(m.subject))).toEqual([]);
     await pi.close();
     await grants.close();

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
+import { clickAndConfirm, createStudyFromPage, screenshotWidths, textField, waitForText, createHandWorkedScenario, useBrowser, signedInPages } from "./browser";
 
 /**
  * The study's settings and sponsor rules through the pages: the investigator edits their study and a
@@ -32,10 +32,7 @@ let clearedUrl = "";
 
 useBrowser((b) => (browser = b));
 beforeAll(async () => {
-  pi = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
-  await signIn(pi, baseUrl, "pi@demo.test");
-  await signIn(grants, baseUrl, "grants@demo.test");
+  ({ pi, grants } = await signedInPages(browser, baseUrl, { pi: "pi@demo.test", grants: "grants@demo.test" }));
 });
 
 async function newScenario(name: string): Promise<string> {

@@ -4,17 +4,13 @@
  * changes; regenerating follows the ledger again; the proportions are stored only when given, and the
  * workbook carries both texts (with the warning) and the enrolment table that adds up to the enrolled number.
  */
-import ExcelJS from "exceljs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import * as sessionRoute from "@/app/api/v1/session/route";
-import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
-import { cloneScenario, getScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
+import { cloneScenario, getScenario, reviewScenario } from "@/db/queries/scenarios";
 import type { Actor } from "@/lib/auth/permissions";
 import { HttpError } from "@/lib/auth/errors";
-import type { ScenarioInputs } from "@/lib/planning/schema";
-import { dropDatabase, useFreshDatabase } from "../support/db";
-import { params, request, signInAs } from "../support/http";
+import { dropDatabase } from "../support/db";
+import { editScenario, scenarioWorkbook, seededScenarios, withScreenFailure } from "../support/seeded-scenarios";
 
 let dir = "";
 let pi: Actor;
@@ -22,21 +18,13 @@ let grants: Actor;
 let ids: Record<string, number> = {};
 let cookie = "";
 beforeAll(async () => {
-  ({ dir } = await useFreshDatabase());
-  const users = await getDb().selectFrom("users").select(["id", "email", "role"]).execute();
-  const actor = (email: string) => {
-    const u = users.find((x) => x.email === email)!;
-    return { id: u.id, role: u.role } as Actor;
-  };
-  pi = actor("pi@demo.test");
-  grants = actor("grants@demo.test");
-  ids = Object.fromEntries((await getDb().selectFrom("scenarios").select(["id", "name"]).execute()).map((s) => [s.name, s.id]));
-  cookie = await signInAs(sessionRoute, "pi@demo.test");
+  let cookies: Record<string, string>;
+  ({ dir, pi, grants, ids, cookies } = await seededScenarios(["pi"]));
+  cookie = cookies.pi!;
 }, 90_000);
 afterAll(() => dropDatabase(dir));
 
-const edit = async (id: number, patch: Omit<Parameters<typeof updateScenario>[2], "version">, who: Actor = pi) => updateScenario(who, id, { version: (await getScenario(pi, id)).version, ...patch });
-const withScreenFailure = (i: ScenarioInputs, screenFailure: number): ScenarioInputs => ({ ...i, recruitment: { ...i.recruitment, screenFailure } });
+const edit = (id: number, patch: Parameters<typeof editScenario>[2], who: Actor = pi) => editScenario(who, id, patch);
 const PLAN = { sex: [0.52, 0.48], ethnicity: [0.8, 0.2], race: [0.01, 0.06, 0.005, 0.13, 0.745, 0.05] };
 
 describe("the budget justification", () => {
@@ -59,9 +47,7 @@ describe("the budget justification", () => {
     expect(labels).toEqual(expect.arrayContaining(["Screened", "Total costs"]));
     expect(moved.budgetJustification).toBe(text);
     // The workbook's justification sheet has both texts, and the budget one carries the warning.
-    const res = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie }), params({ scenarioId: String(id) }));
-    const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
+    const wb = await scenarioWorkbook(id, cookie);
     const ws = wb.getWorksheet("Justification")!;
     const cells: string[] = [];
     ws.eachRow((r) => r.eachCell((c) => void (typeof c.value === "string" && cells.push(c.value))));
@@ -105,16 +91,12 @@ describe("the planned enrolment proportions", () => {
   it("are none until given (nothing guessed), then stored, shown in the workbook adding up to the enrolled number, and kept by a clone", async () => {
     const id = ids["Three sites, longer enrolment"]!;
     expect((await getScenario(pi, id)).enrolmentPlan).toBeNull();
-    let res = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie }), params({ scenarioId: String(id) }));
-    let wb = new ExcelJS.Workbook();
-    await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
+    let wb = await scenarioWorkbook(id, cookie);
     expect(String(wb.getWorksheet("Enrolment")!.getCell("A4").value)).toMatch(/^No expected proportions have been given/);
 
     const s = await edit(id, { enrolmentPlan: PLAN });
     expect(s.enrolmentPlan).toEqual(PLAN);
-    res = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie }), params({ scenarioId: String(id) }));
-    wb = new ExcelJS.Workbook();
-    await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
+    wb = await scenarioWorkbook(id, cookie);
     const ws = wb.getWorksheet("Enrolment")!;
     let total = 0;
     for (let r = 6; r < 12; r++) for (let c = 2; c <= 5; c++) total += Number(ws.getCell(r, c).value);

@@ -4,52 +4,31 @@
  * keep that it went ahead), goes back to following the inputs when regenerated, and the workbook
  * carries the warning beside the text.
  */
-import ExcelJS from "exceljs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import * as sessionRoute from "@/app/api/v1/session/route";
 import * as reviewRoute from "@/app/api/v1/scenarios/[scenarioId]/review/route";
-import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
-import { getScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
+import { getScenario, reviewScenario } from "@/db/queries/scenarios";
 import { HttpError } from "@/lib/auth/errors";
 import type { Actor } from "@/lib/auth/permissions";
 import { parseFigures } from "@/lib/planning/justification-figures";
-import type { ScenarioInputs } from "@/lib/planning/schema";
-import { dropDatabase, useFreshDatabase } from "../support/db";
-import { params, request, signInAs } from "../support/http";
+import { dropDatabase } from "../support/db";
+import { params, request } from "../support/http";
+import { editScenario, refusal, scenarioWorkbook, seededScenarios, withScreenFailure } from "../support/seeded-scenarios";
 
 let dir = "";
 let pi: Actor;
 let grants: Actor;
 let ids: Record<string, number> = {};
-const c: Record<string, string> = {};
+let c: Record<string, string> = {};
 beforeAll(async () => {
-  ({ dir } = await useFreshDatabase());
-  const users = await getDb().selectFrom("users").select(["id", "email", "role"]).execute();
-  const actor = (email: string) => {
-    const u = users.find((x) => x.email === email)!;
-    return { id: u.id, role: u.role } as Actor;
-  };
-  pi = actor("pi@demo.test");
-  grants = actor("grants@demo.test");
-  ids = Object.fromEntries((await getDb().selectFrom("scenarios").select(["id", "name"]).execute()).map((s) => [s.name, s.id]));
-  for (const who of ["pi", "grants"]) c[who] = await signInAs(sessionRoute, `${who}@demo.test`);
   // Seeding hashes the demo passwords: slow on a busy two-core machine.
+  ({ dir, pi, grants, ids, cookies: c } = await seededScenarios(["pi", "grants"]));
 }, 90_000);
 afterAll(() => dropDatabase(dir));
 
 const SF = "Screen failure: written for 35%, now 20%";
-const withScreenFailure = (i: ScenarioInputs, screenFailure: number): ScenarioInputs => ({ ...i, recruitment: { ...i.recruitment, screenFailure } });
 const stored = async (id: number) => getDb().selectFrom("scenarios").select(["justification", "justification_figures_json", "state"]).where("id", "=", id).executeTakeFirstOrThrow();
-const refusal = async (p: Promise<unknown>) => {
-  try {
-    await p;
-  } catch (err) {
-    return err as HttpError;
-  }
-  throw new Error("expected a refusal");
-};
-const edit = async (id: number, patch: Omit<Parameters<typeof updateScenario>[2], "version">) => updateScenario(pi, id, { version: (await getScenario(pi, id)).version, ...patch });
+const edit = (id: number, patch: Parameters<typeof editScenario>[2]) => editScenario(pi, id, patch);
 
 describe("the edited justification and its figures", () => {
   it("a generated text follows the inputs and records no figures", async () => {
@@ -95,10 +74,8 @@ describe("the edited justification and its figures", () => {
 
   it("the workbook carries the warning beside the stale text", async () => {
     const id = ids["Three sites, longer enrolment"]!;
-    const res = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${id}/workbook`, { cookie: c.pi }), params({ scenarioId: String(id) }));
-    expect(res.status).toBe(200);
-    const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load((await res.arrayBuffer()) as ArrayBuffer);
+    // scenarioWorkbook fails unless the route answers 200.
+    const wb = await scenarioWorkbook(id, c.pi!);
     const ws = wb.getWorksheet("Justification")!;
     // The sheet holds both texts: the sample-size justification first (heading in row 4, text in row 5).
     expect(ws.getCell("A5").value).toBe("Our own words: 35% screen failure and the rest.");
@@ -109,9 +86,7 @@ describe("the edited justification and its figures", () => {
     expect(ws.getCell("B5").font?.bold).toBe(true);
     // A generated text says so instead.
     const other = ids["Six sites, 90% power"]!;
-    const res2 = await scenarioWorkbookRoute.GET(request("GET", `/api/v1/scenarios/${other}/workbook`, { cookie: c.pi }), params({ scenarioId: String(other) }));
-    const wb2 = new ExcelJS.Workbook();
-    await wb2.xlsx.load((await res2.arrayBuffer()) as ArrayBuffer);
+    const wb2 = await scenarioWorkbook(other, c.pi!);
     expect(wb2.getWorksheet("Justification")!.getCell("B5").value).toBe("Generated from the scenario's current figures.");
   });
 
