@@ -340,7 +340,9 @@ export function ScenarioForm({
     }
     const ctl = new AbortController();
     setPreview((p) => ({ ...p, busy: true }));
-    fetch(`/api/v1/studies/${studyId}/scenarios/preview`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: live }), signal: ctl.signal })
+    // A saved scenario is previewed with its own edition, as its save will cost it; a new one with the edition in force.
+    const url = scenarioId ? `/api/v1/scenarios/${scenarioId}/preview` : `/api/v1/studies/${studyId}/scenarios/preview`;
+    fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: live }), signal: ctl.signal })
       .then(async (res) => {
         const body = await res.json();
         setPreview(res.ok ? { results: body.results, error: null, busy: false } : (p) => ({ results: p.results, error: body?.error?.message ?? "Could not compute.", busy: false }));
@@ -349,7 +351,7 @@ export function ScenarioForm({
         if ((err as Error).name !== "AbortError") setPreview((p) => ({ ...p, error: "Could not reach the server; your inputs are kept.", busy: false }));
       });
     return () => ctl.abort();
-  }, [live, studyId, initialResults]);
+  }, [live, studyId, scenarioId, initialResults]);
 
   /**
    * A new scenario's design changed: fill that design's fields from its template (example values,
