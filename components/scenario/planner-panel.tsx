@@ -10,6 +10,7 @@ import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
 import { formatEffect } from "@/lib/power/effect-units";
 import { AdoptButton } from "./scenario-actions";
+import { SavedVersionNote } from "./unsaved-changes";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -25,11 +26,14 @@ const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents
 /** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
 export function PlannerPanel({
   scenarioId,
+  version,
   capLabel,
   effectName = "effectSize",
   adoptIds = null,
 }: {
   scenarioId: number;
+  /** The saved version the planner answers for (said while the form has unsaved changes). */
+  version: number;
   capLabel: string | null;
   effectName?: string;
   /** Given when the user may make drafts in this study: each answer can then become a new draft. */
@@ -43,6 +47,7 @@ export function PlannerPanel({
     <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
       <section className="card" aria-labelledby="cap-buys">
         <h2 id="cap-buys">What the cap buys</h2>
+        <SavedVersionNote what="these answers are for" version={version} testId="cap-buys-unsaved" />
         {data.capBuys ? (
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
@@ -98,6 +103,7 @@ export function PlannerPanel({
       </section>
       <section className="card" aria-labelledby="sensitivity">
         <h2 id="sensitivity">Sensitivity</h2>
+        <SavedVersionNote what="this table is for" version={version} testId="sensitivity-unsaved" />
         <p className="text-sm text-ink-soft">Each assumption moved over a plausible range; sorted by how much it moves the total.</p>
         <div className="mt-2 h-48" role="img" aria-label="Bar chart of how much each assumption moves the total cost; the table below has the numbers.">
           <ResponsiveContainer width="100%" height="100%">

@@ -1,3 +1,4 @@
+import Decimal from "decimal.js";
 import { analysisWords } from "@/lib/planning/analysis-words";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
@@ -94,11 +95,15 @@ function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
   );
 }
 
+const CAP_WARNING = "The total is over the sponsor's cap by";
+
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
 export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
   const p = results.power;
   const l = results.ledger;
   const caps = l.caps.total;
+  // The cap is said once, in the cap check above (results stored earlier also carry it as a warning, unformatted).
+  const warnings = results.warnings.filter((w) => !w.startsWith(CAP_WARNING));
   return (
     <div className="flex flex-col gap-4" data-testid="results">
       <dl className="grid grid-cols-2 gap-3">
@@ -161,9 +166,13 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       </p>
       {caps ? (
         <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">
+          {/* Both figures are against the cap the results were computed with; a study's cap changed since is said beside. */}
           {caps.within
-            ? `Within the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })}, with ${formatMoney(String(Number(caps.cap) - Number(caps.total)), { cents: false })} to spare.`
-            : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
+            ? `Within the sponsor's cap of ${formatMoney(caps.cap, { cents: false })}, with ${formatMoney(new Decimal(caps.cap).minus(caps.total), { cents: false })} to spare.`
+            : `Over the sponsor's cap of ${formatMoney(caps.cap, { cents: false })} by ${formatMoney(caps.over)}.`}
+          {sponsorCap === null || !new Decimal(sponsorCap).equals(caps.cap)
+            ? ` Computed against the cap then in force, ${formatMoney(caps.cap, { cents: false })}; ${sponsorCap === null ? "the study now has no cap" : `the study's cap is now ${formatMoney(sponsorCap, { cents: false })}`}.`
+            : null}
         </p>
       ) : null}
       <SponsorChecks results={results} />
@@ -257,9 +266,9 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           </table>
         </ScrollRegion>
       </details>
-      {results.warnings.length ? (
+      {warnings.length ? (
         <ul className="notice flex flex-col gap-1" data-testid="scenario-warnings">
-          {results.warnings.map((w) => (
+          {warnings.map((w) => (
             <li key={w}>{w}</li>
           ))}
         </ul>

@@ -20,6 +20,7 @@ import { PilotUpload } from "./pilot-upload";
 import { ProcedurePicker, type CatalogueProcedure } from "./procedure-picker";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
+import { useUnsavedChanges } from "./unsaved-changes";
 
 const SIDES = [
   ["2", "Two-sided"],
@@ -175,6 +176,7 @@ function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSp
             <input {...getInputProps(inJustification as FieldMetadata<boolean>, { type: "checkbox" })} key={inJustification.key} />
             Quote the assurance in the justification
           </label>
+          <span className="hint">The sample-size justification below quotes it once the scenario is saved.</span>
         </div>
       </div>
     </Section>
@@ -398,6 +400,13 @@ export function ScenarioForm({
   // What the aside's figures are: saved, a preview of unsaved changes, or out of date.
   const saved = scenarioId !== undefined && canonical(live) === canonical(inputs);
   const stale = blocked !== null || preview.error !== null;
+  // The panels below the form show the saved figures: they say so while the form holds other values.
+  const { setUnsaved } = useUnsavedChanges();
+  const unsaved = scenarioId !== undefined && (blocked !== null || canonical(live) !== canonical(inputs));
+  useEffect(() => {
+    setUnsaved(unsaved);
+  }, [unsaved, setUnsaved]);
+  useEffect(() => () => setUnsaved(false), [setUnsaved]);
   const accrual = preview.results?.accrual;
 
   return (

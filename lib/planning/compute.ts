@@ -10,6 +10,7 @@ import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type Po
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import { marginClaim, offersMargin, type ScenarioInputs } from "./schema";
+import { formatMoney } from "@/lib/format/money";
 import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
 /** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
@@ -249,7 +250,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
       `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or shorten the months between activations.`,
     );
   }
-  if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
+  if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by ${formatMoney(ledger.caps.total.over)}.`);
   return {
     computedAt: new Date().toISOString(),
     edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },
