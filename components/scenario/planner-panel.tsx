@@ -55,6 +55,13 @@ export function PlannerPanel({
             <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
           </p>
         ) : null}
+        {data.capBuys?.projectLength && !data.capBuys.projectLength.within ? (
+          // The cap's answer may enrol too slowly for the project the sponsor funds: said here, as the Results panel says it of the scenario.
+          <p className="alert mt-2 text-sm" data-testid="cap-buys-project-length">
+            At this size the study runs {data.capBuys.projectLength.studyMonths} months, longer than the project length of {data.capBuys.projectLength.projectMonths} months the sponsor funds: it
+            does not fit the project as set.
+          </p>
+        ) : null}
         {data.capBuys && adoptIds ? (
           <div className="mt-2">
             <AdoptButton ids={adoptIds} answer="cap" label="Make a draft that targets this effect" testId="adopt-cap" />

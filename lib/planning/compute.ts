@@ -5,6 +5,7 @@
 import Decimal from "decimal.js";
 import { computeLedger, largestFitting, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
 import { computeTimeline, TimelineError } from "@/lib/costing/timeline";
+import type { ProjectLengthCheck } from "@/lib/costing/project-length";
 import { buildFunnel } from "@/lib/power/funnel";
 import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type PowerResult } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
@@ -201,6 +202,8 @@ export type CapBuys = {
   effect: number;
   powerAtTarget: number;
   monthsToEnrol: number;
+  /** The study's length at this size against the sponsor's project length (absent in results stored before it was kept). */
+  projectLength?: ProjectLengthCheck | null;
 } | null;
 
 export type ScenarioResults = {
@@ -310,5 +313,6 @@ export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyCont
     effect,
     powerAtTarget: best.at.power.power,
     monthsToEnrol: best.ledger.timeline.monthsToEnrol,
+    projectLength: best.ledger.caps.projectLength ?? null,
   };
 }
