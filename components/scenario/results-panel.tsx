@@ -138,7 +138,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Total cost</dt>
-          <dd className="num text-xl font-medium" data-testid="result-total">
+          <dd className="num text-lg font-medium sm:text-xl" data-testid="result-total">
             {formatMoney(l.totals.total)}
           </dd>
         </div>
@@ -177,9 +177,10 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       ) : null}
       <SponsorChecks results={results} />
       {/* Periods run down the rows, so the table keeps four columns however many periods there are and
-          its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
+          its total column stays in view on a desktop screen (issue 13) and, in a smaller type with the
+          period's dates on two lines, on a 390-pixel phone; anything narrower scrolls it. */}
       <ScrollRegion label="Cost by budget period" testId="budget-table">
-        <table className="table text-[0.8rem] [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Cost by budget period">
+        <table className="table text-[0.75rem] sm:text-[0.8rem] [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Cost by budget period">
           <thead>
             <tr>
               <th scope="col">Period</th>
@@ -198,7 +199,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <tbody>
             {l.periods.map((per, i) => (
               <tr key={per.index}>
-                <th scope="row" className="font-normal normal-case tracking-normal whitespace-nowrap text-ink">
+                <th scope="row" className="font-normal normal-case tracking-normal text-ink">
                   <span className="sr-only">Budget period </span>
                   <span className="num">{per.index + 1}</span>{" "}
                   <span className="num block text-xs text-ink-soft">

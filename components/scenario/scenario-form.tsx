@@ -724,7 +724,7 @@ export function ScenarioForm({
       </form>
 
       <aside className="flex flex-col gap-4 xl:col-span-2" aria-live="polite">
-        <section className="card flex flex-col gap-3" aria-labelledby="live-results" aria-busy={preview.busy}>
+        <section className="card flex flex-col gap-3 max-sm:px-3" aria-labelledby="live-results" aria-busy={preview.busy}>
           <h2 id="live-results">
             Results {preview.busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : null}
           </h2>

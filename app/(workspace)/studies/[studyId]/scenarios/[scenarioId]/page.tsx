@@ -150,7 +150,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       ) : (
         <>
         <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
-          <section className="card xl:col-span-3" aria-labelledby="results-heading">
+          <section className="card min-w-0 max-sm:px-3 xl:col-span-3" aria-labelledby="results-heading">
             <h2 id="results-heading" className="mb-3">
               Results
             </h2>
