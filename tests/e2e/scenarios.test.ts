@@ -153,7 +153,7 @@ describe("unsaved edits of a saved scenario", () => {
     const previewTotal = await pi.getByTestId("result-total").textContent();
     // Each panel of saved figures says it is for the saved version and will follow after saving.
     for (const id of ["cap-buys-unsaved", "sensitivity-unsaved", "justification-unsaved", "budget-justification-unsaved", "sponsor-unsaved", "enrolment-unsaved"]) {
-      await waitForText(pi.getByTestId(id), "The form above has unsaved changes:");
+      await waitForText(pi.getByTestId(id), /^The form above has unsaved changes:/);
       expect(await pi.getByTestId(id).textContent(), id).toMatch(/the saved version 1, and will follow your changes once you save them\.$/);
     }
     await screenshot(pi, "scenario-unsaved-notes");
