@@ -135,8 +135,9 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       ) : null}
       {editable ? (
         <ScenarioForm
-          // A save (or any new version) starts the form afresh from what was saved.
-          key={s.version}
+          // Saved inputs (new figures) start the form afresh from what was saved; a justification or
+          // enrolment save raises the version too but must keep unsaved edits in the form.
+          key={s.results.computedAt}
           studyId={s.studyId}
           scenarioId={s.id}
           version={s.version}
