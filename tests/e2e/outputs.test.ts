@@ -139,7 +139,7 @@ describe("the investigator's outputs", () => {
     await phone.getByTestId("report-ledger").waitFor();
     await phone.waitForLoadState("networkidle");
     expect(await phone.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0);
-    for (const region of [phone.getByTestId("report-ledger-region"), phone.getByRole("region", { name: "Budget in the sponsor's format" }), phone.getByTestId("report-forecast-table")]) {
+    for (const region of [phone.getByTestId("report-ledger-region"), phone.getByRole("region", { name: "Budget in the sponsor's format", exact: true }), phone.getByTestId("report-forecast-table")]) {
       const box = await region.evaluate((el) => ({ role: el.getAttribute("role"), right: el.getBoundingClientRect().right, wider: el.scrollWidth > el.clientWidth, tab: el.getAttribute("tabindex") }));
       // Inside the page, and when wider than it, reachable by keyboard to scroll (components/scroll-region.tsx).
       expect(box.role).toBe("region");
