@@ -10,6 +10,7 @@ import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
 import { formatEffect } from "@/lib/power/effect-units";
 import { AdoptButton } from "./scenario-actions";
+import { SavedVersionNote } from "./unsaved-changes";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -25,11 +26,14 @@ const money = (v: string | null) => (v === null ? "—" : formatMoney(v, { cents
 /** What the cap buys, the cheapest design for the target, and the sensitivity of n and cost. */
 export function PlannerPanel({
   scenarioId,
+  version,
   capLabel,
   effectName = "effectSize",
   adoptIds = null,
 }: {
   scenarioId: number;
+  /** The saved version the planner answers for (said while the form has unsaved changes). */
+  version: number;
   capLabel: string | null;
   effectName?: string;
   /** Given when the user may make drafts in this study: each answer can then become a new draft. */
@@ -43,11 +47,19 @@ export function PlannerPanel({
     <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
       <section className="card" aria-labelledby="cap-buys">
         <h2 id="cap-buys">What the cap buys</h2>
+        <SavedVersionNote what="these answers are for" version={version} testId="cap-buys-unsaved" />
         {data.capBuys ? (
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
             {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: {effectName === "margin" ? "the smallest margin it supports is" : "the detectable effect is"}{" "}
             <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
+          </p>
+        ) : null}
+        {data.capBuys?.projectLength && !data.capBuys.projectLength.within ? (
+          // The cap's answer may enrol too slowly for the project the sponsor funds: said here, as the Results panel says it of the scenario.
+          <p className="alert mt-2 text-sm" data-testid="cap-buys-project-length">
+            At this size the study runs {data.capBuys.projectLength.studyMonths} months, longer than the project length of {data.capBuys.projectLength.projectMonths} months the sponsor funds: it
+            does not fit the project as set.
           </p>
         ) : null}
         {data.capBuys && adoptIds ? (
@@ -98,6 +110,7 @@ export function PlannerPanel({
       </section>
       <section className="card" aria-labelledby="sensitivity">
         <h2 id="sensitivity">Sensitivity</h2>
+        <SavedVersionNote what="this table is for" version={version} testId="sensitivity-unsaved" />
         <p className="text-sm text-ink-soft">Each assumption moved over a plausible range; sorted by how much it moves the total.</p>
         <div className="mt-2 h-48" role="img" aria-label="Bar chart of how much each assumption moves the total cost; the table below has the numbers.">
           <ResponsiveContainer width="100%" height="100%">

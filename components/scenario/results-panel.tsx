@@ -1,3 +1,4 @@
+import Decimal from "decimal.js";
 import { analysisWords } from "@/lib/planning/analysis-words";
 import type { ScenarioResults } from "@/lib/planning/compute";
 import type { LedgerLine } from "@/lib/costing";
@@ -94,11 +95,15 @@ function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
   );
 }
 
+const CAP_WARNING = "The total is over the sponsor's cap by";
+
 /** The scenario's numbers: sample and funnel, timeline, cost by period, cap checks, warnings. Pure rendering. */
 export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults; sponsorCap: string | null }) {
   const p = results.power;
   const l = results.ledger;
   const caps = l.caps.total;
+  // The cap is said once, in the cap check above (results stored earlier also carry it as a warning, unformatted).
+  const warnings = results.warnings.filter((w) => !w.startsWith(CAP_WARNING));
   return (
     <div className="flex flex-col gap-4" data-testid="results">
       <dl className="grid grid-cols-2 gap-3">
@@ -133,7 +138,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Total cost</dt>
-          <dd className="num text-xl font-medium" data-testid="result-total">
+          <dd className="num text-lg font-medium sm:text-xl" data-testid="result-total">
             {formatMoney(l.totals.total)}
           </dd>
         </div>
@@ -161,16 +166,21 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
       </p>
       {caps ? (
         <p className={caps.within ? "notice" : "alert"} data-testid="cap-check">
+          {/* Both figures are against the cap the results were computed with; a study's cap changed since is said beside. */}
           {caps.within
-            ? `Within the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })}, with ${formatMoney(String(Number(caps.cap) - Number(caps.total)), { cents: false })} to spare.`
-            : `Over the sponsor's cap of ${formatMoney(sponsorCap, { cents: false })} by ${formatMoney(caps.over)}.`}
+            ? `Within the sponsor's cap of ${formatMoney(caps.cap, { cents: false })}, with ${formatMoney(new Decimal(caps.cap).minus(caps.total), { cents: false })} to spare.`
+            : `Over the sponsor's cap of ${formatMoney(caps.cap, { cents: false })} by ${formatMoney(caps.over)}.`}
+          {sponsorCap === null || !new Decimal(sponsorCap).equals(caps.cap)
+            ? ` Computed against the cap then in force, ${formatMoney(caps.cap, { cents: false })}; ${sponsorCap === null ? "the study now has no cap" : `the study's cap is now ${formatMoney(sponsorCap, { cents: false })}`}.`
+            : null}
         </p>
       ) : null}
       <SponsorChecks results={results} />
       {/* Periods run down the rows, so the table keeps four columns however many periods there are and
-          its total column stays in view on a desktop screen (issue 13); narrower screens scroll it. */}
+          its total column stays in view on a desktop screen (issue 13) and, in a smaller type with the
+          period's dates on two lines, on a 390-pixel phone; anything narrower scrolls it. */}
       <ScrollRegion label="Cost by budget period" testId="budget-table">
-        <table className="table text-[0.8rem] [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Cost by budget period">
+        <table className="table text-[0.75rem] sm:text-[0.8rem] [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Cost by budget period">
           <thead>
             <tr>
               <th scope="col">Period</th>
@@ -189,7 +199,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           <tbody>
             {l.periods.map((per, i) => (
               <tr key={per.index}>
-                <th scope="row" className="font-normal normal-case tracking-normal whitespace-nowrap text-ink">
+                <th scope="row" className="font-normal normal-case tracking-normal text-ink">
                   <span className="sr-only">Budget period </span>
                   <span className="num">{per.index + 1}</span>{" "}
                   <span className="num block text-xs text-ink-soft">
@@ -257,9 +267,9 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
           </table>
         </ScrollRegion>
       </details>
-      {results.warnings.length ? (
+      {warnings.length ? (
         <ul className="notice flex flex-col gap-1" data-testid="scenario-warnings">
-          {results.warnings.map((w) => (
+          {warnings.map((w) => (
             <li key={w}>{w}</li>
           ))}
         </ul>

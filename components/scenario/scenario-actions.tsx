@@ -3,6 +3,7 @@
 import { useActionState, useState, useTransition, type ReactNode } from "react";
 import { ConfirmButton } from "@/components/confirm-button";
 import { mismatchLines, type JustificationCheck } from "@/lib/planning/justification-figures";
+import { SavedVersionNote, useUnsavedChanges } from "./unsaved-changes";
 import { adoptAction, cloneAction, deleteAction, recomputeAction, reviewAction, saveBudgetJustificationAction, saveJustificationAction } from "@/app/(workspace)/studies/[studyId]/scenarios/actions";
 
 type Ids = { studyId: number; scenarioId: number; version: number };
@@ -237,6 +238,8 @@ export function JustificationEditor({
     setDraft(text);
   }
   const lines = mismatchLines(check);
+  // While the form above has unsaved changes the text (and its check) are for the saved figures.
+  const { unsaved } = useUnsavedChanges();
 
   function send(intent: "save" | "regenerate") {
     const form = new FormData();
@@ -261,10 +264,11 @@ export function JustificationEditor({
         {!edited
           ? "Generated from the scenario; it follows the figures until you edit and save it."
           : check.status === "matches"
-            ? "Edited by the investigator; it quotes the scenario's current figures."
+            ? `Edited by the investigator; it quotes the scenario's ${unsaved ? "saved" : "current"} figures.`
             : "Edited by the investigator."}{" "}
         {k.reviewer}
       </p>
+      <SavedVersionNote what="this text is for" version={ids.version} testId={tid("justification-unsaved")} />
       {lines ? (
         <div className="alert flex flex-col gap-1" data-testid={tid("justification-mismatch")}>
           <p className="font-semibold">The text no longer matches the scenario&apos;s figures.</p>

@@ -20,6 +20,7 @@ import { PilotUpload } from "./pilot-upload";
 import { ProcedurePicker, type CatalogueProcedure } from "./procedure-picker";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
+import { useUnsavedChanges } from "./unsaved-changes";
 
 const SIDES = [
   ["2", "Two-sided"],
@@ -175,6 +176,7 @@ function UncertaintySection({ fields, design }: { fields: FieldMetadata<{ rateSp
             <input {...getInputProps(inJustification as FieldMetadata<boolean>, { type: "checkbox" })} key={inJustification.key} />
             Quote the assurance in the justification
           </label>
+          <span className="hint">The sample-size justification below quotes it once the scenario is saved.</span>
         </div>
       </div>
     </Section>
@@ -340,7 +342,9 @@ export function ScenarioForm({
     }
     const ctl = new AbortController();
     setPreview((p) => ({ ...p, busy: true }));
-    fetch(`/api/v1/studies/${studyId}/scenarios/preview`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: live }), signal: ctl.signal })
+    // A saved scenario is previewed with its own edition, as its save will cost it; a new one with the edition in force.
+    const url = scenarioId ? `/api/v1/scenarios/${scenarioId}/preview` : `/api/v1/studies/${studyId}/scenarios/preview`;
+    fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: live }), signal: ctl.signal })
       .then(async (res) => {
         const body = await res.json();
         setPreview(res.ok ? { results: body.results, error: null, busy: false } : (p) => ({ results: p.results, error: body?.error?.message ?? "Could not compute.", busy: false }));
@@ -349,7 +353,7 @@ export function ScenarioForm({
         if ((err as Error).name !== "AbortError") setPreview((p) => ({ ...p, error: "Could not reach the server; your inputs are kept.", busy: false }));
       });
     return () => ctl.abort();
-  }, [live, studyId, initialResults]);
+  }, [live, studyId, scenarioId, initialResults]);
 
   /**
    * A new scenario's design changed: fill that design's fields from its template (example values,
@@ -396,6 +400,13 @@ export function ScenarioForm({
   // What the aside's figures are: saved, a preview of unsaved changes, or out of date.
   const saved = scenarioId !== undefined && canonical(live) === canonical(inputs);
   const stale = blocked !== null || preview.error !== null;
+  // The panels below the form show the saved figures: they say so while the form holds other values.
+  const { setUnsaved } = useUnsavedChanges();
+  const unsaved = scenarioId !== undefined && (blocked !== null || canonical(live) !== canonical(inputs));
+  useEffect(() => {
+    setUnsaved(unsaved);
+  }, [unsaved, setUnsaved]);
+  useEffect(() => () => setUnsaved(false), [setUnsaved]);
   const accrual = preview.results?.accrual;
 
   return (
@@ -713,7 +724,7 @@ export function ScenarioForm({
       </form>
 
       <aside className="flex flex-col gap-4 xl:col-span-2" aria-live="polite">
-        <section className="card flex flex-col gap-3" aria-labelledby="live-results" aria-busy={preview.busy}>
+        <section className="card flex flex-col gap-3 max-sm:px-3" aria-labelledby="live-results" aria-busy={preview.busy}>
           <h2 id="live-results">
             Results {preview.busy ? <span className="text-sm font-normal text-ink-soft">updating…</span> : null}
           </h2>

@@ -196,6 +196,15 @@ export async function previewScenario(actor: Actor, studyId: number, inputs: Sce
   return compute(inputs, editionToRateBook(edition), settingsOfRow(study));
 }
 
+/**
+ * Results for unsaved edits of a saved scenario: costed with the scenario's own edition and study
+ * settings, as its save will be (a newer edition is the separate recompute's to take).
+ */
+export async function previewScenarioEdit(actor: Actor, id: number, inputs: ScenarioInputs): Promise<ScenarioResults> {
+  const ctx = await scenarioContext(actor, id);
+  return compute(inputs, ctx.rates, ctx.study);
+}
+
 export async function createScenario(actor: Actor, studyId: number, input: { name: string; inputs: ScenarioInputs }, clonedFrom: number | null = null): Promise<number> {
   const membership = await membershipOf(actor.id, studyId);
   const exists = await getDb().selectFrom("studies").select(["id", ...STUDY_SETTINGS]).where("id", "=", studyId).executeTakeFirst();

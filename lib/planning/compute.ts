@@ -5,11 +5,13 @@
 import Decimal from "decimal.js";
 import { computeLedger, largestFitting, sitesNeeded, type CostInputs, type Ledger, type RateBook } from "@/lib/costing";
 import { computeTimeline, TimelineError } from "@/lib/costing/timeline";
+import type { ProjectLengthCheck } from "@/lib/costing/project-length";
 import { buildFunnel } from "@/lib/power/funnel";
 import { solveParsed, powerInputSchema, quantityNames, UnreachableError, type PowerResult } from "@/lib/power";
 import type { ParsedPowerInput } from "@/lib/power/schema";
 import { settleAccrual, type AccrualFit } from "./accrual";
 import { marginClaim, offersMargin, type ScenarioInputs } from "./schema";
+import { formatMoney } from "@/lib/format/money";
 import { settingsFingerprint, sponsorRulesOf, type StudySettings } from "@/lib/studies/rules";
 
 /** The study's settings a scenario is computed under: its start, its cap and the sponsor's rules (lib/studies/rules.ts). */
@@ -221,6 +223,8 @@ export type CapBuys = {
   effect: number;
   powerAtTarget: number;
   monthsToEnrol: number;
+  /** The study's length at this size against the sponsor's project length (absent in results stored before it was kept). */
+  projectLength?: ProjectLengthCheck | null;
 } | null;
 
 export type ScenarioResults = {
@@ -270,7 +274,7 @@ export function computeScenario(i: ScenarioInputs, rates: RateBook, study: Study
       `Only ${ledger.counts.sites} of the ${ledger.counts.sitesPlanned} sites open before enrolment ends; the plan costs those ${ledger.counts.sites}. Set Sites to ${ledger.counts.sites}, or shorten the months between activations.`,
     );
   }
-  if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by $${new Decimal(ledger.caps.total.over).toFixed(2)}.`);
+  if (ledger.caps.total && !ledger.caps.total.within) warnings.push(`The total is over the sponsor's cap by ${formatMoney(ledger.caps.total.over)}.`);
   return {
     computedAt: new Date().toISOString(),
     edition: { id: rates.editionId ?? null, label: rates.label ?? null, effectiveDate: rates.effectiveDate ?? null },
@@ -330,5 +334,6 @@ export function whatCapBuys(i: ScenarioInputs, rates: RateBook, study: StudyCont
     effect,
     powerAtTarget: best.at.power.power,
     monthsToEnrol: best.ledger.timeline.monthsToEnrol,
+    projectLength: best.ledger.caps.projectLength ?? null,
   };
 }

@@ -2,7 +2,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createStudyFromPage, printToText, SCREENSHOT_DIR, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
+import { createStudyFromPage, printToText, SCREENSHOT_DIR, screenshot, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser } from "./browser";
 
 /**
  * The outputs a grants office sends, walked as the investigator does: the sponsor's format on the
@@ -130,4 +130,25 @@ describe("the investigator's outputs", () => {
     // Page breaks: the ledger, the sponsor's format and the budget justification each start a page.
     expect(text.split("\f").length).toBeGreaterThanOrEqual(4);
   }, 180_000);
+
+  it("the report fits a 390-pixel phone: the ledger, the sponsor's format and the forecast each scroll in their own region", async () => {
+    const phone = await browser.newPage({ viewport: { width: 390, height: 844 } });
+    await signIn(phone, baseUrl, "pi@demo.test");
+    // The demo study's six-site scenario: four budget periods, the widest ledger the demo has.
+    await phone.goto(`${baseUrl}/studies/1/scenarios/1/report`);
+    await phone.getByTestId("report-ledger").waitFor();
+    await phone.waitForLoadState("networkidle");
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0);
+    for (const region of [phone.getByTestId("report-ledger-region"), phone.getByRole("region", { name: "Budget in the sponsor's format", exact: true }), phone.getByTestId("report-forecast-table")]) {
+      const box = await region.evaluate((el) => ({ role: el.getAttribute("role"), right: el.getBoundingClientRect().right, wider: el.scrollWidth > el.clientWidth, tab: el.getAttribute("tabindex") }));
+      // Inside the page, and when wider than it, reachable by keyboard to scroll (components/scroll-region.tsx).
+      expect(box.role).toBe("region");
+      expect(box.right).toBeLessThanOrEqual(390);
+      if (box.wider) expect(box.tab).toBe("0");
+    }
+    await screenshot(phone, "report-390");
+    // The ledger is the widest: at 390 pixels it must scroll rather than widen the page.
+    expect(await phone.getByTestId("report-ledger-region").evaluate((el) => el.scrollWidth > el.clientWidth)).toBe(true);
+    await phone.close();
+  }, 120_000);
 });

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { clickAndConfirm, createStudyFromPage, screenshotWidths, textField, waitForText, createHandWorkedScenario, useBrowser, signedInPages } from "./browser";
+import { clickAndConfirm, createStudyFromPage, fillHandWorkedScenario, screenshotWidths, signIn, textField, waitForText, createHandWorkedScenario, useBrowser, signedInPages } from "./browser";
 
 /**
  * The study's settings and sponsor rules through the pages: the investigator edits their study and a
@@ -120,4 +120,49 @@ describe("the study's settings and sponsor rules", () => {
     await pi.locator("summary", { hasText: /^Cost lines/ }).first().click();
     await pi.getByRole("cell", { name: "Force plate (1 × $10000.01, equipment)" }).first().waitFor();
   }, 180_000);
+
+  /*
+   * A lower cap and a short project, worked by hand for the plan above under the off-campus rate and the 10% limit:
+   * - the scenario put in review before the change: $51,617.50 within the $100,000 cap, $48,382.50 to spare
+   *   ($48,383 in whole dollars, half-up), both against the cap then in force;
+   * - the draft ($61,617.51 with its purchase) against the new cap of $60,000: over by $1,617.51;
+   * - the plan runs 9 months; what $60,000 buys is a slightly smaller plan ($1,617.51 less), still longer
+   *   than a 6-month project (the test reads the months and checks only that they exceed 6).
+   */
+  it("an in-review scenario's cap check names the cap it was computed with; the draft's follows a lower cap; What the cap buys says it breaks a short project", async () => {
+    await pi.goto(studyUrl);
+    await pi.getByRole("link", { name: "New scenario" }).click();
+    await pi.waitForURL(/\/scenarios\/new$/);
+    await fillHandWorkedScenario(pi, "In review before the cap fell");
+    await waitForText(pi.getByTestId("result-total"), "$51,617.50");
+    await pi.getByRole("button", { name: "Create scenario" }).click();
+    await pi.waitForURL(/\/scenarios\/\d+\?saved=1$/);
+    const reviewUrl = pi.url().replace(/\?.*$/, "");
+    await clickAndConfirm(pi, pi.getByTestId("submit-review"));
+    await pi.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    await waitForText(pi.getByTestId("cap-check"), "Within the sponsor's cap of $100,000, with $48,383 to spare.");
+
+    await pi.goto(studyUrl);
+    await pi.getByTestId("study-settings-link").click();
+    await pi.waitForURL(/\/settings$/);
+    await textField(pi, "Total cap (USD)").fill("60000");
+    await textField(pi, "Project length (months)").fill("6");
+    await pi.getByRole("button", { name: "Save the study's settings" }).click();
+    await waitForText(pi.getByTestId("settings-saved"), /^Saved\./);
+
+    await pi.goto(reviewUrl);
+    await pi.getByText("sponsor cap $60,000").first().waitFor();
+    await waitForText(
+      pi.getByTestId("cap-check"),
+      "Within the sponsor's cap of $100,000, with $48,383 to spare. Computed against the cap then in force, $100,000; the study's cap is now $60,000.",
+    );
+
+    await pi.goto(draftUrl);
+    await waitForText(pi.getByTestId("result-total"), "$61,617.51");
+    await waitForText(pi.getByTestId("cap-check"), "Over the sponsor's cap of $60,000 by $1,617.51.");
+    // The cap is said once, formatted; the warnings below the cost lines do not repeat it.
+    expect(await pi.getByTestId("results").textContent()).not.toContain("1617.51");
+    await waitForText(pi.getByTestId("cap-buys-project-length"), /^At this size the study runs \d+ months, longer than the project length of 6 months the sponsor funds: it does not fit the project as set\.$/);
+    expect(Number((await pi.getByTestId("cap-buys-project-length").textContent())!.match(/runs (\d+) months/)![1])).toBeGreaterThan(6);
+  }, 240_000);
 });

@@ -9,6 +9,7 @@ import { getDb } from "@/db";
 import * as sessionRoute from "@/app/api/v1/session/route";
 import * as editionsRoute from "@/app/api/v1/rate-book/editions/route";
 import * as editionRoute from "@/app/api/v1/rate-book/editions/[editionId]/route";
+import * as previewRoute from "@/app/api/v1/scenarios/[scenarioId]/preview/route";
 import { applyEditionPatch, createDraft, getEdition, listEditions, previewPublish } from "@/db/queries/rate-book";
 import { createScenario, getScenario, updateScenario } from "@/db/queries/scenarios";
 import { createStudy } from "@/db/queries/studies";
@@ -136,5 +137,28 @@ describe("the edition in force decides the costing", () => {
     );
     expect(tooMuch.status).toBe(400);
     expect(JSON.stringify(await tooMuch.json())).toContain("type a percentage with its % sign, like 57.5%");
+  });
+});
+
+describe("the unsaved preview of a saved scenario", () => {
+  it("costs with the scenario's own edition, as its save does, when a newer edition is in force", async () => {
+    const piCookie = await signInAs(sessionRoute, "pi@demo.test");
+    const id = await createScenario(who.pi!, ids.pastStudy!, { name: "Preview and save alike", inputs });
+    const own = await editionOf(id);
+    // A newer edition with another F&A rate comes into force after the scenario was costed.
+    const newer = await publishedDraft("Preview-test rates", daysFromToday(-5), "0.6125");
+    const before = await getScenario(who.pi!, id);
+    expect(before.newerEdition).toEqual({ id: newer, label: "Preview-test rates" });
+    const edited = { ...inputs, recruitment: { ...inputs.recruitment, attrition: inputs.recruitment.attrition + 0.01 } };
+    const res = await previewRoute.POST(request("POST", `/api/v1/scenarios/${id}/preview`, { cookie: piCookie, body: { inputs: edited } }), params({ scenarioId: String(id) }));
+    expect(res.status).toBe(200);
+    const { results } = await res.json();
+    const saved = await updateScenario(who.pi!, id, { version: before.version, inputs: edited });
+    expect(await editionOf(id)).toBe(own);
+    // The preview quotes the figures the save keeps, to the cent, and names the same edition and F&A rate.
+    expect(results.edition.id).toBe(own);
+    expect(results.ledger.faRate).toBe(saved.results.ledger.faRate);
+    expect(results.ledger.faRate).not.toBe("0.6125");
+    expect(results.ledger.totals.total).toBe(saved.results.ledger.totals.total);
   });
 });

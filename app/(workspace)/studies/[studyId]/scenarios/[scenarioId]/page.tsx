@@ -9,6 +9,7 @@ import { ReachChart } from "@/components/scenario/reach-chart";
 import { ResultsPanel } from "@/components/scenario/results-panel";
 import { JustificationEditor, ScenarioActions } from "@/components/scenario/scenario-actions";
 import { ScenarioForm } from "@/components/scenario/scenario-form";
+import { SavedVersionNote, UnsavedChangesProvider } from "@/components/scenario/unsaved-changes";
 import { EnrolmentForm } from "@/components/scenario/enrolment-form";
 import { EnrolmentTableView } from "@/components/scenario/enrolment-table";
 import { SponsorBudgetTable } from "@/components/scenario/sponsor-budget";
@@ -56,6 +57,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
   const mayDraft = can(user, "scenario.edit", { membership: s.membership, scenarioState: "draft" });
   const changes = await scenarioHistory(user, s.id);
   return (
+    <UnsavedChangesProvider>
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
         <Link href="/studies">Studies</Link> <span aria-hidden="true">›</span> <Link href={`/studies/${s.studyId}`}>{s.study.code}</Link> <span aria-hidden="true">›</span> {s.name}
@@ -133,6 +135,9 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       ) : null}
       {editable ? (
         <ScenarioForm
+          // Saved inputs (new figures) start the form afresh from what was saved; a justification or
+          // enrolment save raises the version too but must keep unsaved edits in the form.
+          key={s.results.computedAt}
           studyId={s.studyId}
           scenarioId={s.id}
           version={s.version}
@@ -146,7 +151,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       ) : (
         <>
         <div className="grid grid-cols-1 gap-6 xl:grid-cols-5">
-          <section className="card xl:col-span-3" aria-labelledby="results-heading">
+          <section className="card min-w-0 max-sm:px-3 xl:col-span-3" aria-labelledby="results-heading">
             <h2 id="results-heading" className="mb-3">
               Results
             </h2>
@@ -169,6 +174,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       )}
       <PlannerPanel
         scenarioId={s.id}
+        version={s.version}
         effectName={s.results.effectName}
         capLabel={s.study.sponsorCap ? `The sponsor's cap of ${formatMoney(s.study.sponsorCap, { cents: false })}` : null}
         adoptIds={mayDraft ? ids : null}
@@ -184,6 +190,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="sponsor-heading">
         <h2 id="sponsor-heading">Budget in the sponsor&apos;s format</h2>
         <p className="text-sm text-ink-soft">The saved ledger in federal budget categories, in whole dollars; the workbook has the same sheet with live formulas.</p>
+        <SavedVersionNote what="this table is for" version={s.version} testId="sponsor-unsaved" />
         <SponsorBudgetTable budget={sponsorBudget(s.results.ledger)} />
       </section>
       <JustificationEditor
@@ -198,8 +205,9 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       <section className="card flex min-w-0 flex-col gap-3" aria-labelledby="enrolment-heading">
         <h2 id="enrolment-heading">Planned enrolment</h2>
         <p className="text-sm text-ink-soft">
-          The {s.results.power.funnel.total.enrolled} participants to enrol, by race, ethnicity and sex, from the proportions the investigator expects (the federal standard&apos;s categories); cells are rounded so that they add up to the enrolled number.
+          The {s.results.power.funnel.total.enrolled} participants to enrol (in the saved version), by race, ethnicity and sex, from the proportions the investigator expects (the federal standard&apos;s categories); cells are rounded so that they add up to the enrolled number.
         </p>
+        <SavedVersionNote what="this table is for" version={s.version} testId="enrolment-unsaved" />
         {s.enrolmentPlan ? <EnrolmentTableView table={enrolmentTable(s.results.power.funnel.total.enrolled, s.enrolmentPlan)} /> : <p className="text-sm" data-testid="enrolment-none">No proportions given yet, so there is no table.</p>}
         {editable ? <EnrolmentForm key={s.version} ids={ids} plan={s.enrolmentPlan} /> : null}
       </section>
@@ -218,5 +226,6 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         </ul>
       </details>
     </div>
+    </UnsavedChangesProvider>
   );
 }

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { Fragment } from "react";
 import { PrintButton } from "@/components/print-button";
+import { ScrollRegion } from "@/components/scroll-region";
 import { EnrolmentTableView } from "@/components/scenario/enrolment-table";
 import { PrintReachChart } from "@/components/scenario/print-reach-chart";
 import { SponsorBudgetTable } from "@/components/scenario/sponsor-budget";
@@ -181,6 +182,8 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
         <p className="text-xs text-ink-soft">
           {f.method}; sites&apos; rates vary with a coefficient of variation of {pc(f.rateSpread)} ({f.shapeSource}). A forecast is a model of recruitment, not a promise.
         </p>
+        {/* Wide tables scroll in their own region on a phone; on paper they are shown whole (globals.css, Report). */}
+        <ScrollRegion label="Recruitment forecast by month" testId="report-forecast-table">
         <table className="table text-sm">
           <thead>
             <tr>
@@ -205,6 +208,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
               ))}
           </tbody>
         </table>
+        </ScrollRegion>
       </section>
 
       <section aria-labelledby="curve-heading" className="print-keep flex flex-col gap-2">
@@ -214,6 +218,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
 
       <section aria-labelledby="ledger-heading" className="page-break flex flex-col gap-2">
         <h2 id="ledger-heading">Ledger by budget period (cents)</h2>
+        <ScrollRegion label="Ledger by budget period (cents)" testId="report-ledger-region">
         <table className="table text-xs" data-testid="report-ledger">
           <thead>
             <tr>
@@ -275,6 +280,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
             ))}
           </tbody>
         </table>
+        </ScrollRegion>
       </section>
 
       <section aria-labelledby="sponsor-heading" className="page-break flex flex-col gap-2">
