@@ -6,6 +6,7 @@
 import { describe, expect, it } from "vitest";
 import { computeScenario, followUpsFromVisits } from "@/lib/planning/compute";
 import { reachCurve } from "@/lib/planning/curve";
+import { analysisWords } from "@/lib/planning/analysis-words";
 import { generateJustification } from "@/lib/planning/justification";
 import { justificationFigures } from "@/lib/planning/justification-figures";
 import { scenarioInputsSchema, type ScenarioInputs } from "@/lib/planning/schema";
@@ -70,7 +71,21 @@ describe("several arms against one control", () => {
     expect(r.power.armSizes).toEqual([99, 99, 99]);
     expect(r.power.funnel.arms).toHaveLength(3);
     expect(r.power.funnel.total.evaluable).toBe(297);
-    expect(generateJustification(i, r, study)).toMatch(/Each of 2 treatment arms is compared with one control arm .*Dunnett's procedure controls the familywise error rate \(critical value 2\.22\d/);
+    const text = generateJustification(i, r, study);
+    expect(text).toMatch(/Each of the 2 treatment arms is compared with the control arm .*Dunnett's procedure controls the familywise error rate \(critical value 2\.22\d/);
+    // One description of the design throughout: three arms, not "two-arm"; no 1:1 allocation beside the control's own.
+    expect(text).toMatch(/^The study is designed as a 3-arm parallel-group comparison of means \(2 treatment arms, each against one shared control arm\)/);
+    expect(text).not.toMatch(/two-arm|allocation 1:1/);
+    expect(text).toMatch(/90% target power, the method used/);
+    expect(analysisWords(r.power)).toBe("Superiority; 2 treatment arms against one control (3 arms in all), Dunnett");
+  });
+  it("three treatment arms with Dunnett: a 4-arm comparison, and a two-arm scenario still reads two-arm", () => {
+    const i = withDesign({ effectInput: "d", effectSize: 0.5, alpha: 0.025, sides: 1, power: 0.9, arms: 3, multiplicity: "dunnett", controlAllocation: 1 });
+    const text = generateJustification(i, computeScenario(i, rates, study), study);
+    expect(text).toMatch(/^The study is designed as a 4-arm parallel-group comparison of means \(3 treatment arms/);
+    expect(text).toContain("Each of the 3 treatment arms is compared with the control arm");
+    const two = withDesign({ effectInput: "d", effectSize: 0.5 });
+    expect(generateJustification(two, computeScenario(two, rates, study), study)).toMatch(/^The study is designed as a two-arm parallel-group comparison of means/);
   });
   it("a multiplicity choice without arms is ignored, not refused (the form always sends its select)", () => {
     const i = withDesign({ effectInput: "d", effectSize: 0.5, multiplicity: "bonferroni" });
