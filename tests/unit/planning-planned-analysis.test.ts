@@ -4,6 +4,7 @@
  * and the justification states the claim as the analysis makes it.
  */
 import { describe, expect, it } from "vitest";
+import { solve } from "@/lib/power";
 import { computeScenario, followUpsFromVisits } from "@/lib/planning/compute";
 import { reachCurve } from "@/lib/planning/curve";
 import { analysisWords } from "@/lib/planning/analysis-words";
@@ -90,5 +91,21 @@ describe("several arms against one control", () => {
   it("a multiplicity choice without arms is ignored, not refused (the form always sends its select)", () => {
     const i = withDesign({ effectInput: "d", effectSize: 0.5, multiplicity: "bonferroni" });
     expect(computeScenario(i, rates, study).power.arms).toBeUndefined();
+  });
+});
+
+describe("a margin the expected difference cannot clear is refused in the units typed", () => {
+  // Hand-worked: difference 1 and margin 0.8 in outcome units with SD 2.2 are d = 0.455 and ±0.364; the
+  // message must quote 1 and 0.8, the figures as typed, and say which units they are in.
+  it("equivalence, outcome units: quotes 1 and ±0.8, in outcome units, never the d-scale 0.455 and 0.364", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "equivalence", meanDifference: 1, sd: 2.2, margin: 0.8, alpha: 0.05, power: 0.8 })).toThrow(
+      "No sample size can show equivalence when the expected difference (1) lies at or outside the margin (±0.8), both in outcome units: the margin must be wider than the expected difference.",
+    );
+  });
+  it("equivalence as d without an SD: the figures are named as d, in SD units", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "equivalence", effectSize: 0.5, margin: 0.3, alpha: 0.05, power: 0.8 })).toThrow(/expected difference \(0\.5\) lies at or outside the margin \(±0\.3\), both as d, in SD units/);
+  });
+  it("non-inferiority, outcome units: −1.5 below minus the margin 1 (SD 2): quotes −1.5 and −1", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "non-inferiority", meanDifference: -1.5, sd: 2, margin: 1, alpha: 0.025, power: 0.8 })).toThrow(/expected difference \(-1\.5\) lies at or below minus the margin \(−1\), both in outcome units/);
   });
 });
