@@ -58,7 +58,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
   } else if (d.sdSource) parts.push(`The planning values come from ${own(d.sdSource, "where the planning values come from").replace(/\.$/, "")}.`);
   // Several arms: the allocation is the control's, said with the arms below (analysisSentences).
   const allocation = d.design === "one-mean" || severalArms(p.arms) ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`;
-  parts.push(`With ${margined ? "one-sided" : d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha}${p.hypothesis === "equivalence" ? " for each of the two tests" : ""} and target power ${formatPower(d.power)}${allocation}, the method used (${p.method}) gives`);
+  parts.push(`With ${margined ? "one-sided" : d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha}${p.hypothesis === "equivalence" ? " for each of the two tests" : ""} and target power ${formatPower(d.power)} (${Math.round(d.power * 100)}%)${allocation}, the method used (${p.method}) gives`);
   let numbers =
     p.armSizes !== undefined
       ? `${p.n1} evaluable participants in each of the ${p.arms} treatment arms and ${p.n2} in the control arm (${p.nTotal} in total)`

@@ -175,7 +175,7 @@ describe("the scenario form sizes the planned analysis", () => {
       expect(text).toContain("Each of the 2 treatment arms is compared with the control arm");
       expect(text).not.toMatch(/two-arm|allocation 1:1/);
       // Power in one form: target 0.900 beside the achieved power, both to three decimals.
-      expect(text).toMatch(/target power 0\.900, the method used .* achieved power is 0\.9\d\d\./);
+      expect(text).toMatch(/target power 0\.900 \(90%\), the method used .* achieved power is 0\.9\d\d\./);
       await screenshot(page, "scenario-several-arms-1440");
     },
     JOURNEY,

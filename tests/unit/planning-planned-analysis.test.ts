@@ -77,7 +77,7 @@ describe("several arms against one control", () => {
     // One description of the design throughout: three arms, not "two-arm"; no 1:1 allocation beside the control's own.
     expect(text).toMatch(/^The study is designed as a 3-arm parallel-group comparison of means \(2 treatment arms, each against one shared control arm\)/);
     expect(text).not.toMatch(/two-arm|allocation 1:1/);
-    expect(text).toMatch(/target power 0\.900, the method used .* achieved power is 0\.9\d\d\./);
+    expect(text).toMatch(/target power 0\.900 \(90%\), the method used .* achieved power is 0\.9\d\d\./);
     expect(analysisWords(r.power)).toBe("Superiority; 2 treatment arms against one control (3 arms in all), Dunnett");
   });
   it("three treatment arms with Dunnett: a 4-arm comparison, and a two-arm scenario still reads two-arm", () => {
