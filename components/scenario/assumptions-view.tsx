@@ -7,6 +7,7 @@ import { designName, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names";
 import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
+import { formatPower } from "@/lib/format/power";
 
 const pct = (v: number | undefined) => (v === undefined ? "—" : `${Math.round(v * 10000) / 100}%`);
 const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
@@ -51,7 +52,7 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
               <Row label="Primary outcome" value={d.outcome} />
               <Row label="Alpha" value={num(d.alpha)} field="inputs.design.alpha" />
               <Row label="Test" value={d.sides === 1 ? "One-sided" : "Two-sided"} />
-              <Row label="Target power" value={pct(d.power)} field="inputs.design.power" />
+              <Row label="Target power" value={formatPower(d.power)} field="inputs.design.power" />
               {design !== "one-mean" ? <Row label="Allocation ratio (n2 / n1)" value={num(d.allocationRatio)} /> : null}
               {means && byDifference ? (
                 <>

@@ -9,6 +9,7 @@ import { DEFAULT_RATE_SPREAD } from "@/lib/forecast/defaults";
 import { formatMoney } from "@/lib/format/money";
 import type { Outlook } from "@/lib/server/planning-cache";
 import { effectUnit } from "@/lib/power/effect-units";
+import { formatPower } from "@/lib/format/power";
 
 async function fetchOutlook(url: string): Promise<Outlook> {
   const res = await fetch(url);
@@ -206,7 +207,7 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
           <h3 className="mt-4 text-base">Assurance</h3>
           {a ? (
             <p data-testid="assurance">
-              Power at the target effect <span className="num">{a.power.toFixed(3)}</span>; averaged over your expectation of the effect, the chance that the study succeeds (a significant result in the new
+              Power at the target effect <span className="num">{formatPower(a.power)}</span>; averaged over your expectation of the effect, the chance that the study succeeds (a significant result in the new
               treatment&apos;s favour) is <strong className="num">{a.assurance.toFixed(3)}</strong>. <span className="text-xs text-ink-soft">{a.method}</span>
             </p>
           ) : (

@@ -11,6 +11,7 @@ import { ScrollRegion } from "@/components/scroll-region";
 import { formatEffect } from "@/lib/power/effect-units";
 import { AdoptButton } from "./scenario-actions";
 import { SavedVersionNote } from "./unsaved-changes";
+import { formatPower } from "@/lib/format/power";
 
 type Planner = { capBuys: CapBuys; cheapest: Optimum | null; sensitivity: SensitivityRow[] };
 
@@ -52,7 +53,7 @@ export function PlannerPanel({
           <p className="mt-2" data-testid="cap-buys">
             {capLabel} funds up to <strong className="num">{data.capBuys.n2 === null ? data.capBuys.n1 : `${data.capBuys.n1} + ${data.capBuys.n2}`}</strong> evaluable participants at{" "}
             {data.capBuys.sites} site{data.capBuys.sites === 1 ? "" : "s"} ({data.capBuys.monthsToEnrol} month{data.capBuys.monthsToEnrol === 1 ? "" : "s"} to enrol), costing {money(data.capBuys.total)}: {effectName === "margin" ? "the smallest margin it supports is" : "the detectable effect is"}{" "}
-            <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {data.capBuys.powerAtTarget.toFixed(3)}.
+            <strong className="num">{formatEffect(effectName, data.capBuys.effect)}</strong> and power at the target {formatPower(data.capBuys.powerAtTarget)}.
           </p>
         ) : null}
         {data.capBuys?.projectLength && !data.capBuys.projectLength.within ? (

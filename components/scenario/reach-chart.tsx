@@ -6,6 +6,7 @@ import useSWR from "swr";
 import type { CurveResponse } from "@/lib/planning/curve-response";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { effectUnit, formatEffect } from "@/lib/power/effect-units";
+import { formatPower } from "@/lib/format/power";
 
 type Source = { kind: "saved"; scenarioId: number } | { kind: "unsaved"; url: string; inputs: ScenarioInputs };
 
@@ -122,7 +123,7 @@ export function ReachChart({ source, effectName }: { source: Source; effectName:
                       {p.n2 !== null ? ` + ${p.n2}` : ""} · {p.sites} sites · {p.monthsToEnrol} months
                     </div>
                     <div className="num">
-                      MDES {formatEffect(unit.name, p.mdes)} · power at target {p.powerAtTarget.toFixed(3)}
+                      MDES {formatEffect(unit.name, p.mdes)} · power at target {formatPower(p.powerAtTarget)}
                       {typeof p.assurance === "number" ? ` · assurance ${p.assurance.toFixed(3)}` : ""}
                     </div>
                   </div>

@@ -10,6 +10,7 @@ import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
 import { formatEffect } from "@/lib/power/effect-units";
 import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
+import { formatPower } from "@/lib/format/power";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : name === "margin" ? "Margin" : "Effect size d");
@@ -144,7 +145,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Power at the target</dt>
-          <dd className="num text-lg">{fmt(results.powerAtTarget, 3)}</dd>
+          <dd className="num text-lg">{formatPower(results.powerAtTarget)}</dd>
         </div>
         <div>
           <dt className="text-sm text-ink-soft">Target ({effectLabel(results.effectName)})</dt>

@@ -481,8 +481,7 @@ export function ScenarioForm({
                     <Text meta={d.sd} label="Outcome SD" hint="Planning SD (a pilot's upper limit is safer)" />
                     <p className="text-sm text-ink-soft sm:col-span-2" data-testid="effect-computed" aria-live="polite">
                       Standardized effect d (computed, |difference| ÷ SD):{" "}
-                      <span className="num text-ink">{hasMd && hasSd ? fmtNumber(Math.abs(mdValue) / sdValue) : "—"}</span>
-                      {hasMd && hasSd ? null : " — give the difference and the SD to see it."}
+                      {hasMd && hasSd ? <span className="num text-ink">{fmtNumber(Math.abs(mdValue) / sdValue)}</span> : "enter the difference and the SD to see it."}
                     </p>
                   </>
                 ) : (
@@ -491,8 +490,8 @@ export function ScenarioForm({
                     <Text meta={d.sd} label="Outcome SD" hint="Optional: shows d in outcome units" />
                     <p className="text-sm text-ink-soft sm:col-span-2" data-testid="effect-computed" aria-live="polite">
                       As a mean difference (computed, d × SD):{" "}
-                      <span className="num text-ink">{hasD && hasSd ? fmtNumber(dValue * sdValue) : "—"}</span>
-                      {hasD && hasSd ? " outcome units" : " — give d and an SD to see it."}
+                      {hasD && hasSd ? <span className="num text-ink">{fmtNumber(dValue * sdValue)}</span> : "enter d and the SD to see it."}
+                      {hasD && hasSd ? " outcome units" : null}
                     </p>
                   </>
                 )}

@@ -419,7 +419,9 @@ export async function reviewScenario(actor: Actor, id: number, action: ReviewAct
         ...(mismatch ? [{ userId: actor.id, action: `${action}-with-mismatch`, entity: "scenario", entityId: id, field: "justification", newValue: mismatch }] : []),
       ]);
       const results = JSON.parse(row.results_json) as ScenarioResults;
-      await recordReviewEvent(trx, { scenarioId: id, userId: actor.id, action, reason: why, total: results.ledger.totals.total, inputsJson: row.inputs_json, at: now });
+      // The confirmation promised the review record would say so: which text, and which figures moved.
+      const detail = mismatch ? `${action === "submit" ? "Submitted" : "Cleared"} with a justification that does not match the scenario's figures. ${mismatch}` : null;
+      await recordReviewEvent(trx, { scenarioId: id, userId: actor.id, action, reason: why, total: results.ledger.totals.total, inputsJson: row.inputs_json, detail, at: now });
       // Notifications go into the outbox with the transition, so a rolled-back transition sends nothing.
       await enqueueReviewMail(trx, { event: action, actorId: actor.id, scenarioId: id, reason: why });
     });
@@ -434,7 +436,7 @@ function justificationMismatch(row: NonNullable<Row>): string | null {
   const results = JSON.parse(row.results_json) as ScenarioResults;
   // Both edited texts are checked: the sample-size justification and the budget justification.
   const texts = [
-    { name: "The justification", edited: row.justification !== null, stored: row.justification_figures_json, now: () => justificationFigures(inputs, results, studyContext(row)) },
+    { name: "The sample-size justification", edited: row.justification !== null, stored: row.justification_figures_json, now: () => justificationFigures(inputs, results, studyContext(row)) },
     { name: "The budget justification", edited: row.budget_justification !== null, stored: row.budget_justification_figures_json, now: () => budgetJustificationFigures(inputs, results) },
   ];
   const parts: string[] = [];

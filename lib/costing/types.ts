@@ -19,6 +19,8 @@ export const COST_CATEGORIES = [
   "scholarships",
   "participant-support",
   "subaward",
+  // A contract site's per-participant and per-visit payments under a services contract: contractual, wholly in MTDC.
+  "contract",
   "other",
 ] as const;
 export type CostCategory = (typeof COST_CATEGORIES)[number];

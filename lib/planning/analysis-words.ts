@@ -7,6 +7,6 @@ export function analysisWords(p: PowerResult): string {
   if (p.margin !== undefined) parts[0] += ` with a margin of ${Number(p.margin.toPrecision(4))}`;
   if (p.baselineCorrelation !== undefined) parts.push(`ANCOVA on the baseline (correlation ${p.baselineCorrelation})`);
   if (p.followUps !== undefined && p.followUps > 1) parts.push(`mean of ${p.followUps} follow-ups (correlation ${p.repeatedCorrelation})`);
-  if (p.arms !== undefined) parts.push(`${p.arms} arms against one control, ${p.multiplicity === "dunnett" ? "Dunnett" : p.multiplicity === "bonferroni" ? "Bonferroni" : "no multiplicity adjustment"}`);
+  if (p.arms !== undefined) parts.push(`${p.arms} treatment arms against one control (${p.arms + 1} arms in all), ${p.multiplicity === "dunnett" ? "Dunnett" : p.multiplicity === "bonferroni" ? "Bonferroni" : "no multiplicity adjustment"}`);
   return parts.join("; ");
 }

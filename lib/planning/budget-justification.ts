@@ -40,6 +40,33 @@ export function budgetJustificationFigures(i: ScenarioInputs, r: ScenarioResults
   return out;
 }
 
+const SITE_BUDGET_ROW = "Subawards, consortium and contractual costs";
+
+/** How the sites are paid, as the ledger has them: "6 sites: 2 internal, 1 under a services contract, 3 subawards". */
+export function siteArrangementWords(l: ScenarioResults["ledger"]): string {
+  const n = l.counts.sites;
+  const contracts = l.lines.filter((x) => x.site?.arrangement === "contract").length;
+  const subawards = l.lines.filter((x) => x.site?.arrangement === "subaward").length;
+  const internal = n - contracts - subawards;
+  const all = `${n} site${n === 1 ? "" : "s"}`;
+  if (internal === n) return `${all}, paid as the institution's own lines (internal)`;
+  if (contracts === n) return `${all}, each under a services contract`;
+  if (subawards === n) return `${all}, each a subaward`;
+  const parts = [
+    internal ? `${internal} internal (the institution's own lines)` : "",
+    contracts ? `${contracts} under a services contract` : "",
+    subawards ? `${subawards} subaward${subawards === 1 ? "" : "s"}` : "",
+  ].filter(Boolean);
+  return `${all}: ${parts.join(", ")}`;
+}
+
+/** The rate applied, and where the sponsor limits it, the rate agreement's rate it limits (fa-cap.ts). */
+function faRateWords(l: ScenarioResults["ledger"], sb: SponsorBudget): string {
+  const t = l.faTerms;
+  if (t?.limitedTo) return `the institution's ${t.location} rate of ${pct(Number(t.agreementRate))}, limited by the sponsor to ${pct(sb.faRate)},`;
+  return `the institution's ${t?.location === "off-campus" ? "off-campus " : ""}rate of ${pct(sb.faRate)}`;
+}
+
 export function generateBudgetJustification(i: ScenarioInputs, r: ScenarioResults, sb: SponsorBudget = sponsorBudget(r.ledger)): string {
   const l = r.ledger;
   const parts: string[] = [];
@@ -72,7 +99,14 @@ export function generateBudgetJustification(i: ScenarioInputs, r: ScenarioResult
       } else if (row.label === "Research procedures") {
         why = ` The procedures of the visit schedule, priced per visit attended: ${l.lines.filter((x) => x.category === "procedures").map((x) => `${x.label}${x.unitCost ? ` at ${formatMoney(x.unitCost)}` : ""}`).join("; ")}.`;
       } else if (row.label === "Site costs and monitoring") {
-        why = ` ${l.counts.sites} site${l.counts.sites === 1 ? "" : "s"}, paid as the institution's own lines (internal): ${l.lines.filter((x) => x.group === "sites").map((x) => x.label).join("; ")}.`;
+        why = ` ${siteArrangementWords(l)}; the internal sites' costs: ${l.lines.filter((x) => x.group === "sites" && !x.site).map((x) => x.label).join("; ")}.`;
+      } else if (row.label === SITE_BUDGET_ROW) {
+        // Subaward and contract sites are paid as one line each; where no site is internal, the arrangements are said here.
+        const sites = l.lines.filter((x) => x.site).map((x) => x.label);
+        const items = l.lines.filter((x) => x.group === "other" && (categoryRow(x.category).line ?? "Other") === row.label);
+        const said = other.rows.some((x) => x.label === "Site costs and monitoring");
+        const listed = [...sites, ...items.map((x) => `${x.label} (${categoryWords(x.category).toLowerCase()})`)];
+        why = `${said || !sites.length ? "" : ` ${siteArrangementWords(l)}.`}${listed.length ? ` ${listed.join("; ")}.` : ""}`;
       } else {
         const items = l.lines.filter((x) => x.group === "other" && (categoryRow(x.category).line ?? "Other") === row.label);
         if (items.length) why = ` ${items.map((x) => `${x.label} (${categoryWords(x.category).toLowerCase()})`).join("; ")}.`;
@@ -87,7 +121,7 @@ export function generateBudgetJustification(i: ScenarioInputs, r: ScenarioResult
       ? `modified total direct costs (MTDC: direct costs less equipment, capital expenditures, patient care, rental costs, tuition remission, scholarships and fellowships, participant support costs, and each subaward above the first ${formatMoney(l.mtdcSubawardThreshold, { cents: false })}; 2 CFR 200.1)`
       : "total direct costs";
   parts.push(
-    `Facilities and administrative (F&A) costs\nF&A at the institution's rate of ${pct(sb.faRate)} on ${base}: a base of ${dollars(sb.cumulative.faBase)} gives ${periodsText(sb.fa)}.${excluded.length ? ` Excluded from the base in this budget: ${excluded.join(", ")}.` : " No line of this budget is excluded from the base."}`,
+    `Facilities and administrative (F&A) costs\nF&A at ${faRateWords(l, sb)} on ${base}: a base of ${dollars(sb.cumulative.faBase)} gives ${periodsText(sb.fa)}.${excluded.length ? ` Excluded from the base in this budget: ${excluded.join(", ")}.` : " No line of this budget is excluded from the base."}`,
   );
   parts.push(`Total\nDirect costs ${dollars(sb.cumulative.direct)}, F&A ${dollars(sb.cumulative.fa)}, total ${dollars(sb.cumulative.total)} over ${sb.periods.length} budget period${sb.periods.length === 1 ? "" : "s"}.`);
   return parts.join("\n\n");

@@ -1,5 +1,6 @@
 /** The sample-size justification paragraph, generated from a scenario and its results, then editable. */
 import { formatMoney } from "@/lib/format/money";
+import { formatPower } from "@/lib/format/power";
 import type { ScenarioResults, StudyContext } from "./compute";
 import { givenPrior, type ScenarioInputs } from "./schema";
 import { scenarioAssurance } from "./assurance";
@@ -13,6 +14,14 @@ const DESIGN_WORDS: Record<string, string> = {
   "time-to-event": "a two-arm comparison of time to event by the log-rank test",
 };
 
+const severalArms = (arms: number | undefined): arms is number => arms !== undefined && arms > 1;
+
+/** The design in words; several treatment arms against one control make it a (k + 1)-arm comparison, not a two-arm one. */
+function designWords(design: string, arms: number | undefined): string {
+  if (design === "two-means" && severalArms(arms)) return `a ${arms + 1}-arm parallel-group comparison of means (${arms} treatment arms, each against one shared control arm)`;
+  return DESIGN_WORDS[design] ?? design;
+}
+
 export const JUSTIFICATION_CAUTION =
   "These figures were computed with Delta Ledger and should be reviewed by the study statistician; sponsor and institutional cost rules come from the institution's own agreements and need the grants office's review.";
 
@@ -25,7 +34,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
   const d = i.design;
   const p = r.power;
   const parts: string[] = [];
-  parts.push(`The study is designed as ${DESIGN_WORDS[d.design] ?? d.design}, with ${own(d.outcome, "the primary outcome")} as the primary outcome.`);
+  parts.push(`The study is designed as ${designWords(d.design, p.arms)}, with ${own(d.outcome, "the primary outcome")} as the primary outcome.`);
   const target =
     r.effectName === "effectSize"
       ? d.meanDifference !== undefined && p.sdUsed !== undefined
@@ -47,7 +56,9 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
         : `The control proportion of ${f(val)} was estimated from pilot data (n = ${i.pilot.n}).`,
     );
   } else if (d.sdSource) parts.push(`The planning values come from ${own(d.sdSource, "where the planning values come from").replace(/\.$/, "")}.`);
-  parts.push(`With ${margined ? "one-sided" : d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha}${p.hypothesis === "equivalence" ? " for each of the two tests" : ""} and ${Math.round(d.power * 100)}% target power${d.design === "one-mean" ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`}, the method used (${p.method}) gives`);
+  // Several arms: the allocation is the control's, said with the arms below (analysisSentences).
+  const allocation = d.design === "one-mean" || severalArms(p.arms) ? "" : `, allocation ${d.allocationRatio === 1 ? "1:1" : `1:${d.allocationRatio}`}`;
+  parts.push(`With ${margined ? "one-sided" : d.sides === 2 ? "two-sided" : "one-sided"} alpha = ${d.alpha}${p.hypothesis === "equivalence" ? " for each of the two tests" : ""} and target power ${formatPower(d.power)} (${Math.round(d.power * 100)}%)${allocation}, the method used (${p.method}) gives`);
   let numbers =
     p.armSizes !== undefined
       ? `${p.n1} evaluable participants in each of the ${p.arms} treatment arms and ${p.n2} in the control arm (${p.nTotal} in total)`
@@ -56,7 +67,7 @@ export function generateJustification(i: ScenarioInputs, r: ScenarioResults, stu
         : `${p.n1} and ${p.n2} evaluable participants per arm (${p.nTotal} in total)`;
   if (p.designEffect !== undefined) numbers += `, in ${p.clusters1} and ${p.clusters2} clusters of mean size ${f(p.clusterSize ?? 0, 1)} (ICC ${f(p.icc ?? 0)}, CV of cluster size ${f(p.cv ?? 0)}, design effect ${f(p.designEffect)})`;
   if (p.events !== undefined) numbers += `, requiring ${Math.round(p.events)} events with ${d.accrualMonths} months of accrual and ${d.followUpMonths} months of further follow-up (control median ${d.controlMedian} months)`;
-  parts[parts.length - 1] += ` ${numbers}; achieved power is ${f(p.power)}.`;
+  parts[parts.length - 1] += ` ${numbers}; achieved power is ${formatPower(p.power)}.`;
   const fn = p.funnel;
   parts.push(
     `Allowing ${f(fn.attrition * 100, 1)}% attrition and ${f(fn.screenFailure * 100, 1)}% screen failure (each inflated by division and rounded up), ${fn.total.enrolled} participants will be enrolled from ${fn.total.screened} screened.`,
@@ -146,7 +157,7 @@ function analysisSentences(i: ScenarioInputs, r: ScenarioResults): string {
         : p.multiplicity === "bonferroni"
           ? `a Bonferroni adjustment tests each comparison at alpha / ${p.arms} (critical value ${f(p.criticalValue ?? 0)})`
           : "no multiplicity adjustment is made, so the familywise error rate exceeds alpha";
-    out.push(`Each of ${p.arms} treatment arms is compared with one control arm (control allocation ${f(p.controlAllocation ?? 1)} per treatment participant); ${how}; power is per comparison.`);
+    out.push(`Each of the ${p.arms} treatment arms is compared with the control arm (control allocation ${f(p.controlAllocation ?? 1)} per treatment participant); ${how}; power is per comparison.`);
   }
   return out.join(" ");
 }

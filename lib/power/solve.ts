@@ -368,7 +368,7 @@ function solvePlannedMeans(v: Parsed<"two-means" | "one-mean">): PowerResult {
   let power: number;
   let solvedFor: PowerResult["solvedFor"];
   if (sizes === undefined) {
-    sizes = plannedMeansN(delta!, marginSd ?? 0, v.power!, s);
+    sizes = plannedMeansN(delta!, marginSd ?? 0, v.power!, s, sdUsed);
     power = plannedMeansPower(delta!, marginSd ?? 0, sizes, s);
     solvedFor = "n";
   } else if (margined && marginSd === undefined) {

@@ -61,7 +61,7 @@ export const CATEGORY_TABLE: Record<string, Row> = {
   scholarships: { section: "participant-support", words: "Scholarships and fellowships" },
   "participant-support": { section: "participant-support", words: "Participant support costs (trainees, conference participants)" },
   subaward: { section: "other-direct", line: "Subawards, consortium and contractual costs", words: "Subaward" },
-  contract: { section: "other-direct", line: "Subawards, consortium and contractual costs", words: "Contract" },
+  contract: { section: "other-direct", line: "Subawards, consortium and contractual costs", words: "Contract (services contract)" },
   other: { section: "other-direct", line: "Other", words: "Other" },
 };
 

@@ -179,6 +179,10 @@ describe("the investigator's journey", () => {
     expect(await row("Total")).toContain("$86,714");
     expect(await row("Design")).toContain("Two independent means");
     expect(await row("Design")).not.toContain("two-means");
+    // Power in one form on the comparison: the target and the power reached both to three decimals.
+    expect(await row("Target power")).toContain("0.800");
+    expect(await row("Target power")).not.toMatch(/0\.8(?!\d)/);
+    expect(await row("Power at the target")).toMatch(/0\.\d{3}/);
     await screenshotWidths(pi, "journey-pi-compare");
 
     // The comparison workbook, downloaded from the comparison as a person does: a column per scenario whose

@@ -7,7 +7,7 @@
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import path from "node:path";
-import { useBrowser, screenshot, SCREENSHOT_DIR, signIn } from "./browser";
+import { useBrowser, screenshot, SCREENSHOT_DIR, signIn, waitForText } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -159,6 +159,11 @@ describe("the investigator's justification", () => {
     expect(await confirm.textContent()).toContain("Screen failure: written for 20%, now 25%");
     await confirm.getByRole("button", { name: "Submit anyway" }).click();
     await page.getByTestId("scenario-state").filter({ hasText: "In review" }).waitFor();
+    // The review history says what the question promised: which text, and which figure moved.
+    await waitForText(
+      page.getByTestId("history-submit").last(),
+      /Submitted with a justification that does not match the scenario's figures\. The sample-size justification no longer matches the scenario's figures \(.*Screen failure: written for 20%, now 25%/,
+    );
     const url = page.url().replace(/\?.*$/, "");
     const grants = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await signIn(grants, baseUrl, "grants@demo.test");
@@ -174,6 +179,7 @@ describe("the investigator's justification", () => {
     await shoot(grants, "justification-clear-warning", "main header");
     await ask.getByRole("button", { name: "Clear anyway" }).click();
     await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
+    await waitForText(grants.getByTestId("history-clear").last(), /Cleared with a justification that does not match the scenario's figures\. .*Screen failure: written for 20%, now 25%/);
     await grants.close();
   });
 });

@@ -127,6 +127,12 @@ describe("the investigator's outputs", () => {
     // Printed once: the caution; and none of the app's navigation.
     expect(text.split("support, and do not replace").length - 1).toBe(1);
     expect(text).not.toContain("Sign out");
+    // Target and achieved power in one form (three decimals), and the period's months in words.
+    // (The printed table wraps its cells, so the label and the figures are read apart.)
+    expect(text).toContain("target power");
+    expect(text.replace(/\s+/g, " ")).toMatch(/0\.800, achieved 0\.8\d\d/);
+    expect(text).toMatch(/\(\d+ months?\)/);
+    expect(text).not.toContain("(1 months)");
     // Page breaks: the ledger, the sponsor's format and the budget justification each start a page.
     expect(text.split("\f").length).toBeGreaterThanOrEqual(4);
   }, 180_000);

@@ -5,7 +5,7 @@
  */
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createStudyFromPage, fillHandWorkedScenario, screenshot, signIn, textField, useBrowser } from "./browser";
+import { createStudyFromPage, fillHandWorkedScenario, screenshot, signIn, textField, useBrowser, waitForText } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const JOURNEY = 180_000;
@@ -86,6 +86,28 @@ async function create() {
 
 describe("the scenario form sizes the planned analysis", () => {
   it(
+    "an equivalence margin the expected difference cannot clear is refused in the units typed; the computed d asks for what is missing",
+    async () => {
+      await newScenario("Equivalence out of reach");
+      await page.getByRole("radio", { name: "a mean difference and SD" }).check();
+      await textField(page, "Target mean difference").fill("1");
+      await textField(page, "Outcome SD").fill("2.2");
+      // 1 ÷ 2.2 = 0.4545 → d 0.455 (hand-worked).
+      await page.getByTestId("effect-computed").filter({ hasText: "0.455" }).waitFor();
+      await page.getByRole("combobox", { name: "Hypothesis" }).selectOption({ label: "Equivalence (within a margin)" });
+      await textField(page, "Margin").fill("0.8");
+      // Difference 1 and margin 0.8 as typed (d 0.455 against ±0.364 inside): said in outcome units, named.
+      await waitForText(page.getByTestId("results-status"), /the expected difference \(1\) lies at or outside the margin \(±0\.8\), both in outcome units/);
+      expect(await page.getByTestId("results-status").textContent()).not.toMatch(/0\.455|0\.364/);
+      // Without the SD the computed d asks for it in words, never "— —".
+      await textField(page, "Outcome SD").fill("");
+      await waitForText(page.getByTestId("effect-computed"), /enter the difference and the SD to see it\.$/);
+      expect(await page.getByTestId("effect-computed").textContent()).not.toContain("—");
+    },
+    JOURNEY,
+  );
+
+  it(
     "a non-inferiority scenario: 51 per arm, the smallest supportable margin, the claim in the justification",
     async () => {
       await newScenario("Non-inferiority of means");
@@ -141,12 +163,19 @@ describe("the scenario form sizes the planned analysis", () => {
       await textField(page, "Control allocation").fill("1");
       // Dunnett (1955): critical value 2.212 → 98 per arm by the normal formula; 99 with the exact t.
       await page.getByTestId("result-n").filter({ hasText: "2 × 99 + 99" }).waitFor();
-      await page.getByTestId("result-analysis").filter({ hasText: "2 arms against one control, Dunnett" }).waitFor();
+      await page.getByTestId("result-analysis").filter({ hasText: "2 treatment arms against one control (3 arms in all), Dunnett" }).waitFor();
       // Enrolled: 3 arms of 99 evaluable, each 99 / 0.8 = 123.75 → 124 enrolled: 372.
       await page.getByTestId("result-enrolled").filter({ hasText: /^372/ }).waitFor();
       await create();
       await page.getByTestId("result-n").filter({ hasText: "2 × 99 + 99" }).waitFor();
-      expect(await page.locator("#justification").inputValue()).toMatch(/Dunnett's procedure controls the familywise error rate/);
+      const text = await page.locator("#justification").inputValue();
+      expect(text).toMatch(/Dunnett's procedure controls the familywise error rate/);
+      // One description of the design: three arms (two treatments and the control), never "two-arm".
+      expect(text).toMatch(/designed as a 3-arm parallel-group comparison of means \(2 treatment arms, each against one shared control arm\)/);
+      expect(text).toContain("Each of the 2 treatment arms is compared with the control arm");
+      expect(text).not.toMatch(/two-arm|allocation 1:1/);
+      // Power in one form: target 0.900 beside the achieved power, both to three decimals.
+      expect(text).toMatch(/target power 0\.900 \(90%\), the method used .* achieved power is 0\.9\d\d\./);
       await screenshot(page, "scenario-several-arms-1440");
     },
     JOURNEY,

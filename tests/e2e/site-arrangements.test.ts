@@ -11,6 +11,7 @@ import Decimal from "decimal.js";
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { formatMoney } from "@/lib/format/money";
+import { sponsorBudget } from "@/lib/sponsor/budget";
 import { computeScenario, type ScenarioResults } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { demoRateBook } from "@/scripts/demo-data";
@@ -144,5 +145,30 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     expect(stored.class).toBe("patient-care");
     await screenshot(grants, "rate-book-procedure-class-1440");
     await grants.close();
+  });
+  it("a contract site lands on the contractual line of the sponsor's format, and the budget justification says how each site is paid", { timeout: 120_000 }, async () => {
+    await page.goto(copyUrl);
+    const before = sponsorBudget(stored(idOf(copyUrl)).expected.ledger);
+    const services = (sb: ReturnType<typeof sponsorBudget>) => sb.sections.flatMap((x) => x.rows).find((r) => r.label === "Computer and data services")!.cumulative;
+    await page.getByRole("combobox", { name: "Site 2 arrangement" }).selectOption("contract");
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Saved, with its results.").waitFor();
+    const { expected } = stored(idOf(copyUrl));
+    const contract = expected.ledger.lines.find((x) => x.site?.arrangement === "contract")!;
+    expect(contract.label).toBe("Contract, site 2: per-participant, per-visit and site payments");
+    expect(contract.category).toBe("contract");
+    const sb = sponsorBudget(expected.ledger);
+    // The contract's payments go to "Subawards, consortium and contractual costs"; the services line keeps only the data platform licence.
+    expect(services(sb)).toBe(services(before));
+    const contractual = sb.sections.flatMap((x) => x.rows).find((r) => r.label === "Subawards, consortium and contractual costs")!;
+    const rowText = async (label: string) => ((await page.getByTestId("sponsor-budget").getByRole("row").filter({ hasText: label }).first().textContent()) ?? "").replace(/\s+/g, " ");
+    expect(await rowText("Subawards, consortium and contractual costs")).toContain(formatMoney(contractual.cumulative, { cents: false }));
+    expect(await rowText("Computer and data services")).toContain(formatMoney(services(before), { cents: false }));
+    // Three sites as the ledger pays them, not "paid as the institution's own lines".
+    const text = await page.locator("#budget-justification").inputValue();
+    expect(text).toContain("3 sites: 1 under a services contract, 2 subawards.");
+    expect(text).not.toContain("paid as the institution's own lines (internal)");
+    expect(text).toMatch(/Subawards, consortium and contractual costs: [^\n]*Subaward, site 1[^\n]*Contract, site 2/);
+    await screenshot(page, "site-arrangements-contract-1440");
   });
 });

@@ -90,6 +90,10 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("result-total"), "$51,617.50");
     await waitForText(pi.getByTestId("recompute-note"), /changed the study's settings: F&A limit none → 10%\.$/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%; limited by the sponsor to 10%.");
+    // The budget justification says the same: the institution's rate, limited by the sponsor (not "the institution's rate of 10%").
+    const budgetText = await pi.locator("#budget-justification").inputValue();
+    expect(budgetText).toContain("F&A at the institution's off-campus rate of 26%, limited by the sponsor to 10%, on modified total direct costs");
+    expect(budgetText).not.toContain("institution's rate of 10%");
   }, 240_000);
 
   it("a cleared scenario is untouched, and says the settings changed since", async () => {

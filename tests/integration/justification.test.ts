@@ -7,7 +7,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import * as reviewRoute from "@/app/api/v1/scenarios/[scenarioId]/review/route";
-import { getScenario, reviewScenario } from "@/db/queries/scenarios";
+import * as scenarioWorkbookRoute from "@/app/api/v1/scenarios/[scenarioId]/workbook/route";
+import { reviewHistory } from "@/db/queries/review";
+import { getScenario, reviewScenario, updateScenario } from "@/db/queries/scenarios";
 import { HttpError } from "@/lib/auth/errors";
 import type { Actor } from "@/lib/auth/permissions";
 import { parseFigures } from "@/lib/planning/justification-figures";
@@ -129,6 +131,10 @@ describe("submitting and clearing a scenario whose text no longer matches", () =
     const audit = await getDb().selectFrom("audit_log").selectAll().where("entity", "=", "scenario").where("entity_id", "=", String(id)).where("action", "=", "submit-with-mismatch").execute();
     expect(audit).toHaveLength(1);
     expect(audit[0]!.new_value).toContain("Screen failure: written for 20%, now 35%");
+    // The review history says what the confirmation promised, in words: which text, which figures moved.
+    const history = await reviewHistory(pi, id);
+    const submitted = history.filter((e) => e.action === "submit").at(-1)!;
+    expect(submitted.detail).toMatch(/^Submitted with a justification that does not match the scenario's figures\. The sample-size justification no longer matches the scenario's figures \(.*Screen failure: written for 20%, now 35%/);
   });
 
   it("clearing asks the grants officer the same; returning does not", async () => {
@@ -141,6 +147,10 @@ describe("submitting and clearing a scenario whose text no longer matches", () =
     expect(cleared.state).toBe("cleared");
     const actions = (await getDb().selectFrom("audit_log").select("action").where("entity", "=", "scenario").where("entity_id", "=", String(id)).where("field", "=", "justification").execute()).map((a) => a.action);
     expect(actions).toEqual(expect.arrayContaining(["clear-with-mismatch", "submit-with-mismatch"]));
+    const clearStep = (await reviewHistory(grants, id)).filter((e) => e.action === "clear").at(-1)!;
+    expect(clearStep.detail).toMatch(/^Cleared with a justification that does not match the scenario's figures\. The sample-size justification no longer matches/);
+    // A return asks nothing and notes nothing.
+    expect((await reviewHistory(grants, id)).filter((e) => e.action === "return").at(-1)!.detail).toBeNull();
   });
 
   it("a scenario whose text matches is submitted without any confirmation", async () => {

@@ -13,6 +13,7 @@ import { describeSpan, spanMonths } from "@/lib/costing/effort-span";
 import { clusterDifference, computeScenario, costInputs } from "@/lib/planning/compute";
 import { clusterEnrolment } from "@/lib/costing/clusters";
 import { generateJustification } from "@/lib/planning/justification";
+import { sponsorBudget } from "@/lib/sponsor/budget";
 import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
 import { ROUND_RATES, SMALL_STUDY } from "../fixtures/rate-books";
 
@@ -70,13 +71,21 @@ describe("site arrangements (2 CFR 200.331; 2 CFR 200.1 MTDC; NOT-OD-05-004; NIH
     const l = computeLedger({ ...ONE_SITE, siteArrangement: "subaward" }, FLAT);
     expect(line(l, "site-budget:1").consortiumFa).toEqual(["1595.00"]); // 10,633.33 × 15% = 1,594.9995
   });
-  it("contract: one services line, no indirects of its own, wholly in MTDC", () => {
+  it("contract: one contractual line, no indirects of its own, wholly in MTDC", () => {
     const l = computeLedger({ ...ONE_SITE, siteArrangement: "contract" }, FLAT);
     const c = line(l, "site-budget:1");
-    expect(c.category).toBe("services");
+    expect(c.category).toBe("contract");
     expect(c.amounts).toEqual(["10633.33"]);
     expect(c.inBase).toEqual(["10633.33"]);
     expect(l.totals.fa).toBe("5848.33");
+  });
+  it("contract: in the sponsor's format on the contractual line, not 'Computer and data services' (2 CFR 200.331: a contractor, not a subrecipient; wholly in MTDC)", () => {
+    // Hand-worked: the one line of 10,633.33 rounds to $10,633 on "Subawards, consortium and contractual
+    // costs"; F&A 55% × 10,633.33 = 5,848.33 → $5,848; total $16,481. Nothing lands on a services line.
+    const sb = sponsorBudget(computeLedger({ ...ONE_SITE, siteArrangement: "contract" }, FLAT));
+    const other = sb.sections.find((s) => s.section === "other-direct")!;
+    expect(other.rows.map((r) => [r.label, r.cumulative])).toEqual([["Subawards, consortium and contractual costs", 10633]]);
+    expect(sb.cumulative).toMatchObject({ direct: 10633, faBase: 10633, fa: 5848, total: 16481 });
   });
   it("per site: three sites, the third a subaward; every participant is costed once (screened 200, visits 180 as all-internal)", () => {
     const mixed = computeLedger({ ...SMALL_STUDY, sites: [{}, { arrangement: "internal" }, { arrangement: "subaward", indirectRate: "0.2" }] }, ROUND_RATES);

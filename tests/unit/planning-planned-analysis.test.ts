@@ -4,8 +4,10 @@
  * and the justification states the claim as the analysis makes it.
  */
 import { describe, expect, it } from "vitest";
+import { solve } from "@/lib/power";
 import { computeScenario, followUpsFromVisits } from "@/lib/planning/compute";
 import { reachCurve } from "@/lib/planning/curve";
+import { analysisWords } from "@/lib/planning/analysis-words";
 import { generateJustification } from "@/lib/planning/justification";
 import { justificationFigures } from "@/lib/planning/justification-figures";
 import { scenarioInputsSchema, type ScenarioInputs } from "@/lib/planning/schema";
@@ -70,10 +72,40 @@ describe("several arms against one control", () => {
     expect(r.power.armSizes).toEqual([99, 99, 99]);
     expect(r.power.funnel.arms).toHaveLength(3);
     expect(r.power.funnel.total.evaluable).toBe(297);
-    expect(generateJustification(i, r, study)).toMatch(/Each of 2 treatment arms is compared with one control arm .*Dunnett's procedure controls the familywise error rate \(critical value 2\.22\d/);
+    const text = generateJustification(i, r, study);
+    expect(text).toMatch(/Each of the 2 treatment arms is compared with the control arm .*Dunnett's procedure controls the familywise error rate \(critical value 2\.22\d/);
+    // One description of the design throughout: three arms, not "two-arm"; no 1:1 allocation beside the control's own.
+    expect(text).toMatch(/^The study is designed as a 3-arm parallel-group comparison of means \(2 treatment arms, each against one shared control arm\)/);
+    expect(text).not.toMatch(/two-arm|allocation 1:1/);
+    expect(text).toMatch(/target power 0\.900 \(90%\), the method used .* achieved power is 0\.9\d\d\./);
+    expect(analysisWords(r.power)).toBe("Superiority; 2 treatment arms against one control (3 arms in all), Dunnett");
+  });
+  it("three treatment arms with Dunnett: a 4-arm comparison, and a two-arm scenario still reads two-arm", () => {
+    const i = withDesign({ effectInput: "d", effectSize: 0.5, alpha: 0.025, sides: 1, power: 0.9, arms: 3, multiplicity: "dunnett", controlAllocation: 1 });
+    const text = generateJustification(i, computeScenario(i, rates, study), study);
+    expect(text).toMatch(/^The study is designed as a 4-arm parallel-group comparison of means \(3 treatment arms/);
+    expect(text).toContain("Each of the 3 treatment arms is compared with the control arm");
+    const two = withDesign({ effectInput: "d", effectSize: 0.5 });
+    expect(generateJustification(two, computeScenario(two, rates, study), study)).toMatch(/^The study is designed as a two-arm parallel-group comparison of means/);
   });
   it("a multiplicity choice without arms is ignored, not refused (the form always sends its select)", () => {
     const i = withDesign({ effectInput: "d", effectSize: 0.5, multiplicity: "bonferroni" });
     expect(computeScenario(i, rates, study).power.arms).toBeUndefined();
+  });
+});
+
+describe("a margin the expected difference cannot clear is refused in the units typed", () => {
+  // Hand-worked: difference 1 and margin 0.8 in outcome units with SD 2.2 are d = 0.455 and ±0.364; the
+  // message must quote 1 and 0.8, the figures as typed, and say which units they are in.
+  it("equivalence, outcome units: quotes 1 and ±0.8, in outcome units, never the d-scale 0.455 and 0.364", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "equivalence", meanDifference: 1, sd: 2.2, margin: 0.8, alpha: 0.05, power: 0.8 })).toThrow(
+      "No sample size can show equivalence when the expected difference (1) lies at or outside the margin (±0.8), both in outcome units: the margin must be wider than the expected difference.",
+    );
+  });
+  it("equivalence as d without an SD: the figures are named as d, in SD units", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "equivalence", effectSize: 0.5, margin: 0.3, alpha: 0.05, power: 0.8 })).toThrow(/expected difference \(0\.5\) lies at or outside the margin \(±0\.3\), both as d, in SD units/);
+  });
+  it("non-inferiority, outcome units: −1.5 below minus the margin 1 (SD 2): quotes −1.5 and −1", () => {
+    expect(() => solve({ design: "two-means", hypothesis: "non-inferiority", meanDifference: -1.5, sd: 2, margin: 1, alpha: 0.025, power: 0.8 })).toThrow(/expected difference \(-1\.5\) lies at or below minus the margin \(−1\), both in outcome units/);
   });
 });

@@ -24,7 +24,7 @@ export function siteBudgetLine(ctx: FamilyContext, terms: SiteTermsResolved, act
   ctx.lines.add({
     key: `site-budget:${n}`,
     group: "sites",
-    category: subaward ? "subaward" : "services",
+    category: subaward ? "subaward" : "contract",
     label,
     basis: "amount",
     escalation: "0",

@@ -72,15 +72,22 @@ export function distance(delta: number, margin: number, h: Hypothesis): number {
   return h === "superiority" ? Math.abs(delta) : h === "non-inferiority" ? delta + margin : margin - Math.abs(delta);
 }
 
-function unreachableMargin(delta: number, margin: number, h: Hypothesis): string {
+/**
+ * Said in the units the figures were typed in: outcome units when an SD was given (`sd`), else as d in
+ * SD units, named, so the message never quotes d-scale values beside outcome-scale ones unannounced.
+ */
+function unreachableMargin(delta: number, margin: number, h: Hypothesis, sd?: number): string {
+  const n = (x: number) => Number((sd !== undefined ? x * sd : x).toPrecision(3)).toString();
+  const units = sd !== undefined ? "both in outcome units" : "both as d, in SD units";
   return h === "non-inferiority"
-    ? `No sample size can show non-inferiority when the expected difference (${delta.toPrecision(3)}) lies at or below minus the margin (−${margin.toPrecision(3)}): the margin must exceed the expected shortfall.`
-    : `No sample size can show equivalence when the expected difference (${delta.toPrecision(3)}) lies at or outside the margin (±${margin.toPrecision(3)}).`;
+    ? `No sample size can show non-inferiority when the expected difference (${n(delta)}) lies at or below minus the margin (−${n(margin)}), ${units}: the margin must exceed the expected shortfall.`
+    : `No sample size can show equivalence when the expected difference (${n(delta)}) lies at or outside the margin (±${n(margin)}), ${units}: the margin must be wider than the expected difference.`;
 }
 
-export function plannedMeansN(delta: number, margin: number, target: number, s: PlannedMeansSettings): Sizes {
+/** `sd`: the SD the outcome-unit figures were divided by, when they were typed in outcome units (for the message only). */
+export function plannedMeansN(delta: number, margin: number, target: number, s: PlannedMeansSettings, sd?: number): Sizes {
   const gap = distance(delta, margin, s.hypothesis);
-  if (!(gap > 0)) throw new UnreachableError(unreachableMargin(delta, margin, s.hypothesis));
+  if (!(gap > 0)) throw new UnreachableError(unreachableMargin(delta, margin, s.hypothesis, sd));
   const sides = s.hypothesis === "superiority" ? s.sides : 1;
   const alpha = s.arms > 1 && s.multiplicity !== "none" ? s.alpha / s.arms : s.alpha;
   const zb = normalQuantile(s.hypothesis === "equivalence" && delta === 0 ? 1 - (1 - target) / 2 : target);

@@ -12,6 +12,7 @@ import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { ScrollRegion } from "@/components/scroll-region";
 import { effectUnit, formatEffect, sameUnit } from "@/lib/power/effect-units";
+import { formatPower } from "@/lib/format/power";
 
 export const metadata: Metadata = { title: "Compare scenarios" };
 
@@ -26,7 +27,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
       { label: "Design", values: (s) => designName(s.inputs.design.design) },
       { label: "Analysis", values: (s) => analysisWords(s.results.power) },
       { label: "Alpha, sides", values: (s) => `${s.inputs.design.alpha}, ${s.inputs.design.sides}-sided` },
-      { label: "Target power", values: (s) => String(s.inputs.design.power) },
+      { label: "Target power", values: (s) => formatPower(s.inputs.design.power) },
       { label: "Target effect", values: (s) => formatEffect(s.results.effectName, s.results.targetEffect), nowrap: true },
       { label: "Attrition", values: (s) => pct(s.inputs.recruitment.attrition) },
       { label: "Screen failure", values: (s) => pct(s.inputs.recruitment.screenFailure) },
@@ -50,7 +51,7 @@ const ROWS: { section: string; rows: Row[] }[] = [
     section: "What it buys",
     rows: [
       { label: "MDES at the planned n", values: (s) => formatEffect(s.results.effectName, s.results.mdes), nowrap: true },
-      { label: "Power at the target", values: (s) => s.results.powerAtTarget.toFixed(3) },
+      { label: "Power at the target", values: (s) => formatPower(s.results.powerAtTarget) },
     ],
   },
 ];

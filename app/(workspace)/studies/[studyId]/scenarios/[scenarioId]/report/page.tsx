@@ -21,6 +21,7 @@ import { sponsorBudget } from "@/lib/sponsor/budget";
 import { categoryWords } from "@/lib/sponsor/categories";
 import { enrolmentTable } from "@/lib/sponsor/enrolment";
 import { CAUTION } from "@/lib/workbook/cells";
+import { formatPower } from "@/lib/format/power";
 
 export const metadata: Metadata = { title: "Scenario report" };
 
@@ -92,7 +93,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
           <div>
             <dt className="text-ink-soft">Alpha, power</dt>
             <dd>
-              {s.inputs.design.alpha} ({s.inputs.design.sides === 2 ? "two-sided" : "one-sided"}), {Math.round(s.inputs.design.power * 100)}%
+              {s.inputs.design.alpha} ({s.inputs.design.sides === 2 ? "two-sided" : "one-sided"}), target power {formatPower(s.inputs.design.power)}, achieved {formatPower(p.power)}
             </dd>
           </div>
           <div>
@@ -164,7 +165,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
         <ul className="text-sm">
           {l.periods.map((per, k) => (
             <li key={k}>
-              Budget period {k + 1}: {day(per.startDate)} – {day(per.endDate)} ({per.months} months)
+              Budget period {k + 1}: {day(per.startDate)} – {day(per.endDate)} ({per.months} {per.months === 1 ? "month" : "months"})
             </li>
           ))}
         </ul>
@@ -177,7 +178,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
           {f.probability.byFundedEnd !== null ? `; in time for the last visits and close-out within the funded period: ${pc(f.probability.byFundedEnd)}` : ""}. Months to enrol if sites vary: median{" "}
           {f.monthsToEnrol.median.toFixed(1)}, 80th percentile {f.monthsToEnrol.p80.toFixed(1)}, 90th percentile {f.monthsToEnrol.p90.toFixed(1)} (planned {f.plannedMonths.toFixed(1)}). If enrolment
           takes the 80th percentile, the budget grows by {formatMoney(f.slowEnd[0]!.difference, { cents: false })}; the 90th, by {formatMoney(f.slowEnd[1]!.difference, { cents: false })}.
-          {outlook.assurance ? ` Assurance over the investigator's expectation of the effect: ${outlook.assurance.assurance.toFixed(3)} (power at the target ${outlook.assurance.power.toFixed(3)}).` : ""}
+          {outlook.assurance ? ` Assurance over the investigator's expectation of the effect: ${outlook.assurance.assurance.toFixed(3)} (power at the target ${formatPower(outlook.assurance.power)}).` : ""}
         </p>
         <p className="text-xs text-ink-soft">
           {f.method}; sites&apos; rates vary with a coefficient of variation of {pc(f.rateSpread)} ({f.shapeSource}). A forecast is a model of recruitment, not a promise.
