@@ -72,10 +72,12 @@ export function generateBudgetJustification(i: ScenarioInputs, r: ScenarioResult
       } else if (row.label === "Research procedures") {
         why = ` The procedures of the visit schedule, priced per visit attended: ${l.lines.filter((x) => x.category === "procedures").map((x) => `${x.label}${x.unitCost ? ` at ${formatMoney(x.unitCost)}` : ""}`).join("; ")}.`;
       } else if (row.label === "Site costs and monitoring") {
-        why = ` ${l.counts.sites} site${l.counts.sites === 1 ? "" : "s"}, paid as the institution's own lines (internal): ${l.lines.filter((x) => x.group === "sites").map((x) => x.label).join("; ")}.`;
+        why = ` ${l.counts.sites} site${l.counts.sites === 1 ? "" : "s"}, paid as the institution's own lines: ${l.lines.filter((x) => x.group === "sites").map((x) => x.label).join("; ")}.`;
       } else {
         const items = l.lines.filter((x) => x.group === "other" && (categoryRow(x.category).line ?? "Other") === row.label);
-        if (items.length) why = ` ${items.map((x) => `${x.label} (${categoryWords(x.category).toLowerCase()})`).join("; ")}.`;
+        // Each item with its category in words, unless the row already names it ("Materials and supplies").
+        const classed = (c: string) => (categoryWords(c).toLowerCase() === row.label.toLowerCase() ? "" : `, classed as ${categoryWords(c).toLowerCase()}`);
+        if (items.length) why = ` ${items.map((x) => `${x.label}${classed(x.category)}`).join("; ")}.`;
       }
       lines.push(`${row.label}: ${periodsText(row.byPeriod)}.${why}`);
     }

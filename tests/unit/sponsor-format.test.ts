@@ -129,6 +129,9 @@ describe("the budget justification", () => {
     expect(text).toContain("F&A at the institution's rate of 56.5% on modified total direct costs");
     expect(text).toContain(`total $${sb.cumulative.total.toLocaleString("en-US")}`);
     expect(text).not.toMatch(/site-fees|participant-support|\bundefined\b|NaN/);
+    // Words, not codes: no site arrangement code, no period tag like "P4:".
+    expect(text).toContain("paid as the institution's own lines: ");
+    expect(text).not.toMatch(/\(internal\)|\bP\d+:/);
   });
   it("its figures change when the scenario's do, so an edited text can be checked", () => {
     const other = computeScenario({ ...inputs, recruitment: { ...inputs.recruitment, screenFailure: 0.2 } }, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
