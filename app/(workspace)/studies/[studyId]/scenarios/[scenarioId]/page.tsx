@@ -115,7 +115,12 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           A newer rate-book edition, “{s.newerEdition.label}”, has been published. {editable ? "Recompute to cost this scenario with it." : "The figures here use the edition the scenario was costed with."}
         </p>
       ) : null}
-      {s.state === "cleared" ? <p className="notice">Cleared by the grants office and frozen. To change it, clone it into a new draft.</p> : null}
+      {s.state === "cleared" ? (
+        <p className="notice" data-testid="cleared-note">
+          {/* Only those who may clone are told to; the others learn who can. */}
+          Cleared by the grants office and frozen. {can(user, "scenario.edit", ctx) ? "To change it, clone it into a new draft." : "The study's investigator can make a new draft from it."}
+        </p>
+      ) : null}
       {s.recomputeNote ? (
         <p className="notice" data-testid="recompute-note">
           {s.recomputeNote}
