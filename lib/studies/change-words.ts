@@ -33,8 +33,7 @@ export function scenarioChangeWords({ action, field, note }: ScenarioChange): st
   if (action === "regenerate" && field === "budget_justification") return "put the budget justification back to the text made from the figures";
   if (action === "regenerate" && field === "justification") return "put the sample-size justification back to the text made from the figures";
   if (action === "recompute" && field === "rate_edition_id") return "recalculated it with another rate-book edition";
-  // The note is already a sentence ("Recomputed on … because … changed the study's settings: …").
-  if (action === "recompute" && field === "study-settings") return note ?? "recalculated it after the study settings changed";
+  if (action === "recompute" && field === "study-settings") return `recalculated it after the study settings changed${note ? `: ${note}` : ""}`;
   if (action === "update" && field && CHANGED[field]) return CHANGED[field];
   return `${plain(action)}${field ? ` ${plain(field)}` : ""}${note ? `: ${note}` : ""}`;
 }

@@ -82,7 +82,7 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("check-modular"), /request 2 modules in period 1 \(2 in all\)/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%.");
     await pi.getByTestId("scenario-history").locator("summary").click();
-    await waitForText(pi.getByTestId("scenario-history"), / · Recomputed on .+ F&A rate on-campus → off-campus/);
+    await waitForText(pi.getByTestId("scenario-history"), /recalculated it after the study settings changed: Recomputed on .+ F&A rate on-campus → off-campus/);
     await pi.goto(studyUrl);
     await pi.getByRole("heading", { level: 1, name: `${STUDY.title}, revised` }).waitFor();
   }, 240_000);

@@ -21,7 +21,7 @@ describe("a scenario's Every change list", () => {
     expect(say("regenerate", "budget_justification")).toBe("put the budget justification back to the text made from the figures");
     expect(say("update", "inputs")).toBe("changed the assumptions");
     expect(say("recompute", "rate_edition_id")).toBe("recalculated it with another rate-book edition");
-    expect(say("recompute", "study-settings", "Recomputed on 2027-01-02 because Dr A changed the study's settings: modular budget off → on.")).toBe("Recomputed on 2027-01-02 because Dr A changed the study's settings: modular budget off → on.");
+    expect(say("recompute", "study-settings", "Recomputed on 2027-01-02 because Dr A changed the study's settings: modular budget off → on.")).toBe("recalculated it after the study settings changed: Recomputed on 2027-01-02 because Dr A changed the study's settings: modular budget off → on.");
     expect(say("submit-with-mismatch", "justification", "The justification no longer matches the scenario's figures (n 100 → 120).")).toBe(
       "submitted it although an edited justification no longer matched the figures: The justification no longer matches the scenario's figures (n 100 → 120).",
     );
