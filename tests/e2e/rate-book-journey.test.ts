@@ -77,7 +77,7 @@ describe("the grants officer's rate-book journey", () => {
     // Each row says what it sets as the rate book names it, not the sheet's key.
     const row = page.getByRole("row").filter({ hasText: "Escalation, salaries" });
     expect(await row.getByRole("cell").allTextContents()).toEqual(["2", "Rate or setting", "Escalation, salaries", "3%", "3.5%", "Changes"]);
-    expect(await page.getByRole("row").filter({ hasText: "Postdoc" }).getByRole("cell").allTextContents()).toEqual(["3", "Fringe rate", "Postdoc", "—", "25%", "Adds"]);
+    expect(await page.getByRole("row").filter({ hasText: "Postdoc" }).getByRole("cell").allTextContents()).toEqual(["3", "Fringe rate", "Postdoc", "24%", "25%", "Changes"]);
     expect(await page.getByRole("row").filter({ hasText: "Knee MRI" }).getByRole("cell").nth(2).textContent()).toBe("Knee MRI (MRI-KNEE)");
     expect(await page.locator("table").textContent()).not.toMatch(/escalationSalaries|\bsetting\b/);
     await screenshot(page, "rate-book-import-preview");
@@ -131,7 +131,7 @@ describe("the grants officer's rate-book journey", () => {
     // Edition by its label; actions, fields and values in words: rates as percentages, money as money.
     expect(await cells("Published", "Status")).toEqual(["2030 rates", "Published", "Status", "Draft", "Published"]);
     expect(await cells("Imported from a rate sheet", "Escalation, salaries")).toEqual(["2030 rates", "Imported from a rate sheet", "Escalation, salaries", "3%", "3.5%"]);
-    expect(await cells("Imported from a rate sheet", "Fringe rate, postdoc")).toEqual(["2030 rates", "Imported from a rate sheet", "Fringe rate, postdoc", "—", "25%"]);
+    expect(await cells("Imported from a rate sheet", "Fringe rate, postdoc")).toEqual(["2030 rates", "Imported from a rate sheet", "Fringe rate, postdoc", "24%", "25%"]);
     expect(await cells("Imported from a rate sheet", "Procedure MRI-KNEE, unit cost")).toEqual(["2030 rates", "Imported from a rate sheet", "Procedure MRI-KNEE, unit cost", "—", "$450.00"]);
     expect(await cells("Changed", "F&A rate")).toEqual(["2030 rates", "Changed", "F&A rate", "56.5%", "57.5%"]);
     expect(await cells("Started the draft", "Started from")).toEqual(["2030 rates", "Started the draft", "Started from", "—", IN_FORCE.label]);
