@@ -19,16 +19,16 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
             <Wordmark />
           </Link>
           <NavLinks items={navigationFor(user.role)} />
-          <div className="ml-auto flex items-center gap-3 text-sm">
+          <div className="ml-auto flex flex-wrap items-center gap-x-3 gap-y-2 text-sm">
             <span data-testid="whoami">
               <span className="font-medium">{user.name}</span>
-              <span className="ml-2 rounded-full bg-white/15 px-2 py-0.5 text-xs">{ROLE_LABELS[user.role]}</span>
+              <span className="ml-2 whitespace-nowrap rounded-full bg-white/15 px-2 py-0.5 text-xs" data-testid="role-badge">{ROLE_LABELS[user.role]}</span>
             </span>
-            <Link href="/account" className="text-white underline-offset-2 hover:text-white hover:underline">
+            <Link href="/account" className="whitespace-nowrap text-white underline-offset-2 hover:text-white hover:underline">
               Account settings
             </Link>
             <form action={signOutAction}>
-              <button type="submit" className="rounded border border-white/40 px-3 py-1 text-white hover:bg-white/10">
+              <button type="submit" className="whitespace-nowrap rounded border border-white/40 px-3 py-1 text-white hover:bg-white/10">
                 Sign out
               </button>
             </form>

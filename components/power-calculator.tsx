@@ -533,7 +533,7 @@ export function PowerCalculator() {
         ) : outcome.kind === "idle" ? (
           <p className="text-ink-soft">Working it out…</p>
         ) : (
-          <p className="text-ink-soft">The answer appears here once the fields marked on the left are filled in.</p>
+          <p className="text-ink-soft">The answer appears here once each field that says &ldquo;fill this in&rdquo; has a value.</p>
         )}
         <p className="border-t border-rule pt-3 text-xs text-ink-soft">
           These figures support, and do not replace, a statistician&apos;s review of the design and analysis plan.

@@ -9,6 +9,7 @@ import { studySettingsSchema } from "@/lib/studies/rules";
 import { ErrorSummary } from "./form/error-summary";
 import { describedBy, Field } from "./form/field";
 import { keptSubmit } from "./form/kept-submit";
+import { categoryWords } from "@/lib/sponsor/categories";
 
 export type StudySettingsValues = {
   updatedAt: string;
@@ -101,7 +102,7 @@ export function StudySettingsForm({ studyId, values, offCampusRate, onCampusRate
           <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-sm">
             {COST_CATEGORIES.map((c) => (
               <label key={c} className="flex items-center gap-1.5">
-                <input type="checkbox" name={fields.faExcluded.name} value={c} defaultChecked={excluded.has(c)} /> {c}
+                <input type="checkbox" name={fields.faExcluded.name} value={c} defaultChecked={excluded.has(c)} /> {categoryWords(c)}
               </label>
             ))}
           </div>

@@ -8,6 +8,7 @@ import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
 import { formatPower } from "@/lib/format/power";
+import { categoryWords, staffCategoryWords } from "@/lib/sponsor/categories";
 
 const pct = (v: number | undefined) => (v === undefined ? "—" : `${Math.round(v * 10000) / 100}%`);
 const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
@@ -158,7 +159,7 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
                   {inputs.personnel.map((p, k) => (
                     <tr key={k}>
                       <td>{p.role}</td>
-                      <td>{p.fringeCategory}</td>
+                      <td>{staffCategoryWords(p.fringeCategory)}</td>
                       <td className="num">{formatMoney(p.baseSalary)}</td>
                       <td className="num">{p.effortPercent.map((e) => `${e}%`).join(", ")}</td>
                       <td>{p.follows === "enrolment" ? "Recruitment and visits" : "The whole study"}</td>
@@ -183,7 +184,7 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
                   {inputs.other.map((o, k) => (
                     <tr key={k}>
                       <td>{o.label}</td>
-                      <td>{o.category}</td>
+                      <td>{categoryWords(o.category)}</td>
                       <td className="num">{formatMoney(o.perPeriod)}</td>
                       <td>{o.escalate ? "Yes" : "No"}</td>
                     </tr>

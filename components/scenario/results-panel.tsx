@@ -11,6 +11,7 @@ import { TableHead } from "@/components/table-head";
 import { formatEffect } from "@/lib/power/effect-units";
 import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 import { formatPower } from "@/lib/format/power";
+import { categoryWords } from "@/lib/sponsor/categories";
 
 const fmt = (x: number | undefined | null, d = 3) => (x == null || Number.isNaN(x) ? "—" : Number(x.toFixed(d)).toLocaleString("en-US", { maximumFractionDigits: d }));
 export const effectLabel = (name: string) => (name === "p2" ? "Intervention proportion" : name === "hazardRatio" ? "Hazard ratio" : name === "margin" ? "Margin" : "Effect size d");
@@ -260,7 +261,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
                     {line.review === "one-off" ? <span className="badge badge-muted ml-1.5">review</span> : null}
                     {line.personnel?.span && line.basis === "salary" ? <span className="block text-xs text-ink-soft">effort over {line.personnel.span}</span> : null}
                   </td>
-                  <td>{line.category}</td>
+                  <td>{categoryWords(line.category)}</td>
                   <td className="num">{formatMoney(line.total)}</td>
                 </tr>
               ))}

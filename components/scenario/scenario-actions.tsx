@@ -146,10 +146,10 @@ export function ScenarioActions({
             <input type="hidden" name="studyId" value={ids.studyId} />
             <input type="hidden" name="scenarioId" value={ids.scenarioId} />
             <input type="hidden" name="action" value="return" />
-            <label className="sr-only" htmlFor="return-reason">
+            <label className="flex flex-col gap-1 text-sm font-medium" htmlFor="return-reason">
               Reason for returning
+              <input id="return-reason" name="reason" className="input py-1 font-normal" />
             </label>
-            <input id="return-reason" name="reason" className="input py-1" placeholder="Reason for returning" />
             <button type="submit" className="btn btn-quiet" disabled={returnPending}>
               Return
             </button>

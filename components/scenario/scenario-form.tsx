@@ -21,6 +21,7 @@ import { ProcedurePicker, type CatalogueProcedure } from "./procedure-picker";
 import { ReachChart } from "./reach-chart";
 import { ResultsPanel } from "./results-panel";
 import { useUnsavedChanges } from "./unsaved-changes";
+import { categoryWords, staffCategoryWords } from "@/lib/sponsor/categories";
 
 const SIDES = [
   ["2", "Two-sided"],
@@ -43,7 +44,7 @@ const SITE_ARRANGEMENT_OPTIONS = [
   ["subaward", "subaward: a subrecipient with its own indirects"],
   ["contract", "contract: a vendor paid per participant and visit"],
 ] as const;
-const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
+const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, categoryWords(c)] as const);
 
 const str = (v: unknown) => (v === undefined || v === null ? "" : String(v));
 const strings = (o: object) => Object.fromEntries(Object.entries(o).map(([k, v]) => [k, str(v)]));
@@ -645,7 +646,7 @@ export function ScenarioForm({
             return (
               <div key={p.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.role} label="Role" />
-                <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
+                <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, staffCategoryWords(c)] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
                 <Text meta={f.effortPercent} label="Effort % by budget period" hint="20, or 20, 15, 10 (the last repeats)" />
                 <Choice meta={f.follows} label="Effort runs" options={EFFORT_RUNS} />

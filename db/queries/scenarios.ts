@@ -562,5 +562,5 @@ export async function scenarioHistory(actor: Actor, id: number): Promise<History
     .orderBy("a.id", "desc")
     .limit(50)
     .execute();
-  return rows.map((r) => ({ at: r.at, who: r.name, action: r.action, field: r.field, note: r.action === "recompute" && r.field === "study-settings" ? r.new_value : r.field === "state" ? r.new_value : null }));
+  return rows.map((r) => ({ at: r.at, who: r.name, action: r.action, field: r.field, note: (r.action === "recompute" && r.field === "study-settings") || r.action.endsWith("-with-mismatch") ? r.new_value : null }));
 }

@@ -105,11 +105,13 @@ export function generateBudgetJustification(i: ScenarioInputs, r: ScenarioResult
         const sites = l.lines.filter((x) => x.site).map((x) => x.label);
         const items = l.lines.filter((x) => x.group === "other" && (categoryRow(x.category).line ?? "Other") === row.label);
         const said = other.rows.some((x) => x.label === "Site costs and monitoring");
-        const listed = [...sites, ...items.map((x) => `${x.label} (${categoryWords(x.category).toLowerCase()})`)];
+        const listed = [...sites, ...items.map((x) => `${x.label}, classed as ${categoryWords(x.category).toLowerCase()}`)];
         why = `${said || !sites.length ? "" : ` ${siteArrangementWords(l)}.`}${listed.length ? ` ${listed.join("; ")}.` : ""}`;
       } else {
         const items = l.lines.filter((x) => x.group === "other" && (categoryRow(x.category).line ?? "Other") === row.label);
-        if (items.length) why = ` ${items.map((x) => `${x.label} (${categoryWords(x.category).toLowerCase()})`).join("; ")}.`;
+        // Each item with its category in words, unless the row already names it ("Materials and supplies").
+        const classed = (c: string) => (categoryWords(c).toLowerCase() === row.label.toLowerCase() ? "" : `, classed as ${categoryWords(c).toLowerCase()}`);
+        if (items.length) why = ` ${items.map((x) => `${x.label}${classed(x.category)}`).join("; ")}.`;
       }
       lines.push(`${row.label}: ${periodsText(row.byPeriod)}.${why}`);
     }

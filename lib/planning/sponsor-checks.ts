@@ -5,6 +5,7 @@
 import type { Ledger } from "@/lib/costing";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
+import { categoryWords } from "@/lib/sponsor/categories";
 
 export type SponsorCheckLine = { key: string; label: string; ok: boolean; text: string };
 
@@ -65,7 +66,7 @@ export function sponsorCheckLines(ledger: Ledger): SponsorCheckLine[] {
   if (t && (t.location === "off-campus" || t.limitedTo || t.excluded.length)) {
     const parts = [`${t.location} rate ${formatRate(t.agreementRate)}`];
     if (t.limitedTo) parts.push(`limited by the sponsor to ${formatRate(t.limitedTo)}`);
-    if (t.excluded.length) parts.push(`no F&A on ${t.excluded.join(", ")}`);
+    if (t.excluded.length) parts.push(`no F&A on ${t.excluded.map((c) => categoryWords(c).toLowerCase()).join(", ")}`);
     out.push({ key: "fa", label: "F&A terms", ok: true, text: `F&A at the ${parts.join("; ")}.` });
   }
   return out;

@@ -40,7 +40,7 @@ export type SettingKey = (typeof SETTING_KEYS)[number];
 export const SETTING_FIELDS: SettingField[] = [
   { key: "faRate", column: "fa_rate", label: "F&A rate", kind: "rate", hint: "On-campus, from the negotiated rate agreement, e.g. 56.5%" },
   { key: "faRateOffCampus", column: "fa_rate_off_campus", label: "F&A rate, off-campus", kind: "rate-optional", hint: "From the same agreement, e.g. 26%; a study whose work is mainly off campus chooses it. Empty for none." },
-  { key: "faBase", column: "fa_base", label: "F&A base", kind: "base", hint: "mtdc (modified total direct costs) or tdc (total direct costs)" },
+  { key: "faBase", column: "fa_base", label: "F&A base", kind: "base", hint: "MTDC (modified total direct costs) or TDC (total direct costs)" },
   { key: "mtdcSubawardThreshold", column: "mtdc_subaward_threshold", label: "MTDC subaward threshold", kind: "money", hint: "Each subaward's first dollars in the base: 50000 (2024 revision) or 25000" },
   { key: "equipmentThreshold", column: "equipment_threshold", label: "Equipment threshold", kind: "money", hint: "Unit cost from which an item is equipment: 10000 (2024 revision) or 5000" },
   { key: "escalationSalaries", column: "escalation_salaries", label: "Escalation, salaries", kind: "rate", hint: "Per year from period 2, e.g. 3%" },
@@ -108,7 +108,11 @@ export function settingSchema(field: SettingField): z.ZodType<string | null> {
         .transform((v) => String(v).trim())
         .pipe(z.string().regex(/^\d{1,3}$/, `${field.label}: enter a whole number from 0 to 999.`)) as z.ZodType<string>;
     case "base":
-      return z.enum(["mtdc", "tdc"], { error: `${field.label}: enter mtdc or tdc.` });
+      // Typed as the page names it (MTDC or TDC), stored lower-case.
+      return z
+        .string({ error: `${field.label}: enter MTDC or TDC.` })
+        .transform((v) => v.trim().toLowerCase())
+        .pipe(z.enum(["mtdc", "tdc"], { error: `${field.label}: enter MTDC or TDC.` })) as z.ZodType<string>;
   }
 }
 

@@ -77,6 +77,14 @@ export function categoryWords(category: string): string {
 }
 
 /**
+ * A rate book's staff (fringe) category in words ("Research staff", not "research-staff"). The grants
+ * office names these categories itself (lower-case letters, digits and hyphens), so there is no table.
+ */
+export function staffCategoryWords(category: string): string {
+  return category.replace(/-/g, " ").replace(/^./, (c) => c.toUpperCase());
+}
+
+/**
  * Senior and key personnel: the investigators and faculty who contribute in a substantive way
  * (common practice: a principal or co-investigator, or faculty effort, is listed as key personnel).
  */

@@ -8,6 +8,7 @@ import { COST_CATEGORIES, FA_LOCATIONS, SITE_ARRANGEMENTS, type CostCategory, ty
 import { percentToShare } from "@/lib/format/percent-input";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate } from "@/lib/format/rates";
+import { categoryWords } from "@/lib/sponsor/categories";
 import { moneyField } from "./schema";
 import "@/lib/validation/plain-messages";
 
@@ -111,7 +112,7 @@ export function describeSettingsChange(before: StudySettings, after: StudySettin
   add("modular budget", onOff(b.modular), onOff(a.modular));
   add("prior-approval test", onOff(b.priorApproval), onOff(a.priorApproval));
   add("F&A limit", b.faCapRate ? formatRate(b.faCapRate) : "none", a.faCapRate ? formatRate(a.faCapRate) : "none");
-  const ex = (v: CostCategory[] | undefined) => (v?.length ? [...v].sort().join(", ") : "none");
+  const ex = (v: CostCategory[] | undefined) => (v?.length ? [...v].sort().map((c) => categoryWords(c).toLowerCase()).join(", ") : "none");
   add("no F&A on", ex(b.faExcluded), ex(a.faExcluded));
   return out;
 }

@@ -180,6 +180,10 @@ describe("the administrator", () => {
     await pi.close();
     await admin.getByRole("link", { name: "Outbox" }).click();
     await admin.waitForURL(/\/admin\/outbox$/);
+    // The page says where mail goes (the test's local mail server) and where each person chooses their e-mails.
+    const mailSettings = admin.getByTestId("mail-settings");
+    expect((await mailSettings.textContent())?.replace(/\s+/g, " ")).toMatch(/through the mail server at 127\.0\.0\.1:\d+\./);
+    expect(await mailSettings.getByRole("link", { name: "Account settings" }).getAttribute("href")).toBe("/account");
     const outbox = admin.getByTestId("outbox");
     const item = outbox.getByRole("listitem").filter({ hasText: "To casey.outbox-check@demo.test" }).first();
     for (let k = 0; k < 20; k++) {

@@ -47,6 +47,8 @@ describe("the grants officer's journey", () => {
     await clickAndConfirm(grants, grants.getByRole("button", { name: "Return", exact: true }));
     await grants.getByRole("alert").filter({ hasText: "Say why the scenario is returned." }).waitFor();
     expect(await grants.getByTestId("scenario-state").textContent()).toBe("In review");
+    // The reason's field has a label one can see, not only a placeholder.
+    expect(await grants.getByText("Reason for returning", { exact: true }).isVisible()).toBe(true);
     await grants.getByLabel("Reason for returning").fill(REASON);
     await clickAndConfirm(grants, grants.getByRole("button", { name: "Return", exact: true }));
     await grants.getByTestId("scenario-state").filter({ hasText: "Returned" }).waitFor();
@@ -77,9 +79,37 @@ describe("the grants officer's journey", () => {
     await grants.getByTestId("scenario-state").filter({ hasText: "Cleared" }).waitFor();
     expect(await grants.getByTestId("clear-review").count()).toBe(0);
 
+    // Every change, in the words a grants officer would write: no codes, no raw review states.
+    const changes = grants.getByTestId("scenario-history");
+    await changes.locator("summary").click();
+    const said = (await changes.getByRole("listitem").allTextContents()).join("\n");
+    for (const step of ["submitted it for review", "returned it to the investigator", "changed the assumptions", "cleared it", "created the scenario"]) expect(said, step).toContain(step);
+    expect(said).not.toMatch(/in-review|the review state|_|submit-with|\bchanged enrolment/);
+    // The cost lines' categories are words ("Site fees"), never the ledger's codes ("site-fees").
+    await grants.getByText(/^Cost lines \(\d+\)$/).first().click();
+    const costLines = grants.getByRole("region", { name: "Cost lines", exact: true }).first();
+    expect(await costLines.getByRole("row").filter({ hasText: "Annual site fees" }).getByRole("cell").nth(1).textContent()).toBe("Site fees");
+    expect(await costLines.textContent()).not.toMatch(/site-fees|patient-care|participant-support|research-staff/);
+    // The read-only assumptions name the staff category in words too.
+    const staff = grants.getByTestId("assumptions-staff");
+    if (await staff.count()) expect(await staff.textContent()).not.toMatch(/research-staff/);
+    // The grants office cannot clone, so it is not told to; it is told who can.
+    expect(await grants.getByTestId("cleared-note").textContent()).toBe("Cleared by the grants office and frozen. The study's investigator can make a new draft from it.");
+
+    // At 390 px the role badge stays on one line, inside the screen.
+    await grants.setViewportSize({ width: 390, height: 900 });
+    await grants.waitForTimeout(200);
+    const badge = await grants.getByTestId("role-badge").boundingBox();
+    expect(await grants.getByTestId("role-badge").textContent()).toBe("Grants officer");
+    expect(badge!.height).toBeLessThan(26);
+    expect(badge!.x + badge!.width).toBeLessThanOrEqual(390);
+    await grants.setViewportSize({ width: 1440, height: 1000 });
+
     // For the investigator it is now frozen.
     await pi.reload();
     await pi.getByText("Cleared by the grants office and frozen").waitFor();
+    // The investigator may clone it, and is told so.
+    expect(await pi.getByTestId("cleared-note").textContent()).toBe("Cleared by the grants office and frozen. To change it, clone it into a new draft.");
     expect(await pi.getByRole("button", { name: "Save changes" }).count()).toBe(0);
     expect(await pi.getByTestId("submit-review").count()).toBe(0);
     await waitForText(pi.getByTestId("result-total"), "$86,714.04");

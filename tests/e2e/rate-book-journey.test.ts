@@ -74,8 +74,12 @@ describe("the grants officer's rate-book journey", () => {
     await page.waitForURL(/\/import\/\d+$/);
     await page.getByRole("heading", { name: "Preview of 2030-rates.csv" }).waitFor();
     await page.getByText("3 rows read (CSV), 3 would change the draft. No errors.").waitFor();
-    const row = page.getByRole("row").filter({ hasText: "escalationSalaries" });
-    expect(await row.getByRole("cell").allTextContents()).toEqual(["2", "setting", "escalationSalaries", "3%", "3.5%", "Changes"]);
+    // Each row says what it sets as the rate book names it, not the sheet's key.
+    const row = page.getByRole("row").filter({ hasText: "Escalation, salaries" });
+    expect(await row.getByRole("cell").allTextContents()).toEqual(["2", "Rate or setting", "Escalation, salaries", "3%", "3.5%", "Changes"]);
+    expect(await page.getByRole("row").filter({ hasText: "Postdoc" }).getByRole("cell").allTextContents()).toEqual(["3", "Fringe rate", "Postdoc", "24%", "25%", "Changes"]);
+    expect(await page.getByRole("row").filter({ hasText: "Knee MRI" }).getByRole("cell").nth(2).textContent()).toBe("Knee MRI (MRI-KNEE)");
+    expect(await page.locator("table").textContent()).not.toMatch(/escalationSalaries|\bsetting\b/);
     await screenshot(page, "rate-book-import-preview");
     await page.getByRole("button", { name: "Apply to the draft" }).click();
     await page.getByText("The rate sheet was applied to this draft.").waitFor();
@@ -103,12 +107,36 @@ describe("the grants officer's rate-book journey", () => {
     );
     expect(await page.getByTestId("standing").textContent()).toContain("Scheduled: in force from 2030-01-01");
     expect(await page.getByTestId("edit-faRate").count()).toBe(0);
+    // Read-only now: the value hints meant for typing are gone, and categories are in words.
+    const settings = page.getByRole("region", { name: "Table of rates and settings" });
+    expect(await settings.textContent()).not.toMatch(/Empty for none|50000 \(2024 revision\)|or 25000|mtdc|tdc/);
+    expect(await page.getByTestId("value-faBase").textContent()).toBe("MTDC");
+    await page.getByRole("cell", { name: "Research staff", exact: true }).waitFor();
+    expect(await page.getByRole("cell", { name: "research-staff", exact: true }).count()).toBe(0);
+    await screenshot(page, "rate-book-published-read-only");
     scheduledUrl = page.url();
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Rate book" }).click();
     const listed = page.getByRole("row").filter({ has: page.getByRole("link", { name: "2030 rates", exact: true }) });
     await listed.getByText("Scheduled from 2030-01-01").waitFor();
     await page.getByTestId("in-force-summary").getByText("2030 rates", { exact: true }).waitFor();
     await screenshot(page, "rate-book-list-1440");
+  });
+
+  it("the change history reads as a grants officer would write it", async () => {
+    await page.goto(`${baseUrl}/rate-book/audit`);
+    const audit = page.getByTestId("audit");
+    await audit.waitFor();
+    const rowOf = (what: string, field: string) => audit.getByRole("row").filter({ has: page.getByRole("cell", { name: what, exact: true }) }).filter({ has: page.getByRole("cell", { name: field, exact: true }) }).first();
+    const cells = async (what: string, field: string) => (await rowOf(what, field).getByRole("cell").allTextContents()).slice(2);
+    // Edition by its label; actions, fields and values in words: rates as percentages, money as money.
+    expect(await cells("Published", "Status")).toEqual(["2030 rates", "Published", "Status", "Draft", "Published"]);
+    expect(await cells("Imported from a rate sheet", "Escalation, salaries")).toEqual(["2030 rates", "Imported from a rate sheet", "Escalation, salaries", "3%", "3.5%"]);
+    expect(await cells("Imported from a rate sheet", "Fringe rate, postdoc")).toEqual(["2030 rates", "Imported from a rate sheet", "Fringe rate, postdoc", "24%", "25%"]);
+    expect(await cells("Imported from a rate sheet", "Procedure MRI-KNEE, unit cost")).toEqual(["2030 rates", "Imported from a rate sheet", "Procedure MRI-KNEE, unit cost", "—", "$450.00"]);
+    expect(await cells("Changed", "F&A rate")).toEqual(["2030 rates", "Changed", "F&A rate", "56.5%", "57.5%"]);
+    expect(await cells("Started the draft", "Started from")).toEqual(["2030 rates", "Started the draft", "Started from", "—", IN_FORCE.label]);
+    expect(await audit.textContent()).not.toMatch(/faRate|escalationSalaries|based_on|procedure:|fringe:|#\d|\b(update|import|publish|create)\b|0\.575/);
+    await screenshot(page, "rate-book-change-history");
   });
 
   it("a back-dated draft is refused with its reason, and can be re-dated", async () => {

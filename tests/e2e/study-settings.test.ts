@@ -55,6 +55,11 @@ describe("the study's settings and sponsor rules", () => {
     await pi.goto(studyUrl);
     await pi.getByTestId("study-settings-link").click();
     await pi.waitForURL(/\/settings$/);
+    // The "No F&A on" boxes name each category in words; their values stay the codes.
+    const noFa = pi.getByRole("group", { name: "No F&A on" });
+    expect(await noFa.getByRole("checkbox", { name: "Site fees", exact: true }).getAttribute("value")).toBe("site-fees");
+    await noFa.getByRole("checkbox", { name: "Participant support costs (trainees, conference participants)", exact: true }).waitFor();
+    expect(await noFa.textContent()).not.toMatch(/site-fees|patient-care|participant-support/);
     await textField(pi, "Title").fill(`${STUDY.title}, revised`);
     await pi.getByRole("combobox", { name: /^F&A rate from the rate agreement/ }).selectOption({ label: "Off-campus (26%)" });
     await pi.getByRole("checkbox", { name: "Modular budget" }).check();
@@ -74,7 +79,7 @@ describe("the study's settings and sponsor rules", () => {
     await waitForText(pi.getByTestId("check-modular"), /request 2 modules in period 1 \(2 in all\)/);
     await waitForText(pi.getByTestId("check-fa"), "F&A terms: F&A at the off-campus rate 26%.");
     await pi.getByTestId("scenario-history").locator("summary").click();
-    await waitForText(pi.getByTestId("scenario-history"), /recomputed: Recomputed on .+ F&A rate on-campus → off-campus/);
+    await waitForText(pi.getByTestId("scenario-history"), /recalculated it after the study settings changed: Recomputed on .+ F&A rate on-campus → off-campus/);
     await pi.goto(studyUrl);
     await pi.getByRole("heading", { level: 1, name: `${STUDY.title}, revised` }).waitFor();
   }, 240_000);

@@ -229,7 +229,7 @@ describe("periods, visits and dropouts", () => {
   it("a short final period prorates a year's amount: $1,200 a year in a 6-month period 3 is $600 (common practice)", () => {
     const l = computeLedger({ ...SMALL_STUDY, other: [{ label: "Licence", category: "services", perPeriod: "1200", escalate: false }] }, ROUND_RATES);
     expect(line(l, "other:0").amounts).toEqual(["1200.00", "1200.00", "600.00"]);
-    expect(line(l, "other:0").label).toBe("Licence (P3: 6 of 12 months)");
+    expect(line(l, "other:0").label).toBe("Licence (period 3 covers 6 of 12 months)");
     expect(line(l, "other:0").periodMonths).toEqual([12, 12, 6]);
   });
   it("demo scenario one: its 7-month period 4 pays 7/12 of each year's other costs, about $15,300 less with F&A", () => {

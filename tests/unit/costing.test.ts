@@ -127,7 +127,7 @@ describe("participant and site costs (worked by hand)", () => {
     // site A 2, 14, 26; site B 5, 17; site C 8, 20 → periods 1: 3, 2: 3, 3: 1. Period 3 runs 6 months
     // (months 24–29), so its fee is prorated: 1 × 6/12 = 0.5 (common practice; see "a short final period").
     expect(line(l, "site-annual").quantities).toEqual([3, 3, 0.5]);
-    expect(line(l, "site-annual").label).toBe("Annual site fees (prorated: P3: 6 of 12 months)");
+    expect(line(l, "site-annual").label).toBe("Annual site fees (prorated: period 3 covers 6 of 12 months)");
     // Close-out at month 28 (period 3) for each site.
     expect(line(l, "site-closeout").quantities).toEqual([0, 0, 3]);
     expect(line(l, "site-closeout").amounts[2]).toBe("3182.70"); // 3 × 1,000 × 1.03²

@@ -129,6 +129,9 @@ describe("the budget justification", () => {
     expect(text).toContain("F&A at the institution's rate of 56.5% on modified total direct costs");
     expect(text).toContain(`total $${sb.cumulative.total.toLocaleString("en-US")}`);
     expect(text).not.toMatch(/site-fees|participant-support|\bundefined\b|NaN/);
+    // Words, not codes: no site arrangement code, no period tag like "P4:".
+    expect(text).toContain("paid as the institution's own lines: ");
+    expect(text).not.toMatch(/\(internal\)|\bP\d+:/);
   });
   it("describes the sites as the ledger pays them: demo scenario one's 6 sites with site 2 a contract are 2 internal, 1 under a services contract, 3 subawards", () => {
     const sites = [...inputs.sites!];

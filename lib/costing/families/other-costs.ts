@@ -9,10 +9,10 @@ import { D } from "../money";
 import { ITEM_CATEGORIES, itemCategory } from "../equipment";
 import type { FamilyContext } from "./context";
 
-/** "P4: 7 of 12 months": the short periods a prorated line pays for, as the line says them. */
+/** "period 4 covers 7 of 12 months": the short periods a prorated line pays for, in the line's own words. */
 export function prorationNote(months: number[]): string {
   return months
-    .map((m, p) => (m === 12 ? null : `P${p + 1}: ${m} of 12 months`))
+    .map((m, p) => (m === 12 ? null : `period ${p + 1} covers ${m} of 12 months`))
     .filter(Boolean)
     .join("; ");
 }

@@ -38,7 +38,7 @@ export function siteLines({ inputs, rates, tl }: FamilyContext, lines: LineList,
   const annual = lines.quantity(`${keyPrefix}site-annual`, "sites", "site-fees", "Annual site fees", site.annualFee, annualQ);
   const short = tl.periods.filter((p, i) => p.months !== 12 && annualQ[i]! > 0);
   if (annual && short.length) {
-    annual.label = `Annual site fees (prorated: ${short.map((p) => `P${p.index + 1}: ${p.months} of 12 months`).join("; ")})`;
+    annual.label = `Annual site fees (prorated: ${short.map((p) => `period ${p.index + 1} covers ${p.months} of 12 months`).join("; ")})`;
     annual.periodMonths = tl.periods.map((p) => p.months);
   }
   lines.quantity(`${keyPrefix}site-monitoring`, "sites", "monitoring", "Monitoring visits", site.monitoringVisitCost, monitoringQ);

@@ -6,6 +6,7 @@ import { effectUnit } from "@/lib/power/effect-units";
 import { classOverridesOf } from "@/lib/costing/procedure-class";
 import { safeText } from "../text";
 import { DATE, dateCell, defineName, finish, fringeName, humanDate, MONEY, name, RATE, title, type Ctx, type WorkbookScenario } from "../cells";
+import { categoryWords } from "@/lib/sponsor/categories";
 
 export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Worksheet {
   const ws = ctx.wb.addWorksheet(ctx.sheet("Assumptions"));
@@ -34,7 +35,7 @@ export function assumptionsSheet(ctx: Ctx, s: WorkbookScenario): ExcelJS.Workshe
     Number(s.results.ledger.faRate),
     RATE,
     name(ctx, "FA_RATE"),
-    terms ? `${edition}, ${terms.location} rate${terms.limitedTo ? `, limited by the sponsor to this rate` : ""}${terms.excluded.length ? `; no F&A on ${terms.excluded.join(", ")}` : ""}` : edition,
+    terms ? `${edition}, ${terms.location} rate${terms.limitedTo ? `, limited by the sponsor to this rate` : ""}${terms.excluded.length ? `; no F&A on ${terms.excluded.map((c) => categoryWords(c).toLowerCase()).join(", ")}` : ""}` : edition,
   );
   add("F&A base", s.rates.faBase === "mtdc" ? "MTDC" : "Total direct costs");
   add("MTDC subaward threshold (per subaward, life of award)", Number(s.rates.mtdcSubawardThreshold), MONEY, name(ctx, "MTDC_THRESHOLD"));

@@ -8,6 +8,7 @@ import { can } from "@/lib/auth/permissions";
 import { formatMoney } from "@/lib/format/money";
 import { formatRate, formatSetting } from "@/lib/format/rates";
 import { SETTING_FIELDS } from "@/lib/rate-book/fields";
+import { categoryWords, staffCategoryWords } from "@/lib/sponsor/categories";
 import { publishedMessage, publishEffect, standingSentence } from "@/lib/rate-book/standing-text";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
@@ -115,7 +116,8 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
               <tr key={f.key} data-testid={`setting-${f.key}`}>
                 <td>
                   <span className="font-medium">{f.label}</span>
-                  {f.hint ? <span className="block text-xs text-ink-soft">{f.hint}</span> : null}
+                  {/* The hints say what to type: shown only to those who may edit this draft. */}
+                  {editable && f.hint ? <span className="block text-xs text-ink-soft">{f.hint}</span> : null}
                 </td>
                 <td className="num" data-testid={`value-${f.key}`}>
                   {formatSetting(f.kind, e.settings[f.key])}
@@ -128,7 +130,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
                       fields={[
                         f.kind === "rate" || f.kind === "rate-optional"
                           ? { name: "value", label: `New value for ${f.label}`, defaultValue: formatRate(e.settings[f.key]), help: RATE_HELP }
-                          : { name: "value", label: `New value for ${f.label}`, defaultValue: e.settings[f.key] },
+                          : { name: "value", label: `New value for ${f.label}`, defaultValue: f.kind === "base" ? e.settings[f.key]?.toUpperCase() : e.settings[f.key] },
                       ]}
                       submitLabel="Save"
                       testId={`edit-${f.key}`}
@@ -152,11 +154,11 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
           <tbody>
             {e.fringe.map((f) => (
               <tr key={f.id}>
-                <td>{f.category}</td>
+                <td>{staffCategoryWords(f.category)}</td>
                 <td className="num">{formatRate(f.rate)}</td>
                 {editable ? (
                   <td className="flex flex-wrap gap-2">
-                    <InlineForm action={updateFringeAction} hidden={{ editionId: e.id, id: f.id, version: f.version }} fields={[{ name: "rate", label: `Fringe rate for ${f.category}`, defaultValue: formatRate(f.rate), help: RATE_HELP }]} submitLabel="Save" />
+                    <InlineForm action={updateFringeAction} hidden={{ editionId: e.id, id: f.id, version: f.version }} fields={[{ name: "rate", label: `Fringe rate for ${staffCategoryWords(f.category).toLowerCase()}`, defaultValue: formatRate(f.rate), help: RATE_HELP }]} submitLabel="Save" />
                     <InlineForm action={removeRowAction} hidden={{ editionId: e.id, id: f.id, version: f.version, kind: "fringe" }} fields={[]} submitLabel="Remove" variant="danger" />
                   </td>
                 ) : null}
@@ -193,7 +195,7 @@ export default async function EditionPage({ params, searchParams }: { params: Pr
               <tr key={p.id}>
                 <td className="font-mono text-sm whitespace-nowrap">{p.code}</td>
                 <td>{p.name}</td>
-                <td>{p.category}</td>
+                <td>{categoryWords(p.category)}</td>
                 <td data-testid={`class-${p.code}`}>{PROCEDURE_CLASS_LABELS[p.class as ProcedureClass] ?? p.class}</td>
                 <td className="num">{formatMoney(p.unitCost)}</td>
                 {editable ? (

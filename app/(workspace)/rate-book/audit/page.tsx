@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { listRateBookAudit } from "@/db/queries/rate-book";
+import { listEditions, listRateBookAudit } from "@/db/queries/rate-book";
+import { auditWords } from "@/lib/rate-book/audit-words";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
@@ -18,7 +19,8 @@ export default async function AuditPage() {
       </div>
     );
   }
-  const rows = await listRateBookAudit(user);
+  const [rows, editions] = await Promise.all([listRateBookAudit(user), listEditions(user)]);
+  const labels = new Map(editions.map((e) => [String(e.id), e.label]));
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -30,19 +32,22 @@ export default async function AuditPage() {
         <table className="table" data-testid="audit">
           <TableHead columns={["When (UTC)", "Who", "Edition", "What", "Field", { label: "Old", num: true }, { label: "New", num: true }]} />
           <tbody>
-            {rows.map((r) => (
+            {rows.map((r) => {
+              const w = auditWords(r, (id) => labels.get(id));
+              return (
               <tr key={r.id}>
                 <td className="num text-sm">{r.at.replace("T", " ").slice(0, 19)}</td>
                 <td>{r.userName ?? "—"}</td>
                 <td>
-                  <Link href={`/rate-book/${r.entityId}`}>#{r.entityId}</Link>
+                  <Link href={`/rate-book/${r.entityId}`}>{labels.get(r.entityId ?? "") ?? `Edition ${r.entityId}`}</Link>
                 </td>
-                <td>{r.action}</td>
-                <td className="num">{r.field ?? "—"}</td>
-                <td className="num">{r.oldValue ?? "—"}</td>
-                <td className="num">{r.newValue ?? "—"}</td>
+                <td>{w.what}</td>
+                <td>{w.field}</td>
+                <td className="num">{w.oldValue}</td>
+                <td className="num">{w.newValue}</td>
               </tr>
-            ))}
+              );
+            })}
           </tbody>
         </table>
       </ScrollRegion>

@@ -4,6 +4,7 @@ import { getImport, type ImportRowView } from "@/db/queries/rate-book";
 import { formatMoney } from "@/lib/format/money";
 import { formatSetting } from "@/lib/format/rates";
 import { SETTING_BY_KEY, type SettingKey } from "@/lib/rate-book/fields";
+import { staffCategoryWords } from "@/lib/sponsor/categories";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { FinishImportForm } from "@/components/rate-book/finish-import-form";
@@ -13,6 +14,14 @@ import { ScrollRegion } from "@/components/scroll-region";
 export const metadata: Metadata = { title: "Rate-sheet preview" };
 
 const STATUS = { change: "Changes", add: "Adds", same: "Unchanged" } as const;
+const SECTION: Record<string, string> = { setting: "Rate or setting", fringe: "Fringe rate", procedure: "Procedure" };
+
+/** What a row sets, as the rate book names it: the setting's label, the staff category or the procedure. */
+function item(r: ImportRowView): string {
+  if (r.section === "setting") return SETTING_BY_KEY.get(r.key as SettingKey)?.label ?? r.name ?? r.key;
+  if (r.section === "fringe") return staffCategoryWords(r.key);
+  return r.name ? `${r.name} (${r.key})` : r.key;
+}
 
 /** A value as the rate book shows it: rates as percentages, money in dollars. */
 function shown(r: ImportRowView, v: string | null): string {
@@ -53,16 +62,13 @@ export default async function ImportPreviewPage({ params }: { params: Promise<{ 
       ) : null}
       <ScrollRegion className="card p-0" label="Changes the rate sheet would make">
         <table className="table">
-          <TableHead columns={["Row", "Section", "Key", { label: "Now", num: true }, { label: "From the sheet", num: true }, "Effect"]} />
+          <TableHead columns={["Row", "Section", "Item", { label: "Now", num: true }, { label: "From the sheet", num: true }, "Effect"]} />
           <tbody>
             {view.rows.map((r) => (
               <tr key={`${r.section}-${r.key}-${r.row}`}>
                 <td className="num">{r.row}</td>
-                <td>{r.section}</td>
-                <td>
-                  {r.key}
-                  {r.name ? <span className="block text-xs text-ink-soft">{r.name}</span> : null}
-                </td>
+                <td>{SECTION[r.section] ?? r.section}</td>
+                <td>{item(r)}</td>
                 <td className="num">{r.old === null && r.status === "add" ? "—" : shown(r, r.old)}</td>
                 <td className="num">{shown(r, r.value)}</td>
                 <td>

@@ -26,12 +26,11 @@ import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
 import { notFound } from "next/navigation";
+import { scenarioChangeWords } from "@/lib/studies/change-words";
 
 export const metadata: Metadata = { title: "Scenario" };
 
 /** The audit record's words, as a person says them. */
-const CHANGE_WORDS: Record<string, string> = { create: "created", update: "changed", recompute: "recomputed", regenerate: "regenerated", delete: "deleted", clone: "cloned", submit: "submitted", return: "returned", clear: "cleared", withdraw: "withdrew" };
-const FIELD_WORDS: Record<string, string> = { inputs: "the assumptions", name: "the name", justification: "the justification", rate_edition_id: "with another rate-book edition", state: "the review state" };
 
 const STATE_LABEL = { draft: "Draft", "in-review": "In review", returned: "Returned", cleared: "Cleared" } as const;
 
@@ -118,7 +117,12 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
           A newer rate-book edition, “{s.newerEdition.label}”, has been published. {editable ? "Recompute to cost this scenario with it." : "The figures here use the edition the scenario was costed with."}
         </p>
       ) : null}
-      {s.state === "cleared" ? <p className="notice">Cleared by the grants office and frozen. To change it, clone it into a new draft.</p> : null}
+      {s.state === "cleared" ? (
+        <p className="notice" data-testid="cleared-note">
+          {/* Only those who may clone are told to; the others learn who can. */}
+          Cleared by the grants office and frozen. {can(user, "scenario.edit", ctx) ? "To change it, clone it into a new draft." : "The study's investigator can make a new draft from it."}
+        </p>
+      ) : null}
       {s.recomputeNote ? (
         <p className="notice" data-testid="recompute-note">
           {s.recomputeNote}
@@ -218,9 +222,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         <ul className="mt-2 flex flex-col gap-1 text-sm">
           {changes.map((h, i) => (
             <li key={i}>
-              <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")}</span> · {h.who ?? "—"} · {CHANGE_WORDS[h.action] ?? h.action}
-              {h.field && h.field !== "study-settings" ? ` ${FIELD_WORDS[h.field] ?? h.field}` : ""}
-              {h.note ? `: ${h.note}` : ""}
+              <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")}</span> · {h.who ?? "—"} · {scenarioChangeWords(h)}
             </li>
           ))}
         </ul>
