@@ -6,14 +6,14 @@
 import { allocate, type TimelineResult } from "./timeline";
 
 /** Enrolled per site per month (site × month); rows sum to each site's enrolment, columns to the month's. */
-export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment">): number[][] {
+export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment" | "enrols">): number[][] {
   // Cluster designs: each site enrols what its clusters recruit.
   if (tl.clusterEnrolment) return tl.clusterEnrolment.bySite;
   const S = tl.activationMonths.length;
   const out = tl.activationMonths.map(() => tl.enrolledByMonth.map(() => 0));
   let turn = 0;
   tl.enrolledByMonth.forEach((n, m) => {
-    const active = tl.activationMonths.map((a, s) => (a <= m ? s : -1)).filter((s) => s >= 0);
+    const active = tl.activationMonths.map((a, s) => (a <= m && tl.enrols?.[s] !== false ? s : -1)).filter((s) => s >= 0);
     if (!active.length || n === 0) return;
     const each = Math.floor(n / active.length);
     let rest = n - each * active.length;

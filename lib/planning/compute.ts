@@ -138,6 +138,9 @@ export function costInputs(i: ScenarioInputs, study: StudyContext, arms: CostInp
       ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
       closeoutMonths: i.recruitment.closeoutMonths,
       ...(clusters !== undefined ? { clusters: { count: clusters, perSite: i.recruitment.clustersPerSite ?? 1 } } : {}),
+      ...(clusters === undefined && i.sites?.some((t) => t.startMonth !== undefined || t.enrols === false)
+        ? { siteStarts: i.sites.map((t) => ({ ...(t.startMonth !== undefined ? { startMonth: t.startMonth } : {}), enrols: t.enrols !== false })) }
+        : {}),
     },
     ...(clusters !== undefined ? { cluster: { setupCost: i.recruitment.clusterSetupCost, annualFee: i.recruitment.clusterAnnualFee } } : {}),
     visits: i.visits.map((v) => ({
