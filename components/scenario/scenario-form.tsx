@@ -654,8 +654,10 @@ export function ScenarioForm({
         <Section title="Costs: personnel" id="sec-personnel">
           {personnel.map((p, idx) => {
             const f = p.getFieldset();
+            const role = typeof f.role.value === "string" ? f.role.value.trim() : "";
             return (
-              <div key={p.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              // The group's name tells the error summary whose Base salary a message is about.
+              <div key={p.key} role="group" aria-label={`Person ${idx + 1}${role ? ` (${role})` : ""}`} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, c] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />
