@@ -12,7 +12,6 @@ import { DESIGN_NAMES, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names
 import type { Design } from "@/lib/power/schema";
 import { effectUnitOfDesign } from "@/lib/power/effect-units";
 import { DEFAULT_RATE_SHAPE } from "@/lib/forecast/defaults";
-import { percentToShare } from "@/lib/format/percent-input";
 import { ErrorSummary } from "../form/error-summary";
 import { snapshotField } from "../form/field-snapshot";
 import { keptSubmit } from "../form/kept-submit";
@@ -43,16 +42,6 @@ const SITE_ARRANGEMENT_OPTIONS = [
   ["subaward", "subaward: a subrecipient with its own indirects"],
   ["contract", "contract: a vendor paid per participant and visit"],
 ] as const;
-const ENROLS_OPTIONS = [
-  ["yes", "yes"],
-  ["no", "no: opened and paid, recruits nobody"],
-] as const;
-/** A typed share or percentage ("0.3", "30%") as a share, or null when it is not a number yet. */
-function readShare(v: unknown): number | null {
-  if (typeof v !== "string" || !v.trim()) return null;
-  const x = Number(percentToShare(v));
-  return Number.isFinite(x) ? x : null;
-}
 const COST_OPTIONS = COST_CATEGORIES.map((c) => [c, c] as const);
 
 const str = (v: unknown) => (v === undefined || v === null ? "" : String(v));
@@ -83,13 +72,7 @@ function toFormValues(i: ScenarioInputs) {
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", "), months: p.months ? { from: String(p.months.from), to: String(p.months.to) } : undefined })),
     other: i.other.map((o) => ({ ...strings(o), escalate: o.escalate ? "on" : "" })),
     procedureClasses: i.procedureClasses ?? [],
-    sites: (i.sites ?? []).map((t) => ({
-      arrangement: t.arrangement,
-      indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate),
-      foreign: t.foreign ? "on" : "",
-      startMonth: t.startMonth === undefined ? "" : String(t.startMonth),
-      enrols: t.enrols === false ? "no" : "yes",
-    })),
+    sites: (i.sites ?? []).map((t) => ({ arrangement: t.arrangement, indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate), foreign: t.foreign ? "on" : "" })),
     uncertainty: {
       rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
       effectPrior: {
