@@ -113,11 +113,6 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     // The coordinator's line says its months.
     await page.getByText(/^Cost lines/).click();
     await page.getByText("effort over study months 1–24").waitFor();
-    // Each quantity line says its count at the rate book's price (the period-1 price), as the routine-care lines do.
-    const visitLine = l.lines.find((x) => x.basis === "quantity" && x.unitCost !== undefined && x.quantities?.some((q) => q > 0))!;
-    const count = visitLine.quantities!.reduce((a, b) => a + b, 0);
-    const row = page.getByRole("row").filter({ hasText: visitLine.label }).first();
-    expect(await row.getByTestId("line-quantity").textContent()).toContain(`${Number(count.toFixed(2)).toLocaleString("en-US", { maximumFractionDigits: 2 })} at ${formatMoney(visitLine.unitCost)}`);
     await screenshot(page, "site-arrangements-saved-1440");
   });
 
