@@ -532,6 +532,11 @@ export function PowerCalculator() {
           </>
         ) : outcome.kind === "idle" ? (
           <p className="text-ink-soft">Working it out…</p>
+        ) : outcome.kind === "error" && !flagged.length && !unplaced.length && outcome.message ? (
+          // Every field is fine, and still no answer (no n up to the solver's limit reaches the power): say why here too.
+          <p className="text-ink-soft" data-testid="calc-no-answer">
+            No answer for these inputs: {outcome.message}
+          </p>
         ) : (
           <p className="text-ink-soft">The answer appears here once each field that says &ldquo;fill this in&rdquo; has a value.</p>
         )}

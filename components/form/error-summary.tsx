@@ -9,6 +9,15 @@ function labelOf(el: HTMLElement): string | null {
 }
 
 /**
+ * A label made whole by its row where rows repeat the same labels ("Person 2 (Research nurse), Base
+ * salary"): the row is the nearest group with an accessible name, unless the label already says it.
+ */
+function withRow(el: HTMLElement, label: string): string {
+  const row = el.closest<HTMLElement>("[role=group][aria-label]")?.getAttribute("aria-label")?.trim();
+  return row && label && !label.toLowerCase().startsWith(row.toLowerCase()) ? `${row}, ${label}` : label;
+}
+
+/**
  * Every refusal of a conform form, at its top: one line per message, and for a field's message a link
  * that moves focus to the field (where the same message sits beside it). A message for a field the page
  * does not show is still listed, without a link, so that nothing is ever refused unseen. Field ids are
@@ -19,15 +28,24 @@ export function ErrorSummary({ formId, errors }: { formId: string; errors: Recor
   const names = entries.map(([name]) => name).filter(Boolean).join("\n");
   // Which fields are on the page, and their labels: read after render, from the page itself.
   const [present, setPresent] = useState<Record<string, string | null>>({});
+  // The fields in the order the page shows them (the schema's order can differ from the form's).
+  const [order, setOrder] = useState<string[]>([]);
   useEffect(() => {
     const next: Record<string, string | null> = {};
+    const shown: [string, HTMLElement][] = [];
     for (const name of names ? names.split("\n") : []) {
       const el = document.getElementById(`${formId}-${name}`);
-      next[name] = el ? (labelOf(el) ?? "") : null;
+      next[name] = el ? withRow(el, labelOf(el) ?? "") : null;
+      if (el) shown.push([name, el]);
     }
+    shown.sort(([, a], [, b]) => (a.compareDocumentPosition(b) & Node.DOCUMENT_POSITION_FOLLOWING ? -1 : 1));
+    const nextOrder = shown.map(([n]) => n);
     setPresent((prev) => (JSON.stringify(prev) === JSON.stringify(next) ? prev : next));
+    setOrder((prev) => (prev.join("\n") === nextOrder.join("\n") ? prev : nextOrder));
   }, [formId, names]);
   if (!entries.length) return null;
+  const rank = (name: string) => (order.includes(name) ? order.indexOf(name) : name ? order.length : -1);
+  entries.sort(([a], [b]) => rank(a) - rank(b));
   const count = entries.reduce((k, [, m]) => k + m.length, 0);
   const focus = (name: string) => (event: MouseEvent<HTMLAnchorElement>) => {
     const el = document.getElementById(`${formId}-${name}`);
@@ -47,7 +65,11 @@ export function ErrorSummary({ formId, errors }: { formId: string; errors: Recor
             // A message already names its field, by the label or by its words before a unit or a note ("Expected effect (d)").
             const base = label?.split(/[(,]/)[0]!.trim().toLowerCase();
             const named = label && (message.toLowerCase().startsWith(label.toLowerCase()) || (base && message.toLowerCase().startsWith(base)));
-            const text = label && !named ? `${label}: ${message}` : message;
+            // A message named by part of the label ("Reason for the class: …" beside "Reason for the class 1"; "Base salary: …"
+            // in "Person 2, Base salary") takes the whole label once.
+            const head = message.includes(": ") ? message.slice(0, message.indexOf(": ")) : "";
+            const partly = label && !named && head && label.toLowerCase().includes(head.toLowerCase());
+            const text = label && partly ? `${label}${message.slice(head.length)}` : label && !named ? `${label}: ${message}` : message;
             return (
               <li key={`${name}-${k}`}>
                 {label === null ? (

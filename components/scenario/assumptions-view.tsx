@@ -4,6 +4,8 @@ import type { ReactNode } from "react";
 import { formatMoney } from "@/lib/format/money";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { designName, PROPORTIONS_METHOD_NAMES } from "@/lib/power/design-names";
+import { ASSUMPTION_FIELDS } from "@/lib/planning/assumption-fields";
+import { offersMargin } from "@/lib/planning/schema";
 import { FieldCommentBadge, ScenarioIdContext } from "./comments";
 import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
@@ -12,6 +14,10 @@ import { categoryWords, staffCategoryWords } from "@/lib/sponsor/categories";
 
 const pct = (v: number | undefined) => (v === undefined ? "—" : `${Math.round(v * 10000) / 100}%`);
 const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
+/** A row's label as the comment composer's "About" list says it (one field list for both). */
+const L = (field: string) => ASSUMPTION_FIELDS[field] ?? field;
+const HYPOTHESIS_WORDS: Record<string, string> = { superiority: "Superiority", "non-inferiority": "Non-inferiority (against a margin)", equivalence: "Equivalence (within a margin)" };
+const CLASS_WORDS: Record<string, string> = { research: "research cost", "patient-care": "patient care", "routine-care": "routine care billed to insurance" };
 
 function Row({ label, value, field }: { label: string; value: ReactNode; field?: string }) {
   return (
@@ -82,6 +88,27 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
                   <Row label="Control median (months)" value={num(d.controlMedian)} field="inputs.design.controlMedian" />
                   <Row label="Further follow-up (months)" value={num(d.followUpMonths)} field="inputs.design.followUpMonths" />
                   <Row label="Accrual months (from the recruitment plan)" value={num(d.accrualMonths)} />
+                </>
+              ) : null}
+              {offersMargin(design) ? <Row label={L("inputs.design.hypothesis")} value={HYPOTHESIS_WORDS[d.hypothesis ?? "superiority"] ?? d.hypothesis} field="inputs.design.hypothesis" /> : null}
+              {offersMargin(design) && d.hypothesis && d.hypothesis !== "superiority" ? (
+                <>
+                  <Row label={L("inputs.design.margin")} value={num(d.margin)} field="inputs.design.margin" />
+                  <Row label="How the margin was chosen" value={d.marginRationale || "—"} />
+                </>
+              ) : null}
+              {design === "two-means" ? (
+                <>
+                  <Row label={L("inputs.design.baselineCorrelation")} value={d.baselineCorrelation === undefined ? "none (no baseline adjustment)" : num(d.baselineCorrelation)} field="inputs.design.baselineCorrelation" />
+                  <Row label={L("inputs.design.followUps")} value={num(d.followUps ?? 1)} field="inputs.design.followUps" />
+                  {d.repeatedCorrelation !== undefined ? <Row label={L("inputs.design.repeatedCorrelation")} value={num(d.repeatedCorrelation)} field="inputs.design.repeatedCorrelation" /> : null}
+                  <Row label={L("inputs.design.arms")} value={d.arms === undefined ? "one (a two-arm trial)" : num(d.arms)} field="inputs.design.arms" />
+                  {d.arms !== undefined ? (
+                    <>
+                      <Row label={L("inputs.design.multiplicity")} value={d.multiplicity ?? "dunnett"} field="inputs.design.multiplicity" />
+                      <Row label={L("inputs.design.controlAllocation")} value={num(d.controlAllocation)} field="inputs.design.controlAllocation" />
+                    </>
+                  ) : null}
                 </>
               ) : null}
               <Row label="Where the target effect comes from" value={d.targetRationale || "—"} />
@@ -163,6 +190,55 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
                       <td className="num">{formatMoney(p.baseSalary)}</td>
                       <td className="num">{p.effortPercent.map((e) => `${e}%`).join(", ")}</td>
                       <td>{p.follows === "enrolment" ? "Recruitment and visits" : "The whole study"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
+          )}
+        </div>
+        <div>
+          <h3 className="text-base">
+            {L("inputs.sites")} <FieldCommentBadge field="inputs.sites" />
+          </h3>
+          {!inputs.sites?.length ? (
+            <p className="text-sm text-ink-soft">Every site takes the study&apos;s default arrangement.</p>
+          ) : (
+            <ScrollRegion label={L("inputs.sites")}>
+              <table className="table text-sm" data-testid="assumptions-sites">
+                <TableHead columns={["Site", "Arrangement", { label: "Subaward indirect rate", num: true }, "Foreign", { label: "Starts in month", num: true }, "Enrols participants"]} />
+                <tbody>
+                  {inputs.sites.map((t, k) => (
+                    <tr key={k}>
+                      <td>Site {k + 1}</td>
+                      <td>{t.arrangement}</td>
+                      <td className="num">{t.arrangement === "subaward" ? (t.indirectRate === undefined ? "15% (de minimis)" : pct(t.indirectRate)) : "—"}</td>
+                      <td>{t.arrangement === "subaward" && t.foreign ? "yes (at most 8%)" : "—"}</td>
+                      <td className="num">{t.startMonth ?? "start-up and stagger"}</td>
+                      <td>{t.enrols === false ? "no" : "yes"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
+          )}
+        </div>
+        <div>
+          <h3 className="text-base">
+            {L("inputs.procedureClasses")} <FieldCommentBadge field="inputs.procedureClasses" />
+          </h3>
+          {!inputs.procedureClasses?.length ? (
+            <p className="text-sm text-ink-soft">Every procedure takes the rate book&apos;s class.</p>
+          ) : (
+            <ScrollRegion label={L("inputs.procedureClasses")}>
+              <table className="table text-sm" data-testid="assumptions-classes">
+                <TableHead columns={["Procedure", "Class for this study", "Reason"]} />
+                <tbody>
+                  {inputs.procedureClasses.map((c, k) => (
+                    <tr key={k}>
+                      <td>{procedureNames[c.code] ? `${procedureNames[c.code]} (${c.code})` : c.code}</td>
+                      <td>{CLASS_WORDS[c.class] ?? c.class}</td>
+                      <td>{c.reason}</td>
                     </tr>
                   ))}
                 </tbody>

@@ -79,6 +79,21 @@ function RoutineCare({ ledger }: { ledger: ScenarioResults["ledger"] }) {
   );
 }
 
+/**
+ * Why a quantity line is what it is: its count at the rate book's price (the period-1 price; later periods
+ * escalate it, so the total is more than count × price when a line runs past period 1).
+ */
+function QuantityAtPrice({ line }: { line: LedgerLine }) {
+  const count = line.quantities!.reduce((a, b) => a + b, 0);
+  const later = line.quantities!.some((q, p) => p > 0 && q > 0) && Number(line.escalation) !== 0;
+  return (
+    <span className="block text-xs text-ink-soft" data-testid="line-quantity">
+      {fmt(count, 2)} at {formatMoney(line.unitCost)}
+      {later ? `, the period-1 price, escalated ${formatRate(line.escalation)} a year after` : ""}
+    </span>
+  );
+}
+
 /** Procedures this scenario classes differently from the rate book, with the investigator's reasons, for the grants office. */
 function ClassOverrides({ ledger }: { ledger: ScenarioResults["ledger"] }) {
   const changed = classOverridesOf(ledger);
@@ -260,6 +275,7 @@ export function ResultsPanel({ results, sponsorCap }: { results: ScenarioResults
                     {line.label}
                     {line.review === "one-off" ? <span className="badge badge-muted ml-1.5">review</span> : null}
                     {line.personnel?.span && line.basis === "salary" ? <span className="block text-xs text-ink-soft">effort over {line.personnel.span}</span> : null}
+                    {line.basis === "quantity" && line.unitCost !== undefined && line.quantities ? <QuantityAtPrice line={line} /> : null}
                   </td>
                   <td>{categoryWords(line.category)}</td>
                   <td className="num">{formatMoney(line.total)}</td>

@@ -229,8 +229,13 @@ function PlannedAnalysis({ d, design }: { d: AnalysisFields; design: Design }) {
           <Text meta={d.repeatedCorrelation} label="Correlation between follow-ups" hint="Compound symmetry, e.g. 0.6" />
           <Text meta={d.correlationSource} label="Where the correlations come from" wide />
           <Text meta={d.arms} label="Treatment arms" hint="Each compared with one control; empty for a two-arm trial" />
-          <Choice meta={d.multiplicity} label="Multiplicity adjustment" options={MULTIPLICITY_OPTIONS} />
-          <Text meta={d.controlAllocation} label="Control allocation" hint="Control participants per treatment participant; √k is a common choice" />
+          {/* A two-arm trial (Treatment arms empty) has one comparison: no multiplicity, no control allocation beyond the allocation ratio. */}
+          {Number(d.arms.value) >= 2 ? (
+            <>
+              <Choice meta={d.multiplicity} label="Multiplicity adjustment" options={MULTIPLICITY_OPTIONS} />
+              <Text meta={d.controlAllocation} label="Control allocation" hint="Control participants per treatment participant; √k is a common choice" />
+            </>
+          ) : null}
         </>
       ) : null}
     </div>
@@ -643,8 +648,10 @@ export function ScenarioForm({
         <Section title="Costs: personnel" id="sec-personnel">
           {personnel.map((p, idx) => {
             const f = p.getFieldset();
+            const role = typeof f.role.value === "string" ? f.role.value.trim() : "";
             return (
-              <div key={p.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
+              // The group's name tells the error summary whose Base salary a message is about.
+              <div key={p.key} role="group" aria-label={`Person ${idx + 1}${role ? ` (${role})` : ""}`} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Text meta={f.role} label="Role" />
                 <Choice meta={f.fringeCategory} label="Staff category" options={fringeCategories.map((c) => [c, staffCategoryWords(c)] as const)} />
                 <Text meta={f.baseSalary} label="Base salary" />

@@ -14,7 +14,7 @@ export function spanMonths(span: EffortSpan | undefined, tl: Pick<TimelineResult
     case "sites":
       return { from: Math.max(0, Math.min(...tl.activationMonths) - startupMonths), to: tl.studyMonths };
     case "enrolment":
-      return { from: tl.activationMonths[0]!, to: tl.lastVisitMonth + 1 };
+      return { from: Math.min(...tl.activationMonths), to: tl.lastVisitMonth + 1 };
     case "months": {
       // Given as study months 1..n, inclusive; months after the study are not charged.
       const from = Math.max(0, (given?.from ?? 1) - 1);

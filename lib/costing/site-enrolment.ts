@@ -6,7 +6,7 @@
 import type { TimelineResult } from "./timeline";
 
 /** Enrolled per site per month (site × month); rows sum to each site's enrolment, columns to the month's. */
-export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment">): number[][] {
+export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "enrolledByMonth" | "clusterEnrolment" | "enrols">): number[][] {
   // Cluster designs: each site enrols what its clusters recruit.
   if (tl.clusterEnrolment) return tl.clusterEnrolment.bySite;
   const S = tl.activationMonths.length;
@@ -21,7 +21,7 @@ export function enrolledBySite(tl: Pick<TimelineResult, "activationMonths" | "en
   for (let m = 0; m < M; m++) {
     const n = tl.enrolledByMonth[m]!;
     active.length = 0;
-    for (let s = 0; s < S; s++) if (tl.activationMonths[s]! <= m) active.push(s);
+    for (let s = 0; s < S; s++) if (tl.activationMonths[s]! <= m && tl.enrols?.[s] !== false) active.push(s);
     if (!active.length || n === 0) continue;
     const each = Math.floor(n / active.length);
     let rest = n - each * active.length;

@@ -18,6 +18,8 @@ export type Period = { index: number; startMonth: number; endMonth: number; mont
 export type TimelineResult = {
   /** Activation month of each site that enrols (sites planned to open after enrolment has finished are left out). */
   activationMonths: number[];
+  /** Whether each site in activationMonths enrols (false: opened and paid, recruits nobody); absent when all do. */
+  enrols?: boolean[];
   /** Sites asked for; more than activationMonths.length when some would open after enrolment has finished. */
   sitesPlanned: number;
   /** Cluster designs: enrolled per site per month (site × month) and each cluster's planned size. */
@@ -100,12 +102,16 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   if (t.sites < 1) throw new TimelineError("At least one site is needed.");
   if (!(t.ratePerSiteMonth > 0)) throw new TimelineError("The enrolment rate per site per month must be above 0.");
   if (t.clusters) return clusterTimeline(t as Timeline & { clusters: NonNullable<Timeline["clusters"]> }, enrolledTotal, lastVisitOffset, startDate);
-  const activationMonths = Array.from({ length: t.sites }, (_, i) => t.startupMonths + i * t.staggerMonths);
+  const starts = t.siteStarts ?? [];
+  const activationMonths = Array.from({ length: t.sites }, (_, i) => starts[i]?.startMonth ?? t.startupMonths + i * t.staggerMonths);
+  const enrolsAll = activationMonths.map((_, i) => starts[i]?.enrols !== false);
+  if (enrolledTotal > 0 && !enrolsAll.some(Boolean)) throw new TimelineError("No site enrols participants: set Enrols participants to yes for at least one site.");
   const enrolledByMonth: number[] = [];
   let cum = 0;
   let given = 0;
   let month = 0;
-  const sorted = [...activationMonths].sort((a, b) => a - b);
+  // Only the sites that enrol add to each month's enrolment.
+  const sorted = activationMonths.filter((_, i) => enrolsAll[i]).sort((a, b) => a - b);
   let active = 0;
   while (given < enrolledTotal) {
     if (month >= MAX_STUDY_MONTHS) {
@@ -120,7 +126,20 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   }
   // A site that would open after the last participant is enrolled never enrols: plan only the sites that do
   // (its start-up, fees and close-out would otherwise buy nothing). With nobody to enrol, the first site stays.
-  const enrolling = activationMonths.filter((a, i) => i === 0 || a < enrolledByMonth.length);
+  const late = activationMonths.map((a, i) => i !== 0 && a >= enrolledByMonth.length);
+  const lastKept = late.lastIndexOf(false);
+  // A site given its own start month after enrolment ends, or a late site before one that enrols, cannot be left
+  // out without shifting the sites' terms: refuse with the site's number instead.
+  const stray = late.findIndex((l, i) => l && (starts[i]?.startMonth !== undefined || i < lastKept));
+  if (stray >= 0) {
+    throw new TimelineError(
+      `Site ${stray + 1} starts in month ${activationMonths[stray]}, after enrolment ends (month ${enrolledByMonth.length - 1}): give it an earlier start month, or remove it.`,
+    );
+  }
+  const enrolling = activationMonths.filter((_, i) => !late[i]);
+  const enrols = enrolsAll.slice(0, enrolling.length);
+  const enrollingStarts = enrolling.filter((_, i) => enrols[i]);
+  const firstActive = enrollingStarts.length ? Math.min(...enrollingStarts) : activationMonths[0]!;
   const firstEnrolmentMonth = enrolledTotal > 0 ? enrolledByMonth.findIndex((n) => n > 0) : activationMonths[0]!;
   const lastEnrolmentMonth = Math.max(firstEnrolmentMonth, enrolledByMonth.length - 1);
   const lastVisitMonth = lastEnrolmentMonth + lastVisitOffset;
@@ -129,11 +148,12 @@ export function computeTimeline(t: Timeline, enrolledTotal: number, lastVisitOff
   if (studyMonths > MAX_STUDY_MONTHS) throw new TimelineError(`The study would run more than ${MAX_STUDY_MONTHS} months.`);
   return {
     activationMonths: enrolling,
+    ...(enrols.every(Boolean) ? {} : { enrols }),
     sitesPlanned: t.sites,
     enrolledByMonth,
     firstEnrolmentMonth,
     lastEnrolmentMonth,
-    monthsToEnrol: enrolledTotal > 0 ? lastEnrolmentMonth - activationMonths[0]! + 1 : 0,
+    monthsToEnrol: enrolledTotal > 0 ? lastEnrolmentMonth - firstActive + 1 : 0,
     lastVisitMonth,
     closeoutStartMonth,
     studyMonths,

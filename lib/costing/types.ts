@@ -107,7 +107,15 @@ export type Timeline = {
    * ⌈count / perSite⌉ and the enrolment rate is per cluster per month.
    */
   clusters?: { count: number; perSite: number };
+  /**
+   * Per-site starts, in site order (not for cluster designs): the month a site starts enrolling, counted from
+   * the study's start (else startupMonths + its place × staggerMonths), and whether it enrols at all (a site
+   * that never enrols is still opened, paid and closed out, and recruits nobody).
+   */
+  siteStarts?: SiteStart[];
 };
+
+export type SiteStart = { startMonth?: number; enrols?: boolean };
 
 export type PersonnelLine = {
   role: string;

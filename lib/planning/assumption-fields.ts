@@ -1,6 +1,11 @@
 import type { Design } from "@/lib/power/schema";
+import { offersMargin } from "./schema";
 
-/** The assumptions a comment may be tied to: the scenario form's field names, with their labels. */
+/**
+ * The assumptions a comment may be tied to: the scenario form's field names, with their labels. The
+ * read-only assumptions view labels its rows from here too, so that a comment's "About" and the row it
+ * is shown beside say the same.
+ */
 export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.design.design": "Design",
   "inputs.design.alpha": "Alpha",
@@ -16,6 +21,14 @@ export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.design.followUpMonths": "Further follow-up",
   "inputs.design.icc": "ICC",
   "inputs.design.clusterSize": "Cluster size",
+  "inputs.design.hypothesis": "Hypothesis",
+  "inputs.design.margin": "Margin",
+  "inputs.design.baselineCorrelation": "Baseline correlation",
+  "inputs.design.followUps": "Follow-up measurements",
+  "inputs.design.repeatedCorrelation": "Correlation between follow-ups",
+  "inputs.design.arms": "Treatment arms",
+  "inputs.design.multiplicity": "Multiplicity adjustment",
+  "inputs.design.controlAllocation": "Control allocation",
   "inputs.recruitment.sites": "Sites",
   "inputs.recruitment.ratePerSiteMonth": "Enrolment rate",
   "inputs.recruitment.attrition": "Attrition",
@@ -23,6 +36,8 @@ export const ASSUMPTION_FIELDS: Record<string, string> = {
   "inputs.recruitment.startupMonths": "Start-up months",
   "inputs.visits": "Visits and procedures",
   "inputs.personnel": "Staff and effort",
+  "inputs.sites": "Sites: how each is paid",
+  "inputs.procedureClasses": "Procedure classes",
   "inputs.other": "Other costs",
   "inputs.uncertainty.rateSpread": "Spread of enrolment rates between sites",
   "inputs.uncertainty.effectPrior.mean": "Expected effect",
@@ -40,7 +55,10 @@ const BY_DESIGN: Record<Design, string[]> = {
   "cluster-two-proportions": [...PROPORTIONS, ...CLUSTER],
   "time-to-event": ["inputs.design.hazardRatio", "inputs.design.controlMedian", "inputs.design.followUpMonths"],
 };
-const DESIGN_SPECIFIC = new Set(Object.values(BY_DESIGN).flat());
+/** The claim against a margin (designs that offer one) and the two-means analysis (baseline, repeated measures, several arms). */
+const MARGIN = ["inputs.design.hypothesis", "inputs.design.margin"];
+const TWO_MEANS_ANALYSIS = ["inputs.design.baselineCorrelation", "inputs.design.followUps", "inputs.design.repeatedCorrelation", "inputs.design.arms", "inputs.design.multiplicity", "inputs.design.controlAllocation"];
+const DESIGN_SPECIFIC = new Set([...Object.values(BY_DESIGN).flat(), ...MARGIN, ...TWO_MEANS_ANALYSIS]);
 
 /**
  * The fields a comment on a scenario of this design may be about: the shared ones and this design's
@@ -48,7 +66,7 @@ const DESIGN_SPECIFIC = new Set(Object.values(BY_DESIGN).flat());
  * its sites). In ASSUMPTION_FIELDS order.
  */
 export function assumptionFieldsFor(design: Design): Record<string, string> {
-  const own = new Set(BY_DESIGN[design] ?? []);
+  const own = new Set([...(BY_DESIGN[design] ?? []), ...(offersMargin(design) ? MARGIN : []), ...(design === "two-means" ? TWO_MEANS_ANALYSIS : [])]);
   const cluster = design.startsWith("cluster-");
   return Object.fromEntries(Object.entries(ASSUMPTION_FIELDS).filter(([k]) => (DESIGN_SPECIFIC.has(k) ? own.has(k) : !(cluster && k === "inputs.recruitment.sites"))));
 }

@@ -159,6 +159,10 @@ export function costInputsAt(i: ScenarioInputs, study: StudyContext): (arms: Cos
     ...(i.sites?.length ? { sites: i.sites.map((t) => ({ arrangement: t.arrangement, ...(t.indirectRate !== undefined ? { indirectRate: String(t.indirectRate) } : {}), foreign: t.foreign })) } : {}),
     ...(i.procedureClasses?.length ? { procedureClasses: i.procedureClasses } : {}),
   };
+  // Sites that start in their own month or never enrol (lib/costing/timeline.ts); none when every site follows the stagger.
+  const siteStarts = i.sites?.some((t) => t.startMonth !== undefined || t.enrols === false)
+    ? i.sites.map((t) => ({ ...(t.startMonth !== undefined ? { startMonth: t.startMonth } : {}), enrols: t.enrols !== false }))
+    : undefined;
   return (arms, sites, clusters) => ({
     startDate: study.startDate,
     arms,
@@ -169,6 +173,7 @@ export function costInputsAt(i: ScenarioInputs, study: StudyContext): (arms: Cos
       ratePerSiteMonth: i.recruitment.ratePerSiteMonth,
       closeoutMonths: i.recruitment.closeoutMonths,
       ...(clusters !== undefined ? { clusters: { count: clusters, perSite: i.recruitment.clustersPerSite ?? 1 } } : {}),
+      ...(clusters === undefined && siteStarts ? { siteStarts } : {}),
     },
     ...(clusters !== undefined ? { cluster: { setupCost: i.recruitment.clusterSetupCost, annualFee: i.recruitment.clusterAnnualFee } } : {}),
     ...fixed,

@@ -12,7 +12,6 @@ const DESIGN_LABELS: Record<string, string> = {
   sides: "Sides",
   power: "Target power",
   allocationRatio: "Allocation ratio (n2 / n1)",
-  effectInput: "Give the effect as",
   effectSize: "Standardized effect d",
   meanDifference: "Target mean difference",
   sd: "Outcome SD",
@@ -44,12 +43,26 @@ const RECRUITMENT_LABELS: Record<string, string> = {
 
 const same = (a: unknown, b: unknown) => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
 
+/**
+ * The standardized effect a means design uses: d as given, or |difference| ÷ SD. How the effect is
+ * given is a choice of the form: it is a change only when it changes the effect itself.
+ */
+function effectUsed(d: ScenarioInputs["design"]): number | null {
+  const input = d.effectInput ?? (d.meanDifference === undefined && d.effectSize !== undefined ? "d" : "difference");
+  if (input === "d") return d.effectSize ?? null;
+  return d.meanDifference !== undefined && d.sd ? Math.abs(d.meanDifference) / d.sd : null;
+}
+
 /** The labels of the assumptions that differ, in the form's order; empty when nothing did. */
 export function changedInputs(before: ScenarioInputs, after: ScenarioInputs): string[] {
   const out: string[] = [];
   const b = before.design as Record<string, unknown>;
   const a = after.design as Record<string, unknown>;
-  for (const [key, label] of Object.entries(DESIGN_LABELS)) if (!same(b[key], a[key])) out.push(label);
+  for (const [key, label] of Object.entries(DESIGN_LABELS)) {
+    if (!same(b[key], a[key])) out.push(label);
+    // After the outcome SD: a switch between the difference and d that changes the effect used, though no typed value did.
+    if (key === "sd" && !same(effectUsed(before.design), effectUsed(after.design)) && !["effectSize", "meanDifference", "sd"].some((k) => !same(b[k], a[k]))) out.push("Give the effect as");
+  }
   const br = before.recruitment as Record<string, unknown>;
   const ar = after.recruitment as Record<string, unknown>;
   for (const [key, label] of Object.entries(RECRUITMENT_LABELS)) if (!same(br[key], ar[key])) out.push(label);

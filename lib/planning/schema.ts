@@ -178,6 +178,16 @@ export const siteTermsSchema = z.object({
   arrangement: z.enum(SITE_ARRANGEMENTS, { error: "Site arrangement: choose internal, subaward, or contract." }),
   indirectRate: opt(asShare(n("Subaward indirect rate").min(0, "Subaward indirect rate: from 0 to 1, like 0.15 or 15%.").max(1, "Subaward indirect rate: from 0 to 1, like 0.15 or 15%."))),
   foreign: z.preprocess((v) => v === "on" || v === true || v === "true", z.boolean()).default(false),
+  /** The month the site starts enrolling, from the study's start; empty: start-up plus its place in the stagger. */
+  startMonth: opt(
+    n("Starts in month")
+      .int("Starts in month: a whole number of months from the study's start, like 9.")
+      .min(0, "Starts in month: a whole number from 0 to 240, like 9.")
+      .max(240, "Starts in month: a whole number from 0 to 240, like 9."),
+  ),
+  /** false: the site is opened and paid but recruits nobody (a site that never enrols); a site enrols unless told (kept absent then). */
+  enrols: z
+    .preprocess((v) => (v === "no" || v === false || v === "false" ? false : v === "yes" || v === true || v === "true" || v === "" || v === null ? undefined : v), z.boolean({ error: "Enrols participants: choose yes or no." }).optional()),
 });
 
 /** A scenario's own class for a rate-book procedure, with the reason the grants office reads. */

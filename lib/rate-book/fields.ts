@@ -62,7 +62,8 @@ const decimalCore = (label: string, max: number, places: number) =>
   z
     .string()
     .regex(new RegExp(`^\\d{1,12}(\\.\\d{1,${places}})?$`), `${label}: enter a number with at most ${places} decimals, with no sign.`)
-    .refine((s) => Number(s) <= max, `${label} must be at most ${max.toLocaleString("en-US")}.`);
+    // Text that is no number gets the regex's message alone.
+    .refine((s) => !(Number(s) > max), `${label} must be at most ${max.toLocaleString("en-US")}.`);
 
 const decimalText = (label: string, max: number, places: number) =>
   z
@@ -82,7 +83,8 @@ const rateText = (label: string) =>
       z
         .string()
         .regex(/^\d{1,12}(\.\d{1,6})?$/, `${label}: enter a percentage like 56.5% (at most 4 decimals) or a share like 0.565, with no sign.`)
-        .refine((s) => Number(s) <= 1, `${label} must be at most 100%; type a percentage with its % sign, like 57.5%.`),
+        // Only a number above 1 gets this message (text that is no number has the regex's); "57.5" without its sign lands here too.
+        .refine((s) => !(Number(s) > 1), `${label}: from 0% to 100%; type a percentage like 57.5% or a share like 0.575.`),
     );
 
 /** Validates one setting's value, as typed or imported; returns the stored text. */

@@ -58,6 +58,6 @@ export type EditionPatch = z.infer<typeof editionPatchSchema>;
 
 export const newDraftSchema = z.object({
   label: z.string({ error: "Enter a label." }).trim().min(2, "Enter a label, like 2028 rates.").max(80, "Use at most 80 characters."),
-  effectiveDate: z.iso.date({ error: "Effective from: enter the date as YYYY-MM-DD, like 2028-01-01." }),
+  effectiveDate: z.iso.date({ error: "Effective from: choose a whole date (day, month and year) in the date box." }),
   basedOn: z.coerce.number({ error: "Start from: choose an edition from the list." }).int().positive("Start from: choose an edition from the list.").optional(),
 });

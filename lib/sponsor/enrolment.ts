@@ -62,7 +62,9 @@ const share = (label: string) =>
 
 /** One group of proportions that must add up to 100%. */
 function group(title: string, names: readonly string[]) {
-  return z.array(share(title), { error: `${title}: enter a percentage for each category.` }).length(names.length).superRefine((xs, ctx) => {
+  // Each cell's message names the cell as the table labels it ("Female (Sex)"), not only its group.
+  const cells = names.map((n) => share(`${n} (${title})`));
+  return z.tuple(cells as [(typeof cells)[number], ...(typeof cells)[number][]], { error: `${title}: enter a percentage for each category.` }).superRefine((xs, ctx) => {
     const sum = xs.reduce((a, b) => a + b, 0);
     if (Math.abs(sum - 1) > 0.0005) ctx.addIssue({ code: "custom", message: `${title}: the percentages add up to ${Number((sum * 100).toFixed(2))}%; make them add up to 100%.` });
   });

@@ -143,9 +143,10 @@ export const studySettingsSchema = z.object({
     z.preprocess(
       (v) => percentToShare(typeof v === "string" ? v.trim() : v),
       z
-        .string({ error: "F&A limit: enter a percentage like 10% or a share like 0.1." })
-        .regex(/^\d+(\.\d{1,6})?$/, "F&A limit: enter a percentage like 10% or a share like 0.1.")
-        .refine((s) => Number(s) <= 1, "F&A limit: at most 100%; type the % sign, like 10%."),
+        .string({ error: "F&A limit (share of the base): enter a percentage like 10% or a share like 0.1." })
+        .regex(/^\d+(\.\d{1,6})?$/, "F&A limit (share of the base): enter a percentage like 10% or a share like 0.1.")
+        // Not a number is the regex's one message; only a number above 1 gets this one.
+        .refine((s) => !(Number(s) > 1), "F&A limit (share of the base): from 0% to 100%; type a percentage like 10% or a share like 0.1."),
     ),
   ),
   faExcluded: z.preprocess((v) => (v === undefined || v === "" ? [] : Array.isArray(v) ? v : [v]), z.array(z.enum(COST_CATEGORIES, { error: "No F&A on: choose categories from the list." })).max(COST_CATEGORIES.length)),

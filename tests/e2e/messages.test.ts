@@ -63,4 +63,27 @@ describe("messages beside their fields", () => {
     await screenshot(page, "scenario-name-empty-390");
     await page.close();
   });
+
+  it("the error summary names each field once and whose it is: the person's Base salary, the class's reason", async () => {
+    const page = await pageAs(browser, baseUrl, "pi@demo.test", { width: 1440 });
+    await page.getByRole("link", { name: /Walking Better/ }).click();
+    await page.getByRole("link", { name: "New scenario" }).click();
+    await page.waitForURL(/\/scenarios\/new$/);
+    await page.getByLabel("Scenario name").fill("Messages: whose field");
+    await page.getByRole("button", { name: "Add a person" }).click();
+    const people = page.getByRole("group", { name: /^Person \d+/ });
+    const k = await people.count();
+    const person = people.nth(k - 1);
+    await person.getByLabel("Role").fill("Data manager");
+    await person.getByLabel("Base salary").fill("lots");
+    await page.getByRole("button", { name: "Class a procedure differently" }).click();
+    await page.getByRole("button", { name: "Create scenario" }).click();
+    const summary = page.getByTestId("error-summary");
+    await summary.getByRole("link", { name: `Person ${k} (Data manager), Base salary: enter dollars, like 1200 or 1,200.50.` }).waitFor();
+    await summary.getByRole("link", { name: "Reason for the class 1: say why this study classes it differently." }).waitFor();
+    expect(await summary.getByText(/Reason for the class 1: Reason for the class/).count()).toBe(0);
+    expect(await person.getByLabel("Base salary").inputValue()).toBe("lots");
+    await screenshot(page, "scenario-summary-whose-1440");
+    await page.close();
+  });
 });

@@ -57,7 +57,7 @@ describe("the grants officer's rate-book journey", () => {
     await fa.getByText("As a percentage (57.5%) or a share (0.575)").waitFor();
     await fa.getByLabel("New value for F&A rate").fill("57.5");
     await fa.getByRole("button", { name: "Save" }).click();
-    await fa.getByText("type a percentage with its % sign, like 57.5%").waitFor();
+    await fa.getByText("from 0% to 100%; type a percentage like 57.5% or a share like 0.575").waitFor();
     await fa.getByLabel("New value for F&A rate").fill("57.5%");
     await fa.getByRole("button", { name: "Save" }).click();
     await page.getByTestId("value-faRate").filter({ hasText: "57.5%" }).waitFor();

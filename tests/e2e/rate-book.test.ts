@@ -27,7 +27,7 @@ describe("the grants officer keeps the rate book", () => {
     const fa = page.getByTestId("edit-faRate");
     await fa.getByLabel("New value for F&A rate").fill("1.4");
     await fa.getByRole("button", { name: "Save" }).click();
-    await fa.getByText("F&A rate must be at most 100%").waitFor();
+    await fa.getByText("F&A rate: from 0% to 100%").waitFor();
     expect(await fa.getByLabel("New value for F&A rate").inputValue()).toBe("1.4");
     await fa.getByLabel("New value for F&A rate").fill("0.575");
     await fa.getByRole("button", { name: "Save" }).click();

@@ -60,6 +60,13 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     await page.getByRole("textbox", { name: /^Site 1 subaward indirect rate/ }).fill("26%");
     await page.getByRole("textbox", { name: /^Site 3 subaward indirect rate/ }).fill("30%");
     await sites.getByRole("checkbox").nth(2).check();
+    // Multiplicity and control allocation mean something only with 2 or more treatment arms.
+    expect(await page.getByRole("combobox", { name: "Multiplicity adjustment" }).count()).toBe(0);
+    await page.getByRole("textbox", { name: /^Treatment arms/ }).fill("3");
+    await page.getByRole("combobox", { name: "Multiplicity adjustment" }).waitFor();
+    await page.getByRole("textbox", { name: /^Control allocation/ }).waitFor();
+    await page.getByRole("textbox", { name: /^Treatment arms/ }).fill("");
+    await page.getByRole("combobox", { name: "Multiplicity adjustment" }).waitFor({ state: "detached" });
 
     // The coordinator (the third person) over study months 1–24.
     await page.getByRole("combobox", { name: "Effort runs" }).nth(2).selectOption("months");
@@ -118,6 +125,13 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     expect(await note.textContent()).toContain("patient care → research cost");
     expect(await note.textContent()).toContain("Two extra views for the study's own reading; not standard of care");
     await grants.getByTestId("consortium-fa").waitFor();
+    // The read-only assumptions list the sites' arrangements and the procedure classed differently, with its reason.
+    const siteRows = await grants.getByTestId("assumptions-sites").textContent();
+    expect(siteRows).toContain("26%");
+    expect(siteRows).toContain("yes (at most 8%)");
+    expect(await grants.getByTestId("assumptions-classes").textContent()).toContain("Two extra views for the study's own reading; not standard of care");
+    await grants.getByRole("heading", { name: /^Sites: how each is paid/ }).waitFor();
+    await grants.getByRole("heading", { name: /^Procedure classes/ }).waitFor();
     await grants.close();
   });
 

@@ -66,7 +66,7 @@ describe("the study's settings and sponsor rules", () => {
     // A limit above 100% is refused with the field's name and what to type; the title typed stays.
     await textField(pi, "F&A limit").fill("150");
     await pi.getByRole("button", { name: "Save the study's settings" }).click();
-    await pi.getByRole("alert").filter({ hasText: "F&A limit: at most 100%; type the % sign, like 10%." }).first().waitFor();
+    await pi.getByRole("alert").filter({ hasText: "F&A limit (share of the base): from 0% to 100%; type a percentage like 10% or a share like 0.1." }).first().waitFor();
     expect(await textField(pi, "Title").inputValue()).toBe(`${STUDY.title}, revised`);
     await textField(pi, "F&A limit").fill("");
     await pi.getByRole("button", { name: "Save the study's settings" }).click();

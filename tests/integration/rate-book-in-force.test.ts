@@ -136,7 +136,7 @@ describe("the edition in force decides the costing", () => {
       params({ editionId: String(id) }),
     );
     expect(tooMuch.status).toBe(400);
-    expect(JSON.stringify(await tooMuch.json())).toContain("type a percentage with its % sign, like 57.5%");
+    expect(JSON.stringify(await tooMuch.json())).toContain("from 0% to 100%; type a percentage like 57.5% or a share like 0.575");
   });
 });
 

@@ -224,7 +224,7 @@ describe("importing a rate sheet", () => {
     expect(res.status).toBe(201);
     const { import: view } = await res.json();
     expect([...new Set(view.errors.map((e: { row: number }) => e.row))]).toEqual([2, 3, 4, 5, 6]);
-    expect(view.errors[0].message).toMatch(/F&A rate must be at most 100%/);
+    expect(view.errors[0].message).toMatch(/F&A rate: from 0% to 100%/);
     const commit = commitImport(grants(), view.id);
     await expect(commit).rejects.toMatchObject({ status: 422 });
     expect((await getEdition(grants(), id)).settings).toEqual(before);

@@ -12,6 +12,7 @@ import { dropoutAttendance } from "@/lib/costing/families/participants";
 import { describeSpan, spanMonths } from "@/lib/costing/effort-span";
 import { clusterDifference, computeScenario, costInputs } from "@/lib/planning/compute";
 import { clusterEnrolment } from "@/lib/costing/clusters";
+import { enrolledBySite } from "@/lib/costing/site-enrolment";
 import { generateJustification } from "@/lib/planning/justification";
 import { sponsorBudget } from "@/lib/sponsor/budget";
 import { DEMO_SCENARIOS, demoRateBook } from "@/scripts/demo-data";
@@ -278,6 +279,38 @@ describe("sites that never enrol", () => {
       expect(x.quantities?.length ?? l.periods.length).toBe(l.periods.length);
       for (const a of x.amounts) expect(a).toMatch(/^-?\d+\.\d\d$/);
     }
+  });
+});
+
+describe("a site that starts late, or never enrols (per-site starts; worked by hand)", () => {
+  // Two sites open at once, 10 a month each, 40 to enrol: together 20 a month, months 0–1.
+  const base = { sites: 2, startupMonths: 0, staggerMonths: 0, ratePerSiteMonth: 10, closeoutMonths: 0 };
+  it("a site given a later start month enrols from then on", () => {
+    expect(computeTimeline(base, 40, 0, "2027-01-01").enrolledByMonth).toEqual([20, 20]);
+    // Site 2 starts in month 2: months 0 and 1 only site 1 (10, 10); month 2 both (20): 40 in 3 months.
+    const tl = computeTimeline({ ...base, siteStarts: [{}, { startMonth: 2 }] }, 40, 0, "2027-01-01");
+    expect(tl.activationMonths).toEqual([0, 2]);
+    expect(tl.enrolledByMonth).toEqual([10, 10, 20]);
+    expect(tl.monthsToEnrol).toBe(3);
+    expect(enrolledBySite(tl)).toEqual([
+      [10, 10, 10],
+      [0, 0, 10],
+    ]);
+  });
+  it("a site that never enrols is opened and paid but recruits nobody", () => {
+    // Site 1 alone: 10 a month, 40 in months 0–3; both sites' start-up is charged.
+    const tl = computeTimeline({ ...base, siteStarts: [{}, { enrols: false }] }, 40, 0, "2027-01-01");
+    expect(tl.enrolledByMonth).toEqual([10, 10, 10, 10]);
+    expect(tl.enrols).toEqual([true, false]);
+    expect(enrolledBySite(tl)[1]).toEqual([0, 0, 0, 0]);
+    const l = computeLedger({ ...ONE_SITE, arms: [{ evaluable: 40, enrolled: 40, screened: 40 }], timeline: { ...base, siteStarts: [{}, { enrols: false }] } }, FLAT);
+    expect(l.counts.sites).toBe(2);
+    expect(line(l, "site-startup").quantities).toEqual([2]); // 2 × $5,000 start-up
+    expect(line(l, "site-startup").total).toBe("10000.00");
+  });
+  it("refuses a start month after enrolment ends, and a plan where no site enrols, with the site's number", () => {
+    expect(() => computeTimeline({ ...base, siteStarts: [{}, { startMonth: 10 }] }, 40, 0, "2027-01-01")).toThrow(/Site 2 starts in month 10, after enrolment ends \(month 3\)/);
+    expect(() => computeTimeline({ ...base, siteStarts: [{ enrols: false }, { enrols: false }] }, 40, 0, "2027-01-01")).toThrow(/No site enrols participants/);
   });
 });
 

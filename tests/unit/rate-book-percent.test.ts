@@ -19,9 +19,12 @@ describe("rates typed as percentages in the rate book", () => {
   it("a number above 1 without a % sign is refused with what to type", () => {
     const r = fa.safeParse("57.5");
     expect(r.success).toBe(false);
-    expect(r.error!.issues[0]!.message).toBe("F&A rate must be at most 100%; type a percentage with its % sign, like 57.5%.");
+    expect(r.error!.issues[0]!.message).toBe("F&A rate: from 0% to 100%; type a percentage like 57.5% or a share like 0.575.");
     expect(fa.safeParse("120%").success).toBe(false);
     expect(fa.safeParse("-5%").error!.issues[0]!.message).toMatch(/^F&A rate: enter a percentage like 56\.5%/);
+    // "150%" typed with its sign: the allowed range, and one message; "ten": one message, not a range as well.
+    expect(fa.safeParse("150%").error!.issues.map((x) => x.message)).toEqual(["F&A rate: from 0% to 100%; type a percentage like 57.5% or a share like 0.575."]);
+    expect(fa.safeParse("ten").error!.issues).toHaveLength(1);
     expect(fa.safeParse("12.34567%").success).toBe(false); // more than 4 decimals as a percentage
   });
   it("rate sheets accept percentages too", async () => {

@@ -23,6 +23,33 @@ describe("the fields a comment may be about", () => {
   });
 });
 
+describe("what changed since a scenario was returned", () => {
+  it("how the effect is given is no change unless the effect used changed (a resubmit with only Attrition changed)", () => {
+    // Stored before the choice existed (no effectInput), saved again by the form ("difference"): only Attrition differs.
+    const { effectInput: _e, ...design } = base.design;
+    const before = { ...base, design };
+    const after = { ...base, design: { ...base.design, effectInput: "difference" as const }, recruitment: { ...base.recruitment, attrition: 0.2 } };
+    expect(changedInputs(before, after)).toEqual(["Attrition"]);
+    // Switching to d with a stored d that differs from difference ÷ SD changes the effect: then it is named.
+    const md = { ...base.design, effectInput: "difference" as const, meanDifference: 5, sd: 10, effectSize: 0.4 };
+    expect(changedInputs({ ...base, design: md }, { ...base, design: { ...md, effectInput: "d" as const } })).toEqual(["Give the effect as"]);
+    expect(changedInputs({ ...base, design: md }, { ...base, design: { ...md, effectInput: "d" as const, effectSize: 0.5 } })).toEqual(["Standardized effect d"]);
+  });
+});
+
+describe("the fields a comment may be about, for the planned analysis and the costing choices", () => {
+  it("cover hypothesis and margin, the two-means analysis, site arrangements and procedure classes", () => {
+    const means = Object.values(assumptionFieldsFor("two-means"));
+    expect(means).toEqual(
+      expect.arrayContaining(["Hypothesis", "Margin", "Baseline correlation", "Follow-up measurements", "Correlation between follow-ups", "Treatment arms", "Multiplicity adjustment", "Control allocation", "Sites: how each is paid", "Procedure classes"]),
+    );
+    const props = Object.values(assumptionFieldsFor("two-proportions"));
+    expect(props).toEqual(expect.arrayContaining(["Hypothesis", "Margin", "Sites: how each is paid"]));
+    expect(props).not.toContain("Baseline correlation");
+    expect(Object.values(assumptionFieldsFor("cluster-two-means"))).not.toContain("Margin");
+  });
+});
+
 describe("adopting a planner answer", () => {
   it("the cheapest design fixes its sites and drops the deadline it already meets", () => {
     const out = adoptCheapest({ ...base, recruitment: { ...base.recruitment, maxEnrolmentMonths: 24 } }, { best: { sites: 4, n1: 100, n2: 100, total: "1.00", monthsToEnrol: 20 }, alternatives: [] });

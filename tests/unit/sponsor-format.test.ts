@@ -112,6 +112,12 @@ describe("planned enrolment: largest remainder", () => {
     expect(r.success).toBe(false);
     expect(r.error!.issues[0]!.message).toBe("Sex: the percentages add up to 90%; make them add up to 100%.");
   });
+  it("a cell that is no percentage, or out of range, is named as the table labels it", () => {
+    const r = enrolmentPlanSchema.safeParse({ sex: ["sixty", "40"], ethnicity: ["-10", "110"], race: ["0", "0", "0", "0", "100", "0"] });
+    const msgs = r.error!.issues.map((i) => i.message);
+    expect(msgs).toContain("Female (Sex): enter a percentage, like 40%.");
+    expect(msgs).toContain("Not Hispanic or Latino (Ethnicity): from 0% to 100%.");
+  });
 });
 
 describe("the budget justification", () => {

@@ -151,8 +151,11 @@ describe("the study's settings", () => {
     const r = studySettingsSchema.safeParse({ updatedAt: "x", title: "A study", sponsor: "Fund", startDate: "2027-01-01", siteArrangement: "internal", faLocation: "on-campus", faCapRate: "150%", projectMonths: "five" });
     expect(r.success).toBe(false);
     const msgs = r.error!.issues.map((i) => i.message);
-    expect(msgs).toContain("F&A limit: at most 100%; type the % sign, like 10%.");
+    expect(msgs).toContain("F&A limit (share of the base): from 0% to 100%; type a percentage like 10% or a share like 0.1.");
     expect(msgs.some((m) => m.startsWith("Project length (months)"))).toBe(true);
+    // Text that is no number: one message, naming the field as labelled (not a range as well).
+    const ten = studySettingsSchema.safeParse({ updatedAt: "x", title: "A study", sponsor: "Fund", startDate: "2027-01-01", siteArrangement: "internal", faLocation: "on-campus", faCapRate: "ten" });
+    expect(ten.error!.issues.map((i) => i.message)).toEqual(["F&A limit (share of the base): enter a percentage like 10% or a share like 0.1."]);
     const ok = studySettingsSchema.parse({ updatedAt: "x", title: "A study", sponsor: "Fund", startDate: "2027-01-01", siteArrangement: "subaward", faLocation: "off-campus", faCapRate: "8%", faExcluded: "travel", modular: "on" });
     expect(ok).toMatchObject({ faCapRate: "0.08", faExcluded: ["travel"], modular: true, priorApproval: false });
   });
@@ -167,6 +170,6 @@ describe("the rate book's off-campus F&A rate (a setting the grants office may l
     expect(schema.parse("")).toBeNull();
     const bad = schema.safeParse("126%");
     expect(bad.success).toBe(false);
-    expect(bad.error!.issues[0]!.message).toMatch(/^F&A rate, off-campus must be at most 100%/);
+    expect(bad.error!.issues[0]!.message).toMatch(/^F&A rate, off-campus: from 0% to 100%/);
   });
 });
