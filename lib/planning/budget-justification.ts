@@ -49,7 +49,7 @@ export function siteArrangementWords(l: ScenarioResults["ledger"]): string {
   const subawards = l.lines.filter((x) => x.site?.arrangement === "subaward").length;
   const internal = n - contracts - subawards;
   const all = `${n} site${n === 1 ? "" : "s"}`;
-  if (internal === n) return `${all}, paid as the institution's own lines (internal)`;
+  if (internal === n) return `${all}, all paid as the institution's own lines`;
   if (contracts === n) return `${all}, each under a services contract`;
   if (subawards === n) return `${all}, each a subaward`;
   const parts = [

@@ -136,7 +136,7 @@ describe("the budget justification", () => {
     expect(text).toContain(`total $${sb.cumulative.total.toLocaleString("en-US")}`);
     expect(text).not.toMatch(/site-fees|participant-support|\bundefined\b|NaN/);
     // Words, not codes: no site arrangement code, no period tag like "P4:".
-    expect(text).toContain("paid as the institution's own lines: ");
+    expect(text).toContain("6 sites: 3 internal (the institution's own lines), 3 subawards; the internal sites' costs: ");
     expect(text).not.toMatch(/\(internal\)|\bP\d+:/);
   });
   it("describes the sites as the ledger pays them: demo scenario one's 6 sites with site 2 a contract are 2 internal, 1 under a services contract, 3 subawards", () => {
@@ -145,14 +145,14 @@ describe("the budget justification", () => {
     const mixed = computeScenario({ ...inputs, sites }, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
     const t = generateBudgetJustification({ ...inputs, sites }, mixed);
     expect(t).toContain("6 sites: 2 internal (the institution's own lines), 1 under a services contract, 3 subawards; the internal sites' costs: Site start-up fees");
-    expect(t).not.toContain("paid as the institution's own lines (internal)");
+    expect(t).not.toContain("all paid as the institution's own lines");
     // The contract site's line sits with the subawards on the contractual line, never on a services line.
     expect(t).toMatch(/Subawards, consortium and contractual costs: [^\n]*Contract, site 2: per-participant, per-visit and site payments[^\n]*Subaward, site 4/);
     expect(t).toMatch(/Computer and data services: [^\n]*\$44,740 in total\. Data platform licence/);
   });
   it("all-internal sites say so; a sponsor's F&A limit names the institution's rate it limits (56.5% limited to 10%)", () => {
     const internal = computeScenario({ ...inputs, sites: undefined }, rates, { startDate: "2027-01-01", sponsorCap: "2500000" });
-    expect(generateBudgetJustification({ ...inputs, sites: undefined }, internal)).toContain("6 sites, paid as the institution's own lines (internal)");
+    expect(generateBudgetJustification({ ...inputs, sites: undefined }, internal)).toContain("6 sites, all paid as the institution's own lines; ");
     const study = { startDate: "2027-01-01", sponsorCap: "2500000", rules: { faCapRate: "0.10" } };
     const limited = computeScenario(inputs, rates, study as Parameters<typeof computeScenario>[2]);
     const t = generateBudgetJustification(inputs, limited);
