@@ -11,6 +11,7 @@ import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
 import { formatPower } from "@/lib/format/power";
 import { categoryWords, staffCategoryWords } from "@/lib/sponsor/categories";
+import { arrangementWords } from "@/lib/studies/rules";
 
 const pct = (v: number | undefined) => (v === undefined ? "—" : `${Math.round(v * 10000) / 100}%`);
 const num = (v: number | undefined) => (v === undefined ? "—" : String(v));
@@ -36,6 +37,27 @@ function Row({ label, value, field }: { label: string; value: ReactNode; field?:
  * office, co-investigators, finance) or while it cannot be changed (in review, cleared). Labels follow
  * the scenario form; the badge beside a value counts the open comments about it.
  */
+/** A titled table of one assumption (visits, staff, sites…), with its comment badge, or a sentence when it is empty. */
+function TableBlock({ title, field, empty, testId, columns, children }: { title: string; field: string; empty: string | null; testId: string; columns: Parameters<typeof TableHead>[0]["columns"]; children: ReactNode }) {
+  return (
+    <div>
+      <h3 className="text-base">
+        {title} <FieldCommentBadge field={field} />
+      </h3>
+      {empty !== null ? (
+        <p className="text-sm text-ink-soft">{empty}</p>
+      ) : (
+        <ScrollRegion label={title}>
+          <table className="table text-sm" data-testid={testId}>
+            <TableHead columns={columns} />
+            <tbody>{children}</tbody>
+          </table>
+        </ScrollRegion>
+      )}
+    </div>
+  );
+}
+
 export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenarioId: number; inputs: ScenarioInputs; procedureNames: Record<string, string> }) {
   const d = inputs.design;
   const r = inputs.recruitment;
@@ -144,132 +166,62 @@ export function AssumptionsView({ scenarioId, inputs, procedureNames }: { scenar
             </dl>
           </div>
         </div>
-        <div>
-          <h3 className="text-base">
-            Visits and procedures <FieldCommentBadge field="inputs.visits" />
-          </h3>
-          {inputs.visits.length === 0 ? (
-            <p className="text-sm text-ink-soft">No visits.</p>
-          ) : (
-            <ScrollRegion label="Visits and procedures">
-              <table className="table text-sm" data-testid="assumptions-visits">
-                <TableHead columns={["Visit", { label: "Month", num: true }, "Procedures"]} />
-                <tbody>
-                  {inputs.visits.map((v, k) => (
-                    <tr key={k}>
-                      <td>{v.name}</td>
-                      <td className="num">{v.month}</td>
-                      <td>
-                        {[
-                          ...v.procedures.map((c) => (procedureNames[c] ? `${procedureNames[c]} (${c})` : c)),
-                          ...(v.oneOffProcedures ?? []).map((o) => `${o.name}: ${formatMoney(o.cost)} (one-off, not in the rate book)`),
-                        ].join("; ") || "—"}
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </ScrollRegion>
-          )}
-        </div>
-        <div>
-          <h3 className="text-base">
-            Staff and effort <FieldCommentBadge field="inputs.personnel" />
-          </h3>
-          {inputs.personnel.length === 0 ? (
-            <p className="text-sm text-ink-soft">No staff.</p>
-          ) : (
-            <ScrollRegion label="Staff and effort">
-              <table className="table text-sm" data-testid="assumptions-staff">
-                <TableHead columns={["Role", "Staff category", { label: "Base salary", num: true }, { label: "Effort by budget period", num: true }, "Effort runs"]} />
-                <tbody>
-                  {inputs.personnel.map((p, k) => (
-                    <tr key={k}>
-                      <td>{p.role}</td>
-                      <td>{staffCategoryWords(p.fringeCategory)}</td>
-                      <td className="num">{formatMoney(p.baseSalary)}</td>
-                      <td className="num">{p.effortPercent.map((e) => `${e}%`).join(", ")}</td>
-                      <td>{p.follows === "enrolment" ? "Recruitment and visits" : "The whole study"}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </ScrollRegion>
-          )}
-        </div>
-        <div>
-          <h3 className="text-base">
-            {L("inputs.sites")} <FieldCommentBadge field="inputs.sites" />
-          </h3>
-          {!inputs.sites?.length ? (
-            <p className="text-sm text-ink-soft">Every site takes the study&apos;s default arrangement.</p>
-          ) : (
-            <ScrollRegion label={L("inputs.sites")}>
-              <table className="table text-sm" data-testid="assumptions-sites">
-                <TableHead columns={["Site", "Arrangement", { label: "Subaward indirect rate", num: true }, "Foreign", { label: "Starts in month", num: true }, "Enrols participants"]} />
-                <tbody>
-                  {inputs.sites.map((t, k) => (
-                    <tr key={k}>
-                      <td>Site {k + 1}</td>
-                      <td>{t.arrangement}</td>
-                      <td className="num">{t.arrangement === "subaward" ? (t.indirectRate === undefined ? "15% (de minimis)" : pct(t.indirectRate)) : "—"}</td>
-                      <td>{t.arrangement === "subaward" && t.foreign ? "yes (at most 8%)" : "—"}</td>
-                      <td className="num">{t.startMonth ?? "start-up and stagger"}</td>
-                      <td>{t.enrols === false ? "no" : "yes"}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </ScrollRegion>
-          )}
-        </div>
-        <div>
-          <h3 className="text-base">
-            {L("inputs.procedureClasses")} <FieldCommentBadge field="inputs.procedureClasses" />
-          </h3>
-          {!inputs.procedureClasses?.length ? (
-            <p className="text-sm text-ink-soft">Every procedure takes the rate book&apos;s class.</p>
-          ) : (
-            <ScrollRegion label={L("inputs.procedureClasses")}>
-              <table className="table text-sm" data-testid="assumptions-classes">
-                <TableHead columns={["Procedure", "Class for this study", "Reason"]} />
-                <tbody>
-                  {inputs.procedureClasses.map((c, k) => (
-                    <tr key={k}>
-                      <td>{procedureNames[c.code] ? `${procedureNames[c.code]} (${c.code})` : c.code}</td>
-                      <td>{CLASS_WORDS[c.class] ?? c.class}</td>
-                      <td>{c.reason}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </ScrollRegion>
-          )}
-        </div>
-        <div>
-          <h3 className="text-base">
-            Other costs <FieldCommentBadge field="inputs.other" />
-          </h3>
-          {inputs.other.length === 0 ? (
-            <p className="text-sm text-ink-soft">No other costs.</p>
-          ) : (
-            <ScrollRegion label="Other costs">
-              <table className="table text-sm" data-testid="assumptions-other">
-                <TableHead columns={["Item", "Category", { label: "Per budget period", num: true }, "Escalated"]} />
-                <tbody>
-                  {inputs.other.map((o, k) => (
-                    <tr key={k}>
-                      <td>{o.label}</td>
-                      <td>{categoryWords(o.category)}</td>
-                      <td className="num">{formatMoney(o.perPeriod)}</td>
-                      <td>{o.escalate ? "Yes" : "No"}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </ScrollRegion>
-          )}
-        </div>
+        <TableBlock title="Visits and procedures" field="inputs.visits" empty={inputs.visits.length === 0 ? "No visits." : null} testId="assumptions-visits" columns={["Visit", { label: "Month", num: true }, "Procedures"]}>
+          {inputs.visits.map((v, k) => (
+            <tr key={k}>
+              <td>{v.name}</td>
+              <td className="num">{v.month}</td>
+              <td>
+                {[
+                  ...v.procedures.map((c) => (procedureNames[c] ? `${procedureNames[c]} (${c})` : c)),
+                  ...(v.oneOffProcedures ?? []).map((o) => `${o.name}: ${formatMoney(o.cost)} (one-off, not in the rate book)`),
+                ].join("; ") || "—"}
+              </td>
+            </tr>
+          ))}
+        </TableBlock>
+        <TableBlock title="Staff and effort" field="inputs.personnel" empty={inputs.personnel.length === 0 ? "No staff." : null} testId="assumptions-staff" columns={["Role", "Staff category", { label: "Base salary", num: true }, { label: "Effort by budget period", num: true }, "Effort runs"]}>
+          {inputs.personnel.map((p, k) => (
+            <tr key={k}>
+              <td>{p.role}</td>
+              <td>{staffCategoryWords(p.fringeCategory)}</td>
+              <td className="num">{formatMoney(p.baseSalary)}</td>
+              <td className="num">{p.effortPercent.map((e) => `${e}%`).join(", ")}</td>
+              <td>{p.follows === "enrolment" ? "Recruitment and visits" : "The whole study"}</td>
+            </tr>
+          ))}
+        </TableBlock>
+        <TableBlock title={L("inputs.sites")} field="inputs.sites" empty={!inputs.sites?.length ? "Every site takes the study's default arrangement." : null} testId="assumptions-sites" columns={["Site", "Arrangement", { label: "Subaward indirect rate", num: true }, "Foreign", { label: "Starts in month", num: true }, "Enrols participants"]}>
+          {(inputs.sites ?? []).map((t, k) => (
+            <tr key={k}>
+              <td>Site {k + 1}</td>
+              <td>{arrangementWords(t.arrangement)}</td>
+              <td className="num">{t.arrangement === "subaward" ? (t.indirectRate === undefined ? "15% (de minimis)" : pct(t.indirectRate)) : "—"}</td>
+              <td>{t.arrangement === "subaward" && t.foreign ? "yes (at most 8%)" : "—"}</td>
+              <td className="num">{t.startMonth ?? "start-up and stagger"}</td>
+              <td>{t.enrols === false ? "no" : "yes"}</td>
+            </tr>
+          ))}
+        </TableBlock>
+        <TableBlock title={L("inputs.procedureClasses")} field="inputs.procedureClasses" empty={!inputs.procedureClasses?.length ? "Every procedure takes the rate book's class." : null} testId="assumptions-classes" columns={["Procedure", "Class for this study", "Reason"]}>
+          {(inputs.procedureClasses ?? []).map((c, k) => (
+            <tr key={k}>
+              <td>{procedureNames[c.code] ? `${procedureNames[c.code]} (${c.code})` : c.code}</td>
+              <td>{CLASS_WORDS[c.class] ?? c.class}</td>
+              <td>{c.reason}</td>
+            </tr>
+          ))}
+        </TableBlock>
+        <TableBlock title="Other costs" field="inputs.other" empty={inputs.other.length === 0 ? "No other costs." : null} testId="assumptions-other" columns={["Item", "Category", { label: "Per budget period", num: true }, "Escalated"]}>
+          {inputs.other.map((o, k) => (
+            <tr key={k}>
+              <td>{o.label}</td>
+              <td>{categoryWords(o.category)}</td>
+              <td className="num">{formatMoney(o.perPeriod)}</td>
+              <td>{o.escalate ? "Yes" : "No"}</td>
+            </tr>
+          ))}
+        </TableBlock>
       </section>
     </ScenarioIdContext>
   );

@@ -90,7 +90,8 @@ export function settingsFingerprint(s: StudySettings): string {
   ]);
 }
 
-const ARRANGEMENT_LABEL: Record<SiteArrangement, string> = { internal: "internal (the institution's own clinics)", subaward: "subaward (subrecipients)", contract: "contract (vendors paid per participant or visit)" };
+/** A site arrangement in words, as the settings change list and the read-only assumptions say it. */
+export const ARRANGEMENT_LABEL: Record<SiteArrangement, string> = { internal: "internal (the institution's own clinics)", subaward: "subaward (subrecipients)", contract: "contract (vendors paid per participant or visit)" };
 const LOCATION_LABEL: Record<FaLocation, string> = { "on-campus": "on-campus", "off-campus": "off-campus" };
 
 /** What changed between two settings, in words, for the recomputed scenarios and the history. Empty when nothing that costs changed. */
@@ -163,3 +164,5 @@ export function rulesFromInput(v: StudySettingsInput): StoredRules {
     faExcluded: [...new Set(v.faExcluded)],
   };
 }
+
+export const arrangementWords = (a: SiteArrangement): string => ARRANGEMENT_LABEL[a];
