@@ -74,7 +74,13 @@ function toFormValues(i: ScenarioInputs) {
     personnel: i.personnel.map((p) => ({ ...p, effortPercent: p.effortPercent.join(", "), months: p.months ? { from: String(p.months.from), to: String(p.months.to) } : undefined })),
     other: i.other.map((o) => ({ ...strings(o), escalate: o.escalate ? "on" : "" })),
     procedureClasses: i.procedureClasses ?? [],
-    sites: (i.sites ?? []).map((t) => ({ arrangement: t.arrangement, indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate), foreign: t.foreign ? "on" : "" })),
+    sites: (i.sites ?? []).map((t) => ({
+      arrangement: t.arrangement,
+      indirectRate: t.indirectRate === undefined ? "" : String(t.indirectRate),
+      foreign: t.foreign ? "on" : "",
+      startMonth: t.startMonth === undefined ? "" : String(t.startMonth),
+      enrols: t.enrols === false ? "no" : "yes",
+    })),
     uncertainty: {
       rateSpread: i.uncertainty?.rateSpread === undefined ? "" : `${Number((i.uncertainty.rateSpread * 100).toFixed(4))}%`,
       effectPrior: {
@@ -683,17 +689,24 @@ export function ScenarioForm({
             return (
               <div key={t.key} className="grid grid-cols-1 items-end gap-3 border-b border-rule pb-3 sm:grid-cols-3">
                 <Choice meta={f.arrangement} label={`Site ${idx + 1} arrangement`} options={SITE_ARRANGEMENT_OPTIONS} />
-                <Text meta={f.indirectRate} label={`Site ${idx + 1} subaward indirect rate`} hint="subawards only, like 15%" />
-                <label className="flex items-center gap-1.5 pb-2 text-sm">
-                  <input {...getInputProps(snapshotField(f.foreign), { type: "checkbox" })} key={f.foreign.key} /> foreign (indirects at most 8%)
-                </label>
+                {/* A subaward's own indirect rate and the foreign limit mean nothing for an internal or contract site. */}
+                {f.arrangement.value === "subaward" ? (
+                  <>
+                    <Text meta={f.indirectRate} label={`Site ${idx + 1} subaward indirect rate`} hint="like 15%; a foreign subaward is costed at 8% at most where the sponsor says so" />
+                    <label className="flex items-center gap-1.5 pb-2 text-sm">
+                      <input {...getInputProps(snapshotField(f.foreign), { type: "checkbox" })} key={f.foreign.key} /> foreign (indirects at most 8%)
+                    </label>
+                  </>
+                ) : null}
+                <Text meta={f.startMonth} label={`Site ${idx + 1} starts in month`} hint="empty: start-up plus its place in the stagger" />
+                <Choice meta={f.enrols} label={`Site ${idx + 1} enrols participants`} options={[["yes", "yes"], ["no", "no: opened and paid, recruits nobody"]]} />
                 <button {...form.remove.getButtonProps({ name: i.sites.name, index: idx })} className="btn btn-danger justify-self-start py-1">
                   Remove
                 </button>
               </div>
             );
           })}
-          <button {...form.insert.getButtonProps({ name: i.sites.name, defaultValue: { arrangement: "subaward", indirectRate: "", foreign: "" } })} className="btn btn-quiet self-start">
+          <button {...form.insert.getButtonProps({ name: i.sites.name, defaultValue: { arrangement: "subaward", indirectRate: "", foreign: "", startMonth: "", enrols: "yes" } })} className="btn btn-quiet self-start">
             Add a site&apos;s arrangement
           </button>
         </Section>

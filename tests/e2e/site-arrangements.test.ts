@@ -185,4 +185,53 @@ describe("site arrangements, effort spans and procedure classes on the scenario 
     expect(text).toMatch(/Subawards, consortium and contractual costs: [^\n]*Subaward, site 1[^\n]*Contract, site 2/);
     await screenshot(page, "site-arrangements-contract-1440");
   });
+
+  it("subaward-only fields follow the arrangement; site 3 starts late and site 2 never enrols; the months and the total follow (the engine's, worked by hand in costing-rules)", { timeout: 180_000 }, async () => {
+    await page.goto(copyUrl);
+    await page.getByTestId("result-total").waitFor();
+    // A contract site (site 2, from the step before) has no subaward rate and no foreign box; a subaward (site 3) has both.
+    expect(await page.getByRole("textbox", { name: /^Site 2 subaward indirect rate/ }).count()).toBe(0);
+    await page.getByRole("textbox", { name: /^Site 3 subaward indirect rate/ }).waitFor();
+    const { inputs, expected: before } = stored(idOf(copyUrl));
+    const study = (() => {
+      const db = new Database(databasePath, { readonly: true });
+      const r = db.prepare("SELECT s.rate_edition_id, st.start_date, st.sponsor_cap FROM scenarios s JOIN studies st ON st.id = s.study_id WHERE s.id = ?").get(idOf(copyUrl)) as { rate_edition_id: number; start_date: string; sponsor_cap: string | null };
+      db.close();
+      return r;
+    })();
+    const expectedFor = (sites: ScenarioInputs["sites"]) => computeScenario({ ...inputs, sites }, demoRateBook(study.rate_edition_id), { startDate: study.start_date, sponsorCap: study.sponsor_cap });
+    // Site 3 would open at start-up + 2 × the stagger; three months later instead.
+    const late = inputs.recruitment.startupMonths + 2 * inputs.recruitment.staggerMonths + 3;
+    const box = page.getByRole("textbox", { name: /^Site 3 starts in month/ });
+    // What is no month is refused by name, and the figures say they are out of date.
+    await box.fill("ten");
+    await page.getByTestId("results-status").filter({ hasText: "Starts in month" }).waitFor();
+    await box.fill(String(late));
+    const lateSites = inputs.sites!.map((t, k) => (k === 2 ? { ...t, startMonth: late } : t));
+    const afterLate = expectedFor(lateSites);
+    expect(afterLate.ledger.timeline.activationMonths[2]).toBe(late);
+    expect(afterLate.ledger.timeline.monthsToEnrol).toBeGreaterThanOrEqual(before.ledger.timeline.monthsToEnrol);
+    await waitForText(page.getByTestId("result-total"), formatMoney(afterLate.ledger.totals.total));
+
+    // Site 2 is opened and paid but recruits nobody: still three sites costed, the other two take longer.
+    await page.getByRole("combobox", { name: "Site 2 enrols participants" }).selectOption("no");
+    const neverSites = lateSites.map((t, k) => (k === 1 ? { ...t, enrols: false } : t));
+    const afterNever = expectedFor(neverSites);
+    expect(afterNever.ledger.counts.sites).toBe(3);
+    expect(afterNever.ledger.timeline.monthsToEnrol).toBeGreaterThan(afterLate.ledger.timeline.monthsToEnrol);
+    await waitForText(page.getByTestId("result-total"), formatMoney(afterNever.ledger.totals.total));
+    await screenshot(page, "site-starts-preview-1440");
+
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Saved, with its results.").waitFor();
+    const saved = stored(idOf(copyUrl));
+    expect(saved.inputs.sites![1]).toMatchObject({ arrangement: "contract", enrols: false });
+    expect(saved.inputs.sites![2]).toMatchObject({ arrangement: "subaward", startMonth: late });
+    expect(saved.expected.ledger.totals.total).toBe(afterNever.ledger.totals.total);
+    await waitForText(page.getByTestId("result-total"), formatMoney(saved.expected.ledger.totals.total));
+    // After a reload the form shows what was saved.
+    await page.reload();
+    expect(await page.getByRole("textbox", { name: /^Site 3 starts in month/ }).inputValue()).toBe(String(late));
+    expect(await page.getByRole("combobox", { name: "Site 2 enrols participants" }).inputValue()).toBe("no");
+  });
 });
