@@ -8,6 +8,7 @@ import { studentQuantile } from "@/lib/power/distributions";
 import { dunnettCritical } from "@/lib/power/multivariate-t";
 import { restrictedMle } from "@/lib/power/designs/proportions-margin";
 import { normalQuantile } from "@/lib/power/special";
+import { marginSurvivalPowerFromEvents, type MarginSurvivalSettings } from "@/lib/power/designs/survival-margin";
 
 const TRIALS = 2000;
 
@@ -181,6 +182,50 @@ describe("seeded simulation: empirical power within 3 SE of the analytic power",
       const pt = binom(0.5);
       const se = Math.sqrt((pc * (1 - pc)) / n + (pt * (1 - pt)) / n);
       return (pt - pc + 0.1) / se > z && (pt - pc - 0.1) / se < -z;
+    });
+  });
+
+  // Time to event: every participant followed to the event (no censoring), so the events are the participants and the
+  // planned test is the Wald test of the log hazard ratio, its variance 1/D₁ + 1/D₀ (Schoenfeld's 4/D at 1:1). Exponential
+  // times, control hazard 1; the hazard ratio's estimate is the ratio of events per unit of time in each arm.
+  const logHazardRatio = (r: ReturnType<typeof rng>, perArm: number, hr: number) => {
+    let t0 = 0;
+    let t1 = 0;
+    for (let i = 0; i < perArm; i++) {
+      t0 += -Math.log(r.unif());
+      t1 += -Math.log(r.unif()) / hr;
+    }
+    return { est: Math.log(t0 / t1), se: Math.sqrt(2 / perArm) };
+  };
+  const agreesWith = (analytic: number, simulate: () => boolean) => {
+    let hits = 0;
+    for (let i = 0; i < TRIALS; i++) if (simulate()) hits++;
+    const empirical = hits / TRIALS;
+    const se = Math.sqrt((analytic * (1 - analytic)) / TRIALS);
+    expect(Math.abs(empirical - analytic), `analytic ${analytic.toFixed(4)}, simulated ${empirical.toFixed(4)}`).toBeLessThan(3 * se);
+  };
+  it("non-inferiority of time to event: 400 events, true hazard ratio 0.95, margin 1.3, one-sided 0.025", () => {
+    const r = rng(9);
+    const settings = { alpha: 0.025, allocationRatio: 1, hypothesis: "non-inferiority" } as MarginSurvivalSettings;
+    // By hand: √(400 × ¼) × (ln 1.3 − ln 0.95) − 1.96 = 10 × 0.31366 − 1.95996 = 1.1767 → power 0.880.
+    const analytic = marginSurvivalPowerFromEvents(0.95, 1.3, 400, settings);
+    expect(analytic).toBeCloseTo(0.8803, 3);
+    const z = normalQuantile(0.975);
+    agreesWith(analytic, () => {
+      const { est, se } = logHazardRatio(r, 200, 0.95);
+      return est + z * se < Math.log(1.3);
+    });
+  });
+  it("equivalence of time to event: 600 events, true hazard ratio 1, margin 1.3 (and 1/1.3), 0.05 each side", () => {
+    const r = rng(10);
+    const settings = { alpha: 0.05, allocationRatio: 1, hypothesis: "equivalence" } as MarginSurvivalSettings;
+    // By hand: √150 × ln 1.3 − 1.645 = 3.2132 − 1.6449 = 1.5683 → each side 0.9416, both 0.883.
+    const analytic = marginSurvivalPowerFromEvents(1, 1.3, 600, settings);
+    expect(analytic).toBeCloseTo(0.8832, 3);
+    const z = normalQuantile(0.95);
+    agreesWith(analytic, () => {
+      const { est, se } = logHazardRatio(r, 300, 1);
+      return est + z * se < Math.log(1.3) && est - z * se > -Math.log(1.3);
     });
   });
 });
