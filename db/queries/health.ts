@@ -19,8 +19,9 @@ export async function databaseAnswers(timeoutMs = HEALTH_TIMEOUT_MS): Promise<bo
   const timedOut = new Promise<false>((resolve) => {
     timer = setTimeout(() => resolve(false), timeoutMs);
   });
-  const answered = sql`select 1`
-    .execute(getDb())
+  // getDb() itself throws when the database cannot be opened at all (a SQLite file on a lost disk): that is a no too.
+  const answered = Promise.resolve()
+    .then(() => sql`select 1`.execute(getDb()))
     .then(() => true)
     .catch(() => false);
   try {
