@@ -89,6 +89,6 @@ describe("recomputing with a newer rate-book edition", () => {
     await pi.getByText(/· version 2$/).waitFor();
     expect(await pi.getByText(/A newer rate-book edition/).count()).toBe(0);
     // The change list says what happened, in words.
-    expect(await pi.locator("body").textContent()).toContain("recomputed");
+    expect(await pi.locator("body").textContent()).toContain("recalculated it with another rate-book edition");
   });
 });

@@ -215,7 +215,7 @@ describe("the seeded cluster scenario and shares typed as percentages", () => {
 
   it("types 20% for screen failure: the preview and the saved figures use 0.2", async () => {
     await openStudy(demoUrl);
-    await page.getByRole("link", { name: "Three sites, longer enrolment" }).click();
+    await page.getByRole("link", { name: "Three sites, longer enrolment", exact: true }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     const enrolled = page.getByTestId("result-enrolled");
     await enrolled.waitFor();

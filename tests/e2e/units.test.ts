@@ -129,7 +129,7 @@ describe("the budget table's total is in view without scrolling on a desktop scr
       };
       // The demo study's three-site scenario (four periods), in the investigator's form.
       await page.getByRole("link", { name: /Walking Better/ }).click();
-      await page.getByRole("link", { name: "Three sites, longer enrolment" }).click();
+      await page.getByRole("link", { name: "Three sites, longer enrolment", exact: true }).click();
       await check("Three sites, longer enrolment (form)");
       await screenshot(page, `units-budget-three-sites-${width}`);
       // The seven-period proportions scenario.
@@ -141,7 +141,7 @@ describe("the budget table's total is in view without scrolling on a desktop scr
       const coi = await browser.newPage({ viewport: { width, height: 900 } });
       await signIn(coi, baseUrl, "coi@demo.test");
       await coi.getByRole("link", { name: /Walking Better/ }).click();
-      await coi.getByRole("link", { name: "Three sites, longer enrolment" }).click();
+      await coi.getByRole("link", { name: "Three sites, longer enrolment", exact: true }).click();
       await coi.getByTestId("budget-grand-total").first().waitFor();
       const v = await inView(coi, "budget-grand-total");
       expect(v.scrollWidth, "read-only: the table scrolls sideways").toBeLessThanOrEqual(v.clientWidth);
