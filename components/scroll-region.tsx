@@ -18,7 +18,16 @@ export function ScrollRegion({ label, className = "", children, testId }: { labe
     const ro = new ResizeObserver(check);
     ro.observe(el);
     for (const child of Array.from(el.children)) ro.observe(child);
-    return () => ro.disconnect();
+    // Inside a closed <details> the browser skips the region's layout and its observer stays silent,
+    // so a width change made while it was closed is measured again when the window resizes or a
+    // details element opens (measured: a slow-enrolment table left unreachable at 390 px).
+    window.addEventListener("resize", check);
+    document.addEventListener("toggle", check, true);
+    return () => {
+      ro.disconnect();
+      window.removeEventListener("resize", check);
+      document.removeEventListener("toggle", check, true);
+    };
   }, []);
   return (
     <div

@@ -57,7 +57,7 @@ async function closeUp(p: Page, l: Locator, name: string, below = 0): Promise<vo
 describe("procedures on a visit", () => {
   it("adds a rate-book procedure with the picker, typing part of its name", async () => {
     await page.getByRole("link", { name: /Walking Better/ }).click();
-    await page.getByRole("link", { name: SCENARIO }).click();
+    await page.getByRole("link", { name: SCENARIO, exact: true }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     url = page.url();
     await page.getByTestId("result-total").waitFor();

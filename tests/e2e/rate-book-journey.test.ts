@@ -171,8 +171,14 @@ describe("the grants officer's rate-book journey", () => {
     const phone = await pageAs(browser, baseUrl, "grants@demo.test", { width: 390 });
     await phone.goto(`${baseUrl}/rate-book`);
     await phone.getByTestId("in-force-summary").waitFor();
-    expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await screenshot(phone, "rate-book-list-390");
+    const wide = await phone.evaluate(() =>
+      Array.from(document.querySelectorAll<HTMLElement>("body *"))
+        .filter((el) => el.getBoundingClientRect().right > 391)
+        .slice(0, 5)
+        .map((el) => `${el.tagName}.${el.className}: ${el.textContent?.slice(0, 60)}`),
+    );
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth), wide.join("\n")).toBeLessThanOrEqual(390);
     await phone.goto(scheduledUrl.replace(/\?.*$/, ""));
     await phone.getByTestId("standing").waitFor();
     await screenshot(phone, "rate-book-scheduled-390");

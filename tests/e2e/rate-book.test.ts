@@ -43,9 +43,11 @@ describe("the grants officer keeps the rate book", () => {
   it("the change history shows who changed what", async () => {
     await page.goto(`${baseUrl}/rate-book/audit`);
     const audit = page.getByTestId("audit");
-    await audit.getByText("faRate").first().waitFor();
-    expect(await audit.textContent()).toContain("0.575");
-    expect(await audit.textContent()).toContain("publish");
+    // In a grants officer's words (lib/rate-book/audit-words.ts): the field's label, the rate as a percentage.
+    await audit.getByText("F&A rate").first().waitFor();
+    expect(await audit.textContent()).toContain("57.5%");
+    expect(await audit.textContent()).toContain("Published");
+    expect(await audit.textContent()).not.toContain("faRate");
     await screenshot(page, "rate-book-audit");
   });
 
