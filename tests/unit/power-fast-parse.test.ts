@@ -1,4 +1,4 @@
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
 import { powerInputSchema } from "@/lib/power";
 import { fastParse } from "@/lib/power/fast-parse";
 
@@ -62,6 +62,14 @@ const RELEVANT: Record<string, string[]> = {
 const REQUIRED = ["p1", "clusterSize", "icc", "controlMedian", "accrualMonths", "followUpMonths"];
 const DESIGNS = ["two-means", "one-mean", "two-proportions", "cluster-two-means", "cluster-two-proportions", "time-to-event", "other"];
 
+const COMMON = [
+  { design: "two-means", effectSize: 0.5, n1: 40 },
+  { design: "two-means", meanDifference: 3, sd: 6, power: 0.8, alpha: 0.01, sides: 1 },
+  { design: "two-proportions", p1: 0.3, p2: 0.45, n1: 100 },
+  { design: "time-to-event", hazardRatio: 0.75, controlMedian: 12, accrualMonths: 24, followUpMonths: 12, power: 0.8 },
+  { design: "two-means", hypothesis: "non-inferiority", effectSize: 0, margin: 0.5, power: 0.8 },
+];
+
 describe("solve()'s fast validation path agrees with the zod schema", () => {
   it("on 30,000 seeded random inputs: whatever the fast path accepts, zod accepts with the same result; it never accepts what zod refuses", () => {
     const next = rng(16);
@@ -94,14 +102,23 @@ describe("solve()'s fast validation path agrees with the zod schema", () => {
     expect(refused).toBeGreaterThan(1000);
   });
   it("accepts the common shapes", () => {
-    for (const input of [
-      { design: "two-means", effectSize: 0.5, n1: 40 },
-      { design: "two-means", meanDifference: 3, sd: 6, power: 0.8, alpha: 0.01, sides: 1 },
-      { design: "two-proportions", p1: 0.3, p2: 0.45, n1: 100 },
-      { design: "time-to-event", hazardRatio: 0.75, controlMedian: 12, accrualMonths: 24, followUpMonths: 12, power: 0.8 },
-      { design: "two-means", hypothesis: "non-inferiority", effectSize: 0, margin: 0.5, power: 0.8 },
-    ]) {
-      expect(fastParse(input), JSON.stringify(input)).toEqual(powerInputSchema.parse(input));
+    for (const input of COMMON) expect(fastParse(input), JSON.stringify(input)).toEqual(powerInputSchema.parse(input));
+  });
+  it("where the runtime forbids generating code (a strict CSP), copies a template instead: the same values in the same key order", async () => {
+    vi.resetModules();
+    vi.stubGlobal("Function", function refused() {
+      throw new EvalError("Code generation from strings disallowed for this context");
+    });
+    try {
+      const { fastParse: withoutCodegen } = await import("@/lib/power/fast-parse");
+      for (const input of COMMON) {
+        const out = withoutCodegen(input);
+        expect(out, JSON.stringify(input)).toEqual(powerInputSchema.parse(input));
+        expect(Object.keys(out!)).toEqual(Object.keys(fastParse(input)!));
+      }
+    } finally {
+      vi.unstubAllGlobals();
+      vi.resetModules();
     }
   });
 });
