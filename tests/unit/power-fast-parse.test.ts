@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from "vitest";
-import { powerInputSchema } from "@/lib/power";
+import { powerInputSchema, solve } from "@/lib/power";
 import { fastParse } from "@/lib/power/fast-parse";
 
 /** A seeded generator (mulberry32), so that a failure can be replayed. */
@@ -119,6 +119,20 @@ describe("solve()'s fast validation path agrees with the zod schema", () => {
     } finally {
       vi.unstubAllGlobals();
       vi.resetModules();
+    }
+  });
+});
+
+describe("solve()'s direct path for power at a given size and d", () => {
+  it("gives the fields and values of the general path (the same call with the effect as a difference of SD 1)", () => {
+    for (let i = 0; i < 300; i++) {
+      const d = 0.1 + (i % 29) / 20;
+      const base = { design: "two-means" as const, n1: 5 + ((i * 13) % 400), alpha: [0.05, 0.01][i % 2]!, sides: (i % 3 ? 2 : 1) as 1 | 2, attrition: (i % 4) / 10, ...(i % 5 ? {} : { n2: 7 + (i % 50) }) };
+      const direct = solve({ ...base, effectSize: d });
+      const general: Record<string, unknown> = { ...solve({ ...base, meanDifference: d, sd: 1 }) };
+      delete general.sdUsed;
+      delete general.meanDifference;
+      expect(direct, JSON.stringify(base)).toEqual(general);
     }
   });
 });
