@@ -124,14 +124,17 @@ class SeededRandom implements Random {
 
   gamma(shape: number): number {
     // Not recursive, so that the sampler below can be inlined into the simulation's loops.
-    if (shape < 1) return this.gammaAtLeastOne(shape + 1) * Math.pow(this.uniform(), 1 / shape);
+    if (shape < 1) return this.gammaAtLeastOne(shape + 1) * Math.exp(Math.log(this.uniform()) * (1 / shape));
     return this.gammaAtLeastOne(shape);
   }
 
   gammas(out: Float64Array, count: number, shape: number, scale: number): void {
     // A loop inside the class: each draw lands in the typed array, not in a number boxed for a return (measured: a tenth of the forecast's time went to collecting those).
     if (shape < 1) {
-      for (let i = 0; i < count; i++) out[i] = this.gammaAtLeastOne(shape + 1) * Math.pow(this.uniform(), 1 / shape) * scale;
+      // The boost U^(1/shape) as exp(log U / shape): Math.pow took 100–120 ns here against 55–65 (measured),
+      // and the default spread (shape 0.772) takes this branch for every site of every simulated study.
+      const inverse = 1 / shape;
+      for (let i = 0; i < count; i++) out[i] = this.gammaAtLeastOne(shape + 1) * Math.exp(Math.log(this.uniform()) * inverse) * scale;
     } else {
       for (let i = 0; i < count; i++) out[i] = this.gammaAtLeastOne(shape) * scale;
     }
