@@ -32,7 +32,10 @@ export function dunnettCoverage(c: number, k: number, rho: number, sides: 1 | 2,
   return integrate((u) => sdRatioPdf(u, df, logConst) * atU(c * u), lo, hi, U_NODES);
 }
 
-const cache = new Map<string, number>();
+// Critical values by rho, then alpha, then df, then arms and sides: numbers as keys, not a string built from
+// them; writing rho and alpha as text on every look-up was a quarter of a Dunnett solve (measured).
+const cache = new Map<number, Map<number, Map<number, Map<number, number>>>>();
+let cached = 0;
 
 function solveCritical(k: number, rho: number, alpha: number, sides: 1 | 2, df: number): number {
   const goal = 1 - alpha;
@@ -93,11 +96,21 @@ export function dunnettCritical(k: number, rho: number, alpha: number, sides: 1 
 }
 
 function cachedCritical(k: number, rho: number, alpha: number, sides: 1 | 2, df: number): number {
-  const key = `${k}|${rho}|${alpha}|${sides}|${df}`;
-  const hit = cache.get(key);
+  let byAlpha = cache.get(rho);
+  if (!byAlpha) cache.set(rho, (byAlpha = new Map()));
+  let byDf = byAlpha.get(alpha);
+  if (!byDf) byAlpha.set(alpha, (byDf = new Map()));
+  let byRest = byDf.get(df);
+  if (!byRest) byDf.set(df, (byRest = new Map()));
+  const key = k * 10 + sides;
+  const hit = byRest.get(key);
   if (hit !== undefined) return hit;
   const c = solveCritical(k, rho, alpha, sides, df);
-  if (cache.size > 20000) cache.clear();
-  cache.set(key, c);
+  if (cached > 20000) {
+    cache.clear();
+    cached = 0;
+  }
+  byRest.set(key, c);
+  cached++;
   return c;
 }
