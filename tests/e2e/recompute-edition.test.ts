@@ -31,6 +31,9 @@ const money = (text: string) => Number(text.replace(/[$,\s]/g, ""));
 /** The budget table's one period row: direct, F&A and total as the page shows them. */
 async function periodRow(page: Page): Promise<{ direct: number; fa: number; total: number }> {
   const rows = page.getByRole("table", { name: "Cost by budget period" }).first().locator("tbody tr");
+  // A fresh load can show the "Loading…" fallback for a moment after the load event (React reveals
+  // streamed content in batches), so the row is waited for before the rows are counted.
+  await rows.first().waitFor();
   expect(await rows.count()).toBe(1);
   const cells = (await rows.first().getByRole("cell").allTextContents()).map(money);
   return { direct: cells[0]!, fa: cells[1]!, total: cells[2]! };
@@ -55,6 +58,7 @@ describe("recomputing with a newer rate-book edition", () => {
   it("the grants officer publishes an edition from 2045 that changes only the F&A rate", async () => {
     await grants.goto(`${baseUrl}/rate-book`);
     const from = grants.getByLabel("Start from");
+    await from.waitFor();
     const options = await from.locator("option").allTextContents();
     const option = options.find((o) => o.startsWith(`${costedWith} (`));
     expect(option, `an option for “${costedWith}” among ${options.join(" | ")}`).toBeTruthy();
