@@ -85,8 +85,8 @@ describe("recruitment forecast: 20 sites open from month 0, shape 2, mean 0.92 a
   });
   it("the product's own simulation (used when sites are staggered) agrees with the closed form within three standard errors", () => {
     const nearlyTogether = forecastRecruitment({ ...input, activationMonths: input.activationMonths.map((_, i) => i * 1e-9) });
-    expect(nearlyTogether.method).toMatch(/simulation of 10,000/);
-    const se = Math.sqrt((0.706 * 0.294) / 10000);
+    expect(nearlyTogether.method).toMatch(/simulation of 5,000/);
+    const se = Math.sqrt((0.706 * 0.294) / 5000);
     expect(Math.abs(nearlyTogether.probability.byEnrolmentDeadline - f.probability.byEnrolmentDeadline)).toBeLessThan(3 * se);
     expect(Math.abs(nearlyTogether.monthsToEnrol.p90 - f.monthsToEnrol.p90)).toBeLessThan(0.3);
   });
@@ -104,7 +104,7 @@ describe("recruitment forecast with staggered sites (no closed form): the produc
       [34, f.probability.byFundedEnd!],
     ] as const) {
       const mine = share(times, deadline);
-      const se = Math.sqrt((mine * (1 - mine)) / times.length + (p * (1 - p)) / 10000) || 0.01;
+      const se = Math.sqrt((mine * (1 - mine)) / times.length + (p * (1 - p)) / 5000) || 0.01;
       expect(Math.abs(mine - p)).toBeLessThan(3 * se);
     }
   });
