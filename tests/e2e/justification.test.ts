@@ -6,8 +6,7 @@
  */
 import { beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import path from "node:path";
-import { useBrowser, screenshot, SCREENSHOT_DIR, signIn, waitForText } from "./browser";
+import { useBrowser, screenshot, signIn, waitForText } from "./browser";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -21,8 +20,7 @@ beforeAll(async () => {
 /** The justification card alone (and the header's buttons), small enough to read in a screenshot. */
 async function shoot(p: Page, name: string, selector = "section[aria-labelledby='justification-heading']"): Promise<void> {
   await screenshot(p, name);
-  const part = p.locator(selector);
-  await part.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-part.png`) });
+  await screenshot(p, `${name}-part`, { of: p.locator(selector) });
 }
 
 const SCREEN_FAILURE_CHANGE = "Screen failure: written for 35%, now 20%";

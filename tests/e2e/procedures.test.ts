@@ -5,8 +5,6 @@
  * pricing of one-off procedures is worked by hand in tests/unit/procedures.test.ts), and the one-off is
  * marked for the grants office's review, which the grants officer sees too.
  */
-import fs from "node:fs";
-import path from "node:path";
 import Database from "better-sqlite3";
 import Decimal from "decimal.js";
 import { beforeAll, describe, expect, inject, it } from "vitest";
@@ -15,7 +13,7 @@ import { formatMoney } from "@/lib/format/money";
 import { computeScenario } from "@/lib/planning/compute";
 import type { ScenarioInputs } from "@/lib/planning/schema";
 import { demoRateBook } from "@/scripts/demo-data";
-import { useBrowser, pageAs, screenshot, SCREENSHOT_DIR } from "./browser";
+import { useBrowser, pageAs, screenshot } from "./browser";
 
 const baseUrl = inject("baseUrl");
 const databasePath = inject("databasePath");
@@ -50,8 +48,7 @@ async function closeUp(p: Page, l: Locator, name: string, below = 0): Promise<vo
   await l.scrollIntoViewIfNeeded();
   const box = (await l.boundingBox())!;
   const viewport = p.viewportSize()!;
-  fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
-  await p.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), clip: { x: 0, y: Math.max(0, box.y - 8), width: viewport.width, height: Math.min(viewport.height - Math.max(0, box.y - 8), box.height + 16 + below) } });
+  await screenshot(p, name, { clip: { x: 0, y: Math.max(0, box.y - 8), width: viewport.width, height: Math.min(viewport.height - Math.max(0, box.y - 8), box.height + 16 + below) } });
 }
 
 describe("procedures on a visit", () => {
