@@ -12,11 +12,16 @@ const WHAT: Record<ReviewHistoryEntry["action"], string> = {
 /** When, in the reader's words: "2026-12-02 14:05 UTC" (the server's clock, stated). */
 const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 
-/** Who submitted, withdrew, returned (with the reason), recomputed and cleared the scenario, and when; oldest first. */
-export function ReviewHistory({ entries, state }: { entries: ReviewHistoryEntry[]; state: string }) {
+/**
+ * Who submitted, withdrew, returned (with the reason), recomputed and cleared the scenario, and when;
+ * oldest first. Every other change (saves, edits of the justifications) folds out below them, in the
+ * same card, so that the page has one history, not two.
+ */
+export function ReviewHistory({ entries, state, children }: { entries: ReviewHistoryEntry[]; state: string; children?: React.ReactNode }) {
   return (
-    <section className="card" aria-labelledby="history-heading">
-      <h2 id="history-heading">Review history</h2>
+    <section className="card flex flex-col gap-1" aria-labelledby="history-heading">
+      <h2 id="history-heading">History</h2>
+      <h3 className="text-sm font-medium text-ink-soft">Review steps</h3>
       {entries.length === 0 ? (
         <p className="mt-1 text-sm text-ink-soft" data-testid="history-empty">
           {state === "draft" ? "Not yet submitted for review." : "No review steps were recorded for this scenario."}
@@ -33,6 +38,7 @@ export function ReviewHistory({ entries, state }: { entries: ReviewHistoryEntry[
           ))}
         </ol>
       )}
+      {children}
     </section>
   );
 }

@@ -20,6 +20,12 @@ export function standingNote(s: Standing): string {
   }
 }
 
+/** The note as a table cell's label: "In force today", "Scheduled from 2028-01-01". */
+export function standingLabel(s: Standing): string {
+  const note = standingNote(s);
+  return note.charAt(0).toUpperCase() + note.slice(1);
+}
+
 /** A sentence for the edition's own page. */
 export function standingSentence(s: Standing): string {
   switch (s.kind) {

@@ -4,7 +4,7 @@ import { NewDraftForm } from "@/components/rate-book/new-draft-form";
 import { listEditions } from "@/db/queries/rate-book";
 import { can } from "@/lib/auth/permissions";
 import { isoDay } from "@/lib/rate-book/in-force";
-import { standingNote } from "@/lib/rate-book/standing-text";
+import { standingLabel, standingNote } from "@/lib/rate-book/standing-text";
 import { requireUser } from "@/lib/server/current-user";
 import { TableHead } from "@/components/table-head";
 import { ScrollRegion } from "@/components/scroll-region";
@@ -80,8 +80,13 @@ export default async function RateBookPage() {
                   <Link href={`/rate-book/${e.id}`}>{e.label}</Link>
                 </td>
                 <td className="num whitespace-nowrap">{e.effectiveDate}</td>
-                <td className="whitespace-nowrap">
-                  <span className={e.standing.kind === "in-force" ? "badge" : "badge badge-muted"}>{standingNote(e.standing).replace(/^./, (c) => c.toUpperCase())}</span>
+                <td className="min-w-[9rem]">
+                  {/* The edition in force stands out as a badge; the others' standing is text that wraps on a phone ("In force 2026-01-01 to 2027-06-30"). */}
+                  {e.standing.kind === "in-force" ? (
+                    <span className="badge whitespace-nowrap">{standingLabel(e.standing)}</span>
+                  ) : (
+                    <span className="text-sm text-ink-soft">{standingLabel(e.standing)}</span>
+                  )}
                 </td>
                 <td className="text-sm">{e.publishedAt ? `${e.publishedAt.slice(0, 10)} by ${e.publishedByName ?? "—"}` : "—"}</td>
               </tr>

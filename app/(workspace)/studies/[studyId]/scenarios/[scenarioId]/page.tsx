@@ -215,18 +215,19 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         {s.enrolmentPlan ? <EnrolmentTableView table={enrolmentTable(s.results.power.funnel.total.enrolled, s.enrolmentPlan)} /> : <p className="text-sm" data-testid="enrolment-none">No proportions given yet, so there is no table.</p>}
         {editable ? <EnrolmentForm key={s.version} ids={ids} plan={s.enrolmentPlan} /> : null}
       </section>
-      <ReviewHistory entries={history} state={s.state} />
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
-      <details className="card" data-testid="scenario-history">
-        <summary className="cursor-pointer font-medium">Every change ({changes.length})</summary>
-        <ul className="mt-2 flex flex-col gap-1 text-sm">
-          {changes.map((h, i) => (
-            <li key={i}>
-              <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")}</span> · {h.who ?? "—"} · {scenarioChangeWords(h)}
-            </li>
-          ))}
-        </ul>
-      </details>
+      <ReviewHistory entries={history} state={s.state}>
+        <details className="mt-2" data-testid="scenario-history">
+          <summary className="cursor-pointer text-sm font-medium">Every change, saves and edits included ({changes.length})</summary>
+          <ul className="mt-2 flex flex-col gap-1 text-sm">
+            {changes.map((h, i) => (
+              <li key={i}>
+                <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")} UTC</span> · {h.who ?? "—"} · {scenarioChangeWords(h)}
+              </li>
+            ))}
+          </ul>
+        </details>
+      </ReviewHistory>
     </div>
     </UnsavedChangesProvider>
   );
