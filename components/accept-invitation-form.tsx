@@ -28,13 +28,13 @@ export function AcceptInvitationForm({ token, newAccount }: { token: string; new
           <Field id={fields.name.id} label="Your name" errors={fields.name.errors}>
             <input {...getInputProps(fields.name, { type: "text" })} key={fields.name.key} className="input" autoComplete="name" aria-describedby={describedBy(fields.name.id, false, fields.name.errors)} />
           </Field>
-          <Field id={fields.password.id} label="Choose a password" hint="At least 8 characters." errors={fields.password.errors}>
+          <Field id={fields.password.id} label="Choose a password" hint="At least 8 characters; a passphrase of a few words is good." errors={fields.password.errors}>
             <input {...getInputProps(fields.password, { type: "password" })} key={fields.password.key} className="input" autoComplete="new-password" aria-describedby={describedBy(fields.password.id, true, fields.password.errors)} />
           </Field>
         </>
       ) : null}
       <button type="submit" className="btn" disabled={pending}>
-        {newAccount ? "Create my account and join" : "Join the study"}
+        {pending ? "Joining…" : newAccount ? "Create my account and join" : "Join the study"}
       </button>
     </form>
   );
