@@ -161,7 +161,13 @@ results.push({ name: "public solve() ÷ evaluation alone (ratio)", medianUs: pub
 const rates = demoRateBook(1);
 const study = { startDate: "2027-07-01", sponsorCap: "2400000.00" };
 const twoMeansScenario = DEMO_SCENARIOS.find((s) => s.inputs.design.design === "two-means")!.inputs;
-const curveMs = medianUsPerCall(() => reachCurve(twoMeansScenario, rates, study, { points: 256 }), 1, 25) / 1000;
+// Each call a different scenario, as users send them: the effect, the attrition and the enrolment rate vary.
+const curveInputs = Array.from({ length: 12 }, (_, k) => ({
+  ...twoMeansScenario,
+  design: { ...twoMeansScenario.design, effectSize: 0.35 + 0.02 * k },
+  recruitment: { ...twoMeansScenario.recruitment, attrition: 0.1 + 0.01 * (k % 7), ratePerSiteMonth: 1.2 + 0.1 * (k % 5) },
+}));
+const curveMs = medianUsPerCall((i) => reachCurve(curveInputs[i % 12]!, rates, study, { points: 256 }), 1, 25) / 1000;
 results.push({ name: "reach curve, 256 points, two-means (ms per curve)", medianUs: curveMs, target: 20 });
 
 // A four-scenario comparison workbook (exceljs), built in memory.

@@ -217,6 +217,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
       </section>
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
       <ReviewHistory entries={history} state={s.state}>
+        {changes.length ? (
         <details className="mt-2" data-testid="scenario-history">
           <summary className="cursor-pointer text-sm font-medium">Every change, saves and edits included ({changes.length})</summary>
           <ul className="mt-2 flex flex-col gap-1 text-sm">
@@ -227,6 +228,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
             ))}
           </ul>
         </details>
+        ) : null}
       </ReviewHistory>
     </div>
     </UnsavedChangesProvider>
