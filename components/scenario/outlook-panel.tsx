@@ -10,6 +10,7 @@ import { formatMoney } from "@/lib/format/money";
 import type { Outlook } from "@/lib/server/planning-cache";
 import { effectUnit } from "@/lib/power/effect-units";
 import { formatPower } from "@/lib/format/power";
+import { SavedVersionNote } from "./unsaved-changes";
 
 async function fetchOutlook(url: string): Promise<Outlook> {
   const res = await fetch(url);
@@ -27,13 +28,16 @@ function tryOutProblems(spread: string, mean: string, sd: string, hr: boolean): 
   if (spread.trim()) {
     const m = /^\s*(\d+(?:\.\d*)?)\s*%\s*$/.exec(spread);
     const v = m ? Number(m[1]) / 100 : num(spread);
-    if (!Number.isFinite(v) || v < 0.05 || v > 5) out.spread = "Type a coefficient of variation from 5% to 500%, like 60%, or leave it empty for the published spread.";
+    const bare = !m && Number.isFinite(v);
+    // A bare 60 is most likely 60% meant without its sign, not 6,000%: said so rather than refused blankly.
+    if (bare && v > 5 && v <= 500) out.spread = `Type it with its % sign, like ${spread.trim()}%: a number without one is read as a fraction (0.6 is 60%).`;
+    else if (!Number.isFinite(v) || v < 0.05 || v > 5) out.spread = "Type a coefficient of variation from 5% to 500%, like 60%, or leave it empty.";
   }
   if (mean.trim() || sd.trim()) {
     const m = num(mean);
     const d = num(sd);
     if (!mean.trim()) out.mean = "Type your expected effect too, or empty the uncertainty.";
-    else if (!Number.isFinite(m) || (hr ? m <= 0 || m > 100 : Math.abs(m) > 10)) out.mean = hr ? "Type a hazard ratio above 0, like 0.75." : "Type a number, like 0.4.";
+    else if (!Number.isFinite(m) || (hr ? m <= 0 || m > 100 : Math.abs(m) > 10)) out.mean = hr ? "Type a hazard ratio above 0 and at most 100, like 0.75." : "Type a number from −10 to 10, like 0.4.";
     if (!sd.trim()) out.sd = "Type how uncertain the effect is, like 0.1, or empty the expected effect.";
     else if (!Number.isFinite(d) || d <= 0 || d > 10) out.sd = "Type a number above 0 and at most 10, like 0.1.";
   }
@@ -61,9 +65,13 @@ export type SavedUncertainty = { rateSpread?: number; prior: { mean: number; sd:
 export function OutlookPanel({ scenarioId, version, effectName, saved, editable }: { scenarioId: number; version: number; effectName: string; saved: SavedUncertainty; editable: boolean }) {
   const unit = effectUnit(effectName);
   const hr = unit.name === "hazardRatio";
-  const [spread, setSpread] = useState(saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`);
-  const [mean, setMean] = useState(saved.prior ? String(saved.prior.mean) : "");
-  const [sd, setSd] = useState(saved.prior ? String(saved.prior.sd) : "");
+  // The boxes start from the saved values (the page remounts this panel after each save, keyed by version).
+  const savedSpread = saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`;
+  const savedMean = saved.prior ? String(saved.prior.mean) : "";
+  const savedSd = saved.prior ? String(saved.prior.sd) : "";
+  const [spread, setSpread] = useState(savedSpread);
+  const [mean, setMean] = useState(savedMean);
+  const [sd, setSd] = useState(savedSd);
   // Each try-out box is checked here, in the page's words, before anything is asked of the server; while
   // one is wrong the figures below stay for the last good values and say so.
   const problems = tryOutProblems(spread, mean, sd, hr);
@@ -77,8 +85,8 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
   const { data, error, isLoading } = useSWR(`/api/v1/scenarios/${scenarioId}/forecast?${query}&v=${version}`, fetchOutlook, { keepPreviousData: true, revalidateOnFocus: false });
   const f = data?.forecast;
   const a = data?.assurance;
-  const tried =
-    spread !== (saved.rateSpread === undefined ? "" : `${Math.round(saved.rateSpread * 100)}%`) || mean !== (saved.prior ? String(saved.prior.mean) : "") || sd !== (saved.prior ? String(saved.prior.sd) : "");
+  // An emptied box means the saved value (the server falls back to it), so only a different value is a try-out.
+  const tried = (spread.trim() !== "" && spread.trim() !== savedSpread) || ((mean.trim() !== "" || sd.trim() !== "") && (mean.trim() !== savedMean || sd.trim() !== savedSd));
   return (
     <section className="card flex flex-col gap-4" aria-labelledby="outlook-heading" aria-busy={isLoading}>
       <div>
@@ -87,13 +95,14 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
           For the saved version {version}. A forecast is a model of recruitment, not a promise: it shows how much the plan depends on sites enrolling at the planned rate.
           {tried ? (editable ? " You are trying values that are not saved: to keep them, enter them under “Uncertainty” in the form and save." : " You are trying values that are not saved with the scenario.") : ""}
         </p>
+        <SavedVersionNote what="this forecast and the assurance are for" version={version} testId="outlook-unsaved" />
       </div>
       <div className="grid gap-4 sm:grid-cols-3">
         <div className="field">
           <label htmlFor="outlook-spread">Try a spread of enrolment rates</label>
           <input id="outlook-spread" className="input" value={spread} onChange={(e) => setSpread(e.target.value)} placeholder={`${Math.round(DEFAULT_RATE_SPREAD * 100)}%`} aria-describedby="outlook-spread-hint outlook-spread-error" aria-invalid={problems.spread ? true : undefined} />
           <span id="outlook-spread-hint" className="hint">
-            Coefficient of variation, like 60%. Empty: {Math.round(DEFAULT_RATE_SPREAD * 100)}%, the published spread.
+            Coefficient of variation, like 60%. Empty: {savedSpread ? `the saved ${savedSpread}` : `${Math.round(DEFAULT_RATE_SPREAD * 100)}%, the published spread`}.
           </span>
           {problems.spread ? (
             <span id="outlook-spread-error" className="error" data-testid="outlook-error">
@@ -103,7 +112,10 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
         </div>
         <div className="field">
           <label htmlFor="outlook-mean">{hr ? "Try an expected hazard ratio" : `Try an expected effect (${unit.symbol})`}</label>
-          <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" aria-describedby="outlook-mean-error" aria-invalid={problems.mean ? true : undefined} />
+          <input id="outlook-mean" className="input" value={mean} onChange={(e) => setMean(e.target.value)} inputMode="decimal" aria-describedby="outlook-mean-hint outlook-mean-error" aria-invalid={problems.mean ? true : undefined} />
+          <span id="outlook-mean-hint" className="hint">
+            {savedMean ? `Empty: the saved ${savedMean}.` : "Empty: no assurance, only the power."}
+          </span>
           {problems.mean ? (
             <span id="outlook-mean-error" className="error" data-testid="outlook-error">
               {problems.mean}
@@ -112,7 +124,10 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
         </div>
         <div className="field">
           <label htmlFor="outlook-sd">{hr ? "Try an uncertainty (SD of the log hazard ratio)" : `Try an uncertainty of the effect (SD, ${unit.symbol})`}</label>
-          <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" aria-describedby="outlook-sd-error" aria-invalid={problems.sd ? true : undefined} />
+          <input id="outlook-sd" className="input" value={sd} onChange={(e) => setSd(e.target.value)} inputMode="decimal" aria-describedby="outlook-sd-hint outlook-sd-error" aria-invalid={problems.sd ? true : undefined} />
+          <span id="outlook-sd-hint" className="hint">
+            {savedSd ? `Empty: the saved ${savedSd}.` : "Give it with the expected effect."}
+          </span>
           {problems.sd ? (
             <span id="outlook-sd-error" className="error" data-testid="outlook-error">
               {problems.sd}
@@ -152,7 +167,12 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
                 {f.method}. Each site&apos;s rate varies around the plan&apos;s with a coefficient of variation of {pct(f.rateSpread)} (from {f.shapeSource}).
               </p>
               <h3 className="mt-2 text-base">What a slow enrolment costs</h3>
-              {f.slowEnd.map((s) => (
+              {f.slowEnd.map((s) =>
+                s.kind !== "costed" ? (
+                  <p key={s.percentile} className="notice" data-testid={`slow-end-${s.percentile}`}>
+                    {s.reason}
+                  </p>
+                ) : (
                 <details key={s.percentile} data-testid={`slow-end-${s.percentile}`}>
                   <summary className="cursor-pointer">
                     If enrolment takes as long as the {s.percentile}th percentile (costed as {s.monthsToEnrol} whole months): <strong className="num">+{formatMoney(s.difference, { cents: false })}</strong>, a total of {formatMoney(s.total, { cents: false })}
@@ -173,7 +193,8 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
                     </table>
                   </ScrollRegion>
                 </details>
-              ))}
+                ),
+              )}
             </div>
             <div className="h-64 w-full" data-testid="forecast-chart" data-months={f.milestones.length}>
               <ResponsiveContainer width="100%" height="100%">

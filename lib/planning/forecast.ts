@@ -6,20 +6,32 @@
  * year costs (effort that follows recruitment, site fees, monitoring).
  */
 import Decimal from "decimal.js";
-import { computeLedger, type RateBook } from "@/lib/costing";
+import { computeLedger, computeTimeline, TimelineError, type RateBook } from "@/lib/costing";
+import { MAX_STUDY_MONTHS } from "@/lib/costing/timeline";
 import { DEFAULT_RATE_SHAPE, forecastRecruitment, PUBLISHED_QUARTILES, type Forecast } from "@/lib/forecast/recruitment";
 import { costInputs, type ScenarioResults, type StudyContext } from "./compute";
 import type { ScenarioInputs } from "./schema";
+import { formatMoney } from "@/lib/format/money";
 
-export type SlowEnd = {
-  percentile: 80 | 90;
-  monthsToEnrol: number;
-  /** The plan's rate scaled down so that enrolment takes this long. */
-  ratePerSiteMonth: number;
-  total: string;
-  difference: string;
-  lines: { label: string; planned: string; slow: string; difference: string }[];
-};
+export type SlowEnd =
+  | {
+      kind: "costed";
+      percentile: 80 | 90;
+      /** Whole months of enrolment on the plan's timeline: the percentile's months, rounded up. */
+      monthsToEnrol: number;
+      /** The slowest rate per site at which the plan's timeline enrols in those months. */
+      ratePerSiteMonth: number;
+      total: string;
+      difference: string;
+      lines: { label: string; planned: string; slow: string; difference: string }[];
+    }
+  /** So slow that the timeline cannot be planned (over its 100 years): said, not costed. */
+  | { kind: "beyond"; percentile: 80 | 90; monthsToEnrol: number; reason: string };
+
+/** The slow end's extra cost in words: "+$184,704", or why it has none. */
+export function slowEndExtra(s: SlowEnd): string {
+  return s.kind === "costed" ? `+${formatMoney(s.difference, { cents: false })}` : "not costed (too slow to plan)";
+}
 
 export type ScenarioForecast = Forecast & {
   rateShape: number;
@@ -60,10 +72,30 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
     deadlines,
   });
   const arms = results.power.funnel.arms;
+  const slowInputs = costInputs(i, study, arms, results.sites);
+  const enrolled = slowInputs.arms.reduce((a, b) => a + b.enrolled, 0);
+  const lastVisitOffset0 = Math.max(0, ...slowInputs.visits.map((v) => v.month));
+  // Whole months of enrolment on the plan's own timeline at a rate, or null past the timeline's limit.
+  const monthsAt = (rate: number) => {
+    try {
+      return computeTimeline({ ...slowInputs.timeline, ratePerSiteMonth: rate }, enrolled, lastVisitOffset0, slowInputs.startDate).monthsToEnrol;
+    } catch (err) {
+      if (err instanceof TimelineError) return null;
+      throw err;
+    }
+  };
   const slowEnd = ([80, 90] as const).map((percentile): SlowEnd => {
-    const months = percentile === 80 ? forecast.monthsToEnrol.p80 : forecast.monthsToEnrol.p90;
-    const rate = i.recruitment.ratePerSiteMonth * Math.min(1, forecast.plannedMonths / months);
-    const slowInputs = costInputs(i, study, arms, results.sites);
+    const forecastMonths = percentile === 80 ? forecast.monthsToEnrol.p80 : forecast.monthsToEnrol.p90;
+    const target = Math.max(1, Math.ceil(forecastMonths - 1e-9));
+    const rate = rateTaking(target, i.recruitment.ratePerSiteMonth, monthsAt);
+    if (rate === null) {
+      return {
+        kind: "beyond",
+        percentile,
+        monthsToEnrol: target,
+        reason: `At the ${percentile}th percentile enrolment would take ${Number.isFinite(target) ? `about ${target.toLocaleString("en-US")} months` : "for ever"}, longer than the ${MAX_STUDY_MONTHS.toLocaleString("en-US")} months a budget can be planned over; the spread of rates is too wide for a cost to mean anything.`,
+      };
+    }
     const slow = computeLedger({ ...slowInputs, timeline: { ...slowInputs.timeline, ratePerSiteMonth: rate } }, rates);
     const byKey = new Map(slow.lines.map((l) => [l.key, l]));
     const lines = ledger.lines
@@ -75,6 +107,7 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
     const faDifference = new Decimal(slow.totals.fa).minus(ledger.totals.fa).toFixed(2);
     if (faDifference !== "0.00") lines.push({ label: "F&A", planned: ledger.totals.fa, slow: slow.totals.fa, difference: faDifference });
     return {
+      kind: "costed",
       percentile,
       monthsToEnrol: slow.timeline.monthsToEnrol,
       ratePerSiteMonth: rate,
@@ -91,4 +124,29 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
     deadlines,
     slowEnd,
   };
+}
+
+/**
+ * The fastest rate per site at which the plan's timeline still takes `target` whole months (the
+ * plan's own rate when it is already that slow), by bisection: months fall as the rate rises. With a
+ * stagger, enrolment time is not inversely proportional to the rate (sites open on their own
+ * schedule), so scaling the rate by the months' ratio costed 47 months for a percentile of 47.9.
+ * Null when no rate within the timeline's limit takes that long.
+ */
+function rateTaking(target: number, planned: number, monthsAt: (rate: number) => number | null): number | null {
+  const at = (rate: number) => monthsAt(rate) ?? Number.POSITIVE_INFINITY;
+  if (at(planned) >= target) return planned;
+  let hi = planned; // takes fewer months than the target
+  let lo = planned / 2;
+  while (at(lo) < target) {
+    hi = lo;
+    lo /= 2;
+    if (lo < 1e-9) return null;
+  }
+  for (let k = 0; k < 50 && hi - lo > 1e-12 * planned; k++) {
+    const mid = (lo + hi) / 2;
+    if (at(mid) >= target) lo = mid;
+    else hi = mid;
+  }
+  return monthsAt(lo) === null ? null : lo;
 }

@@ -107,6 +107,25 @@ describe("the investigator reads how likely the plan is", () => {
     await page.getByTestId("outlook-stale").waitFor({ state: "detached" });
   });
 
+  it("a bare 60 asks for its % sign; a spread too wide to plan says so at the slow end in words, and nothing fails", async () => {
+    await page.getByLabel("Try a spread of enrolment rates").fill("60");
+    await waitForText(page.getByTestId("outlook-error").first(), /^Type it with its % sign, like 60%/);
+    await page.getByLabel("Try a spread of enrolment rates").fill("500%");
+    await waitForText(page.getByTestId("slow-end-90"), /^At the 90th percentile enrolment would take .* longer than the 1,200 months a budget can be planned over/);
+    expect(await page.getByTestId("outlook-server-error").count()).toBe(0);
+  });
+
+  it("an unsaved change in the form: the panel says it shows the saved version; once saved, its boxes start from the new values", async () => {
+    await textField(page, "Spread of enrolment rates between sites").fill("30%");
+    await waitForText(page.getByTestId("outlook-unsaved"), /^The form above has unsaved changes: this forecast and the assurance are for the saved version \d+/);
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.getByText("Saved, with its results.").waitFor();
+    await waitForText(page.getByText(/Each site's rate varies around the plan's with a coefficient of variation of/), /coefficient of variation of 30% \(from the investigator's choice\)/);
+    expect(await page.getByLabel("Try a spread of enrolment rates").inputValue()).toBe("30%");
+    expect(await page.getByText(/You are trying values that are not saved/).count()).toBe(0);
+    expect(await page.getByTestId("outlook-unsaved").count()).toBe(0);
+  });
+
   it("every other design shows its assurance for a prior in its own unit", async () => {
     const { scenarios } = await ensureDesignStudy(page, baseUrl);
     const priors: Record<string, [string, string]> = {

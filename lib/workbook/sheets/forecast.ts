@@ -35,7 +35,10 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   row("Months to enrol, median", Number(f.monthsToEnrol.median.toFixed(2)), "0.0");
   row("Months to enrol, 80th percentile", Number(f.monthsToEnrol.p80.toFixed(2)), "0.0");
   row("Months to enrol, 90th percentile", Number(f.monthsToEnrol.p90.toFixed(2)), "0.0");
-  for (const slow of f.slowEnd) row(`Extra cost if enrolment takes the ${slow.percentile}th percentile (${slow.monthsToEnrol} months)`, Number(slow.difference), MONEY);
+  for (const slow of f.slowEnd) {
+    if (slow.kind === "costed") row(`Extra cost if enrolment takes the ${slow.percentile}th percentile (${slow.monthsToEnrol} months)`, Number(slow.difference), MONEY);
+    else row(`Extra cost if enrolment takes the ${slow.percentile}th percentile`, slow.reason);
+  }
   if (a) {
     row("Power at the target effect", Number(a.power.toFixed(4)), "0.000");
     row(`Assurance (prior mean ${prior!.mean}, SD ${prior!.sd}${prior!.source ? `, from ${prior!.source}` : ""})`, Number(a.assurance.toFixed(4)), "0.000");
@@ -45,7 +48,7 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   ws.getCell(`A${r}`).value = "Planned enrolment by month, with the band where 80% of simulated studies fall";
   ws.getCell(`A${r}`).font = { bold: true };
   r++;
-  ws.getRow(r).values = ["Month of the study", "Planned", "10th percentile", "Median", "90th percentile"];
+  ws.getRow(r).values = ["Month of the study", "Planned", "Enrolled, slow end (10th percentile)", "Enrolled, median", "Enrolled, fast end (90th percentile)"];
   ws.getRow(r).font = { bold: true };
   r++;
   for (const m of f.milestones) {
@@ -53,6 +56,7 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
     r++;
   }
   for (const slow of f.slowEnd) {
+    if (slow.kind !== "costed") continue;
     r++;
     ws.getCell(`A${r}`).value = `Lines that change at the ${slow.percentile}th percentile`;
     ws.getCell(`A${r}`).font = { bold: true };

@@ -184,6 +184,8 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         adoptIds={mayDraft ? ids : null}
       />
       <OutlookPanel
+        // A save (a new version) starts the try-out boxes afresh from the saved values.
+        key={s.version}
         scenarioId={s.id}
         version={s.version}
         effectName={s.results.effectName}

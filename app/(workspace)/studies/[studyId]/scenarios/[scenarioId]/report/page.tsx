@@ -10,6 +10,7 @@ import { SponsorBudgetTable } from "@/components/scenario/sponsor-budget";
 import { getEdition } from "@/db/queries/rate-book";
 import { getScenario, scenarioContext } from "@/db/queries/scenarios";
 import { formatMoney } from "@/lib/format/money";
+import { slowEndExtra } from "@/lib/planning/forecast";
 import { justificationWarning } from "@/lib/planning/justification-figures";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
@@ -176,8 +177,8 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
         <p className="text-sm">
           Chance of enrolling all {p.funnel.total.enrolled} participants by the planned end of enrolment (the end of month {f.deadlines.enrolment}): {pc(f.probability.byEnrolmentDeadline)}
           {f.probability.byFundedEnd !== null ? `; in time for the last visits and close-out within the funded period: ${pc(f.probability.byFundedEnd)}` : ""}. Months to enrol if sites vary: median{" "}
-          {f.monthsToEnrol.median.toFixed(1)}, 80th percentile {f.monthsToEnrol.p80.toFixed(1)}, 90th percentile {f.monthsToEnrol.p90.toFixed(1)} (planned {f.plannedMonths.toFixed(1)}). If enrolment
-          takes the 80th percentile, the budget grows by {formatMoney(f.slowEnd[0]!.difference, { cents: false })}; the 90th, by {formatMoney(f.slowEnd[1]!.difference, { cents: false })}.
+          {f.monthsToEnrol.median.toFixed(1)}, 80th percentile {f.monthsToEnrol.p80.toFixed(1)}, 90th percentile {f.monthsToEnrol.p90.toFixed(1)} (planned {f.plannedMonths.toFixed(1)}). Extra cost if enrolment
+          takes as long as the 80th percentile: {slowEndExtra(f.slowEnd[0]!)}; the 90th: {slowEndExtra(f.slowEnd[1]!)}.
           {outlook.assurance ? ` Assurance over the investigator's expectation of the effect: ${outlook.assurance.assurance.toFixed(3)} (power at the target ${formatPower(outlook.assurance.power)}).` : ""}
         </p>
         <p className="text-xs text-ink-soft">
@@ -190,9 +191,9 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
             <tr>
               <th scope="col">Month</th>
               <th scope="col" className="num">Planned enrolment</th>
-              <th scope="col" className="num">10th percentile</th>
+              <th scope="col" className="num">Slow end (10th percentile)</th>
               <th scope="col" className="num">Median</th>
-              <th scope="col" className="num">90th percentile</th>
+              <th scope="col" className="num">Fast end (90th percentile)</th>
             </tr>
           </thead>
           <tbody>
