@@ -5,7 +5,7 @@ import { Area, CartesianGrid, ComposedChart, Line, ReferenceLine, ResponsiveCont
 import useSWR from "swr";
 import { ScrollRegion } from "@/components/scroll-region";
 import { TableHead } from "@/components/table-head";
-import { DEFAULT_RATE_SPREAD } from "@/lib/forecast/defaults";
+import { DEFAULT_RATE_SPREAD, monthsWords as months } from "@/lib/forecast/defaults";
 import { formatMoney } from "@/lib/format/money";
 import type { Outlook } from "@/lib/server/planning-cache";
 import { effectUnit } from "@/lib/power/effect-units";
@@ -43,7 +43,6 @@ function tryOutProblems(spread: string, mean: string, sd: string, hr: boolean): 
   }
   return out;
 }
-const months = (m: number) => `${m.toFixed(1)} months`;
 
 /** The value typed last, once the user has paused: the forecast redraws as they type, not on every key. */
 function useSettled<T>(value: T, ms = 350): T {

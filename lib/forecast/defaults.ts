@@ -11,3 +11,18 @@ export const DEFAULT_RATE_SHAPE = 0.772;
 
 /** The same spread as a coefficient of variation of sites' rates: 1 / √shape. */
 export const DEFAULT_RATE_SPREAD = 1 / Math.sqrt(DEFAULT_RATE_SHAPE);
+
+/**
+ * The longest time to enrol the forecast reports: 12,000 months (a thousand years). With a very wide
+ * spread and few sites the percentiles have no useful size (the F distribution with under one degree
+ * of freedom in its denominator has no mean), so they are reported as at least this, in words.
+ */
+export const MONTHS_CEILING = 12_000;
+
+/** Months to enrol as a figure: "47.9", or "over 12,000" at the ceiling. */
+export function monthsFigure(m: number): string {
+  return m >= MONTHS_CEILING ? `over ${MONTHS_CEILING.toLocaleString("en-US")}` : m.toFixed(1);
+}
+
+/** The same with its unit: "47.9 months". */
+export const monthsWords = (m: number): string => `${monthsFigure(m)} months`;

@@ -19,7 +19,7 @@
 import { jStat } from "@/lib/power/special";
 import { seededRandom } from "./random";
 
-import { DEFAULT_RATE_SHAPE, PUBLISHED_QUARTILES } from "./defaults";
+import { DEFAULT_RATE_SHAPE, MONTHS_CEILING, PUBLISHED_QUARTILES } from "./defaults";
 
 export { DEFAULT_RATE_SHAPE, PUBLISHED_QUARTILES };
 
@@ -166,6 +166,9 @@ export function forecastRecruitment(input: ForecastInput): Forecast {
     method = `Poisson–gamma model, seeded simulation of ${groupedThousands(runs)} studies (sites open on the plan's staggered schedule)`;
   }
 
+  // Percentiles past the ceiling (or past what the F quantile can give) are reported at it.
+  const capped = (month: number) => (Number.isFinite(month) && month - first < MONTHS_CEILING ? month : first + MONTHS_CEILING);
+  finish = { median: capped(finish.median), p80: capped(finish.p80), p90: capped(finish.p90) };
   return {
     method,
     plannedMonths,

@@ -281,6 +281,15 @@ describe("a scenario's forecast and the cost of a slow enrolment (demo scenario 
     const [p80, p90] = f.slowEnd;
     expect(p80?.kind === "costed" && p90?.kind === "costed" && Number(p90.difference) > Number(p80.difference)).toBe(true);
   });
+  it("one site with the widest spread the page takes (CV 500%): every percentile is a number (at most the 12,000-month ceiling), so nothing reaches the page as null", () => {
+    const one = forecastRecruitment({ target: 216, ratePerSiteMonth: 20, activationMonths: [4], rateShape: 1 / 25, deadlines: { enrolment: 16, funded: null } });
+    const back = JSON.parse(JSON.stringify(one)) as typeof one;
+    for (const m of [back.monthsToEnrol.median, back.monthsToEnrol.p80, back.monthsToEnrol.p90]) {
+      expect(typeof m).toBe("number");
+      expect(m).toBeLessThanOrEqual(12_000);
+    }
+    expect(back.monthsToEnrol.p90).toBe(12_000);
+  });
   it("a spread of rates too wide to plan (a CV of 500%, the largest the page takes) says so instead of failing, and costs nothing it cannot plan", () => {
     const wide = forecastScenario(scenario.inputs, results, rates, study, { rateSpread: 5 });
     const p90 = wide.slowEnd.find((x) => x.percentile === 90)!;

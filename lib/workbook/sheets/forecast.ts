@@ -3,6 +3,7 @@
  * 10–90 % band, what a slow enrolment costs line by line, and the assurance where a prior is given.
  * Values, not formulas: they come from a model (lib/forecast), not from the ledger's arithmetic.
  */
+import { MONTHS_CEILING, monthsFigure } from "@/lib/forecast/defaults";
 import { scenarioAssurance } from "@/lib/planning/assurance";
 import { forecastScenario } from "@/lib/planning/forecast";
 import { givenPrior } from "@/lib/planning/schema";
@@ -32,9 +33,11 @@ export function forecastSheet(ctx: Ctx, s: WorkbookScenario, sponsorCap: string 
   row("Where the spread comes from", f.shapeSource);
   row(`Chance of enrolling by the planned end (month ${f.deadlines.enrolment})`, f.probability.byEnrolmentDeadline, "0.0%");
   row("Months to enrol at the planned rate", Number(f.plannedMonths.toFixed(2)), "0.0");
-  row("Months to enrol, median", Number(f.monthsToEnrol.median.toFixed(2)), "0.0");
-  row("Months to enrol, 80th percentile", Number(f.monthsToEnrol.p80.toFixed(2)), "0.0");
-  row("Months to enrol, 90th percentile", Number(f.monthsToEnrol.p90.toFixed(2)), "0.0");
+  // A percentile at the forecast's ceiling is said in words ("over 12,000"), not as a number of no size.
+  const monthsCell = (m: number) => (m >= MONTHS_CEILING ? monthsFigure(m) : Number(m.toFixed(2)));
+  row("Months to enrol, median", monthsCell(f.monthsToEnrol.median), "0.0");
+  row("Months to enrol, 80th percentile", monthsCell(f.monthsToEnrol.p80), "0.0");
+  row("Months to enrol, 90th percentile", monthsCell(f.monthsToEnrol.p90), "0.0");
   for (const slow of f.slowEnd) {
     if (slow.kind === "costed") row(`Extra cost if enrolment takes the ${slow.percentile}th percentile (${slow.monthsToEnrol} months)`, Number(slow.difference), MONEY);
     else row(`Extra cost if enrolment takes the ${slow.percentile}th percentile`, slow.reason);

@@ -8,6 +8,7 @@ import { sponsorCheckLines } from "@/lib/planning/sponsor-checks";
 import { HttpError } from "@/lib/auth/errors";
 import { formatMoney } from "@/lib/format/money";
 import { slowEndExtra } from "@/lib/planning/forecast";
+import { monthsFigure } from "@/lib/forecast/defaults";
 import { designName } from "@/lib/power/design-names";
 import { requireUser } from "@/lib/server/current-user";
 import { loadOr404 } from "@/lib/server/page";
@@ -90,7 +91,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
     section: "How likely the plan is",
     rows: [
       { label: "Chance of enrolling by the planned end", values: (s) => pct(outlooks.get(s.id)!.forecast.probability.byEnrolmentDeadline) },
-      { label: "Months to enrol, 90th percentile", values: (s) => outlooks.get(s.id)!.forecast.monthsToEnrol.p90.toFixed(1) },
+      { label: "Months to enrol, 90th percentile", values: (s) => monthsFigure(outlooks.get(s.id)!.forecast.monthsToEnrol.p90) },
       { label: "Extra cost at the 90th percentile", values: (s) => slowEndExtra(outlooks.get(s.id)!.forecast.slowEnd[1]!) },
       { label: "Assurance", values: (s) => outlooks.get(s.id)!.assurance?.assurance.toFixed(3) ?? "no prior given" },
     ],

@@ -11,6 +11,7 @@ import { getEdition } from "@/db/queries/rate-book";
 import { getScenario, scenarioContext } from "@/db/queries/scenarios";
 import { formatMoney } from "@/lib/format/money";
 import { slowEndExtra } from "@/lib/planning/forecast";
+import { monthsFigure } from "@/lib/forecast/defaults";
 import { justificationWarning } from "@/lib/planning/justification-figures";
 import { designName } from "@/lib/power/design-names";
 import { effectUnit } from "@/lib/power/effect-units";
@@ -177,7 +178,7 @@ export default async function ReportPage({ params }: { params: Promise<{ studyId
         <p className="text-sm">
           Chance of enrolling all {p.funnel.total.enrolled} participants by the planned end of enrolment (the end of month {f.deadlines.enrolment}): {pc(f.probability.byEnrolmentDeadline)}
           {f.probability.byFundedEnd !== null ? `; in time for the last visits and close-out within the funded period: ${pc(f.probability.byFundedEnd)}` : ""}. Months to enrol if sites vary: median{" "}
-          {f.monthsToEnrol.median.toFixed(1)}, 80th percentile {f.monthsToEnrol.p80.toFixed(1)}, 90th percentile {f.monthsToEnrol.p90.toFixed(1)} (planned {f.plannedMonths.toFixed(1)}). Extra cost if enrolment
+          {monthsFigure(f.monthsToEnrol.median)}, 80th percentile {monthsFigure(f.monthsToEnrol.p80)}, 90th percentile {monthsFigure(f.monthsToEnrol.p90)} (planned {f.plannedMonths.toFixed(1)}). Extra cost if enrolment
           takes as long as the 80th percentile: {slowEndExtra(f.slowEnd[0]!)}; the 90th: {slowEndExtra(f.slowEnd[1]!)}.
           {outlook.assurance ? ` Assurance over the investigator's expectation of the effect: ${outlook.assurance.assurance.toFixed(3)} (power at the target ${formatPower(outlook.assurance.power)}).` : ""}
         </p>
