@@ -44,6 +44,12 @@ function tryOutProblems(spread: string, mean: string, sd: string, hr: boolean): 
   return out;
 }
 
+/** Whole-year-like steps for the month axis (6, 12, 24, …), so that its last tick does not crowd the one before. */
+function monthTicks(months: number): number[] {
+  const step = [3, 6, 12, 24, 60, 120, 240, 600].find((s) => months / s <= 6) ?? 1200;
+  return Array.from({ length: Math.floor((months - 1) / step) + 1 }, (_, k) => k * step);
+}
+
 /** The value typed last, once the user has paused: the forecast redraws as they type, not on every key. */
 function useSettled<T>(value: T, ms = 350): T {
   const [settled, setSettled] = useState(value);
@@ -197,9 +203,9 @@ export function OutlookPanel({ scenarioId, version, effectName, saved, editable 
             </div>
             <div className="h-64 w-full" data-testid="forecast-chart" data-months={f.milestones.length}>
               <ResponsiveContainer width="100%" height="100%">
-                <ComposedChart data={f.milestones.map((m) => ({ ...m, band: [m.low, m.high] }))} margin={{ top: 10, right: 20, bottom: 20, left: 10 }}>
+                <ComposedChart data={f.milestones.map((m) => ({ ...m, band: [m.low, m.high] }))} margin={{ top: 24, right: 20, bottom: 20, left: 10 }}>
                   <CartesianGrid stroke="#e5e0d3" />
-                  <XAxis dataKey="month" type="number" domain={["dataMin", "dataMax"]} label={{ value: "Month of the study", position: "insideBottom", offset: -10 }} />
+                  <XAxis dataKey="month" type="number" domain={[0, "dataMax"]} ticks={monthTicks(f.milestones.length)} label={{ value: "Month of the study", position: "insideBottom", offset: -10 }} />
                   <YAxis width={48} label={{ value: "Enrolled", angle: -90, position: "insideLeft", style: { textAnchor: "middle" } }} />
                   <Tooltip
                     content={({ active, payload }) => {

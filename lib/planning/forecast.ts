@@ -9,6 +9,7 @@ import Decimal from "decimal.js";
 import { computeLedger, computeTimeline, TimelineError, type RateBook } from "@/lib/costing";
 import { MAX_STUDY_MONTHS } from "@/lib/costing/timeline";
 import { DEFAULT_RATE_SHAPE, forecastRecruitment, PUBLISHED_QUARTILES, type Forecast } from "@/lib/forecast/recruitment";
+import { MONTHS_CEILING, monthsWords } from "@/lib/forecast/defaults";
 import { costInputs, type ScenarioResults, type StudyContext } from "./compute";
 import type { ScenarioInputs } from "./schema";
 import { formatMoney } from "@/lib/format/money";
@@ -93,7 +94,7 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
         kind: "beyond",
         percentile,
         monthsToEnrol: target,
-        reason: `At the ${percentile}th percentile enrolment would take ${Number.isFinite(target) ? `about ${target.toLocaleString("en-US")} months` : "for ever"}, longer than the ${MAX_STUDY_MONTHS.toLocaleString("en-US")} months a budget can be planned over; the spread of rates is too wide for a cost to mean anything.`,
+        reason: `At the ${percentile}th percentile enrolment would take ${forecastMonths >= MONTHS_CEILING ? monthsWords(forecastMonths) : `about ${target.toLocaleString("en-US")} months`}, longer than the ${MAX_STUDY_MONTHS.toLocaleString("en-US")} months a budget can be planned over; the spread of rates is too wide for a cost to mean anything.`,
       };
     }
     const slow = computeLedger({ ...slowInputs, timeline: { ...slowInputs.timeline, ratePerSiteMonth: rate } }, rates);
