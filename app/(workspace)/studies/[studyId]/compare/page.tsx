@@ -90,6 +90,8 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
   const likely: { section: string; rows: Row[] } = {
     section: "How likely the plan is",
     rows: [
+      // The assumption behind each forecast, beside it: scenarios may differ in nothing else.
+      { label: "Spread of enrolment rates between sites (CV)", values: (s) => `${pct(outlooks.get(s.id)!.forecast.rateSpread)}${s.inputs.uncertainty?.rateSpread === undefined ? " (published)" : ""}` },
       { label: "Chance of enrolling by the planned end", values: (s) => pct(outlooks.get(s.id)!.forecast.probability.byEnrolmentDeadline) },
       { label: "Months to enrol, 90th percentile", values: (s) => monthsFigure(outlooks.get(s.id)!.forecast.monthsToEnrol.p90) },
       { label: "Extra cost at the 90th percentile", values: (s) => slowEndExtra(outlooks.get(s.id)!.forecast.slowEnd[1]!) },
