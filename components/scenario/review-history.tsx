@@ -17,7 +17,7 @@ const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
  * oldest first. Every other change (saves, edits of the justifications) folds out below them, in the
  * same card, so that the page has one history, not two.
  */
-export function ReviewHistory({ entries, state, children }: { entries: ReviewHistoryEntry[]; state: string; children?: React.ReactNode }) {
+export function ReviewHistory({ entries, state, changes }: { entries: ReviewHistoryEntry[]; state: string; changes: { at: string; who: string | null; words: string }[] }) {
   return (
     <section className="card flex flex-col gap-1" aria-labelledby="history-heading">
       <h2 id="history-heading">History</h2>
@@ -38,7 +38,18 @@ export function ReviewHistory({ entries, state, children }: { entries: ReviewHis
           ))}
         </ol>
       )}
-      {children}
+      {changes.length ? (
+        <details className="mt-2" data-testid="scenario-history">
+          <summary className="cursor-pointer text-sm font-medium">Every change, saves and edits included ({changes.length})</summary>
+          <ul className="mt-2 flex flex-col gap-1 text-sm">
+            {changes.map((h, i) => (
+              <li key={i}>
+                <span className="num text-ink-soft">{when(h.at)}</span> · {h.who ?? "—"} · {h.words}
+              </li>
+            ))}
+          </ul>
+        </details>
+      ) : null}
     </section>
   );
 }

@@ -67,16 +67,31 @@ export type CostStructure = {
   fa: FaTerms;
 };
 
+/** A cluster design's sites follow its clusters; other inputs are read as given. */
+function withClusterSites(inputs: CostInputs): CostInputs {
+  return inputs.timeline.clusters ? { ...inputs, timeline: { ...inputs.timeline, sites: sitesForClusters(inputs.timeline.clusters) } } : inputs;
+}
+
+function timelineOfResolved(inputs: CostInputs): TimelineResult {
+  const enrolled = inputs.arms.reduce((a, b) => a + b.enrolled, 0);
+  const lastVisitOffset = inputs.visits.reduce((last, v) => Math.max(last, v.month), 0);
+  return computeTimeline(inputs.timeline, enrolled, lastVisitOffset, inputs.startDate);
+}
+
+/** The timeline a ledger of these inputs is priced on (the slow-enrolment forecast asks it at other rates). */
+export function timelineOf(inputs: CostInputs): TimelineResult {
+  return timelineOfResolved(withClusterSites(inputs));
+}
+
 /** Everything but the prices: the timeline, and each line's quantities, salaries and amounts by period. */
 export function buildCostStructure(inputs: CostInputs, rates: RateBook): CostStructure {
-  if (inputs.timeline.clusters) inputs = { ...inputs, timeline: { ...inputs.timeline, sites: sitesForClusters(inputs.timeline.clusters) } };
+  inputs = withClusterSites(inputs);
   const enrolled = inputs.arms.reduce((a, b) => a + b.enrolled, 0);
   const evaluable = inputs.arms.reduce((a, b) => a + b.evaluable, 0);
   const screened = inputs.arms.reduce((a, b) => a + b.screened, 0);
   if (evaluable > enrolled || enrolled > screened) throw new CostingError("The funnel must run screened ≥ enrolled ≥ evaluable.");
   const visits = [...inputs.visits].sort((a, b) => a.month - b.month);
-  const lastVisitOffset = visits.length ? visits[visits.length - 1]!.month : 0;
-  const tl = computeTimeline(inputs.timeline, enrolled, lastVisitOffset, inputs.startDate);
+  const tl = timelineOfResolved(inputs);
   const esc = escalationOf(inputs, rates);
   const lines = new LineList(tl.periods.length, esc);
   const routine = new LineList(tl.periods.length, esc);

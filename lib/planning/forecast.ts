@@ -6,7 +6,7 @@
  * year costs (effort that follows recruitment, site fees, monitoring).
  */
 import Decimal from "decimal.js";
-import { computeLedger, computeTimeline, TimelineError, type RateBook } from "@/lib/costing";
+import { computeLedger, timelineOf, TimelineError, type RateBook } from "@/lib/costing";
 import { MAX_STUDY_MONTHS } from "@/lib/costing/timeline";
 import { DEFAULT_RATE_SHAPE, forecastRecruitment, PUBLISHED_QUARTILES, type Forecast } from "@/lib/forecast/recruitment";
 import { MONTHS_CEILING, monthsWords } from "@/lib/forecast/defaults";
@@ -74,12 +74,10 @@ export function forecastScenario(i: ScenarioInputs, results: ScenarioResults, ra
   });
   const arms = results.power.funnel.arms;
   const slowInputs = costInputs(i, study, arms, results.sites);
-  const enrolled = slowInputs.arms.reduce((a, b) => a + b.enrolled, 0);
-  const lastVisitOffset0 = Math.max(0, ...slowInputs.visits.map((v) => v.month));
-  // Whole months of enrolment on the plan's own timeline at a rate, or null past the timeline's limit.
+  // Whole months of enrolment on the ledger's own timeline at a rate, or null past the timeline's limit.
   const monthsAt = (rate: number) => {
     try {
-      return computeTimeline({ ...slowInputs.timeline, ratePerSiteMonth: rate }, enrolled, lastVisitOffset0, slowInputs.startDate).monthsToEnrol;
+      return timelineOf({ ...slowInputs, timeline: { ...slowInputs.timeline, ratePerSiteMonth: rate } }).monthsToEnrol;
     } catch (err) {
       if (err instanceof TimelineError) return null;
       throw err;

@@ -218,20 +218,7 @@ export default async function ScenarioPage({ params, searchParams }: { params: P
         {editable ? <EnrolmentForm key={s.version} ids={ids} plan={s.enrolmentPlan} /> : null}
       </section>
       {editable ? <CommentsPanel scenarioId={s.id} canComment={can(user, "scenario.comment", ctx)} design={s.inputs.design.design} /> : null}
-      <ReviewHistory entries={history} state={s.state}>
-        {changes.length ? (
-        <details className="mt-2" data-testid="scenario-history">
-          <summary className="cursor-pointer text-sm font-medium">Every change, saves and edits included ({changes.length})</summary>
-          <ul className="mt-2 flex flex-col gap-1 text-sm">
-            {changes.map((h, i) => (
-              <li key={i}>
-                <span className="num text-ink-soft">{h.at.slice(0, 16).replace("T", " ")} UTC</span> · {h.who ?? "—"} · {scenarioChangeWords(h)}
-              </li>
-            ))}
-          </ul>
-        </details>
-        ) : null}
-      </ReviewHistory>
+      <ReviewHistory entries={history} state={s.state} changes={changes.map((h) => ({ at: h.at, who: h.who, words: scenarioChangeWords(h) }))} />
     </div>
     </UnsavedChangesProvider>
   );
